@@ -1,0 +1,189 @@
+package infer
+
+import (
+	"math"
+	"testing"
+)
+
+func TestStandardErrorReconstruction(t *testing.T) {
+	nan := math.NaN()
+	tests := []struct {
+		name string
+		got  func() (float64, error)
+		want float64
+		tol  float64 // relative
+	}{
+		// Altman & Bland (2011) BMJ 343:d2090, worked example (a): "49% v 32%,
+		// P=0.032", Est 17; published SE 17/2.141 = 7.940 with the note's polynomial
+		// for z. The exact quantile gives z = 2.1444 (PUBLISHED-VALUES.md §1.1), so
+		// the published SE is matched to the polynomial's accuracy (0.2%).
+		{"BMJ d2090 zinc trial SE from P", func() (float64, error) { return StandardErrorFromP(17, 0.032, nan) }, 7.940, 0.002},
+		// Cochrane Handbook 5.1 §7.7.3.3 (SECONDARY copy, PUBLISHED-VALUES.md §1.3):
+		// difference 3.8, P = 0.008 with 45 df: "dividing 3.8 by 2.78, which gives 1.37".
+		{"Cochrane P with t(45)", func() (float64, error) { return StandardErrorFromP(3.8, 0.008, 45) }, 1.37, 0.005},
+		// Same source, large-sample version: "Z = 2.652" for P = 0.008.
+		{"Cochrane P with normal", func() (float64, error) { return StandardErrorFromP(3.8, 0.008, nan) }, 3.8 / 2.652, 0.0005},
+		// Woodward (2019) Heart 105:1701, Table 4: women RR 2.15 (1.33 to 3.47); on the
+		// log scale the SE from the whole width averages to 0.244637.
+		{"Woodward 2019 Table 4 SE from ratio CI", func() (float64, error) {
+			return StandardErrorFromCI(math.Log(1.33), math.Log(3.47), 0.95, nan)
+		}, 0.244637, 2e-5},
+		// NIST StRD Longley, certified B6 = 1829.15146461355, SE 455.478499142212, residual
+		// df 9; its 95% t interval (798.7875153, 2859.515414) is DERIVED in
+		// PUBLISHED-VALUES.md §1.4 and must give back the certified SE with t(9).
+		{"Longley B6 SE from t interval", func() (float64, error) {
+			return StandardErrorFromCI(798.7875153, 2859.515414, 0.95, 9)
+		}, 455.478499142212, 1e-9},
+		// ... and it is 15.4% too large if the normal 3.92 is used (same source).
+		{"Longley B6 SE from normal reading", func() (float64, error) {
+			return StandardErrorFromCI(798.7875153, 2859.515414, 0.95, nan)
+		}, 525.7055525, 1e-6},
+		// Statistic: SE = estimate / t; Longley B6 t = 4.015890 (PUBLISHED-VALUES §1.4, DERIVED).
+		{"SE from t", func() (float64, error) { return StandardErrorFromStatistic(1829.15146461355, 4.015890, false) }, 455.478499142212, 1e-6},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got, err := tt.got()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if relErr(got, tt.want) > tt.tol {
+				t.Errorf("got %.7g, want %.7g (relative tolerance %g)", got, tt.want, tt.tol)
+			}
+		})
+	}
+}
+
+func TestHalfWidthStandardErrors(t *testing.T) {
+	// Woodward (2019) Heart 105:1701, Table 4: "The two equations for SE give the
+	// results 0.244228 and 0.245045" for RR 2.15 (1.33 to 3.47) on the log scale.
+	// The paper divides by 1.96, we by 1.959964: 1.8e-5 relative, 5e-6 here.
+	lo, hi, err := StandardErrorsFromHalfWidths(math.Log(2.15), math.Log(1.33), math.Log(3.47), 0.95, math.NaN())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(lo-0.245045) > 1e-5 || math.Abs(hi-0.244228) > 1e-5 {
+		t.Errorf("StandardErrorsFromHalfWidths = %.6f, %.6f; want 0.245045, 0.244228", lo, hi)
+	}
+}
+
+func TestIndependentDifference(t *testing.T) {
+	tests := []struct {
+		name           string
+		e1, s1, e2, s2 float64
+		wantD, wantSE  float64
+		wantZ, wantP   float64
+		tolSE, tolP    float64
+	}{
+		// Altman & Bland (2003) BMJ 326:219: log RR −0.4005 (SE 0.1929) vs −0.1278
+		// (SE 0.1070), "0.2206" and "z=−0.2726/" (SECONDARY OCR; PUBLISHED-VALUES.md
+		// §2.1); z and P DERIVED there: −1.236, 0.2165.
+		{"Altman Bland 2003 HRT", math.Log(0.67), (math.Log(0.98) - math.Log(0.46)) / 3.919928,
+			math.Log(0.88), (math.Log(1.08) - math.Log(0.71)) / 3.919928, -0.2726, 0.2206, -1.236, 0.2165, 5e-4, 5e-4},
+		// Woodward (2019) Heart 105:1701, Table 4: women 0.765468 (SE 0.244637), men
+		// 0.746688 (SE 0.324736); ln RRR 0.01878, variance 0.165301. P DERIVED 0.963.
+		{"Woodward 2019 Table 4", 0.765468, 0.244637, 0.746688, 0.324736, 0.01878, math.Sqrt(0.165301), 0.0462, 0.963, 1e-6, 1e-3},
+		// Gelman & Stern (2006) Am Stat 60:328: 25 ± 10 vs 10 ± 10, "s.e. 14.1",
+		// "z-score is only 1.1" (SECONDARY, PUBLISHED-VALUES.md §2.4).
+		{"Gelman Stern 2006", 25, 10, 10, 10, 15, 14.1, 1.1, 0.2888, 0.004, 5e-4},
+		// Ann Rheum Dis Table 3, COBRA trial: "√(0.4081²+0.1692²) = 0.4419", d = −0.4198;
+		// the printed "p = 0.17" is one-sided: two-sided 0.342 (PUBLISHED-VALUES.md §2.3).
+		{"ARD Table 3 COBRA", -0.7765, 0.4081, -0.3567, 0.1692, -0.4198, 0.4419, -0.950, 0.342, 3e-4, 1e-3},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got, err := IndependentDifference(tt.e1, tt.s1, tt.e2, tt.s2, 0.95)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(got.Estimate-tt.wantD) > 1e-4 {
+				t.Errorf("difference = %.5f, want %.5f", got.Estimate, tt.wantD)
+			}
+			if relErr(got.SE, tt.wantSE) > tt.tolSE {
+				t.Errorf("SE = %.5f, want %.5f", got.SE, tt.wantSE)
+			}
+			if math.Abs(got.Stat-tt.wantZ) > 0.05*math.Abs(tt.wantZ)+5e-4 {
+				t.Errorf("z = %.4f, want %.4f", got.Stat, tt.wantZ)
+			}
+			if math.Abs(got.P-tt.wantP) > tt.tolP {
+				t.Errorf("P = %.4f, want %.4f", got.P, tt.wantP)
+			}
+		})
+	}
+	// Woodward (2019) Table 4: 95% CI for ln(RRR) (−0.778101 to 0.815661), computed
+	// there with 1.96 (we use 1.959964: 1.5e-5 apart at this SE).
+	d, _ := IndependentDifference(0.765468, 0.244637, 0.746688, 0.324736, 0.95)
+	if math.Abs(d.CI[0]+0.778101) > 2e-5 || math.Abs(d.CI[1]-0.815661) > 2e-5 {
+		t.Errorf("Woodward CI = %v, want (−0.778101, 0.815661)", d.CI)
+	}
+}
+
+func TestCorrelatedDifferenceLongley(t *testing.T) {
+	// NIST Longley b4 − b5 with Cov(b4, b5) = −0.009151328949: SE 0.3395955929,
+	// t = −2.892036 (PUBLISHED-VALUES.md §2.7, DERIVED from the certified fit).
+	s4, s5 := 0.214274163161675, 0.226073200069370
+	rho := -0.009151328949 / (s4 * s5)
+	d, err := CorrelatedDifference(-1.03322686717359, s4, -0.0511041056535807, s5, rho, 9, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if relErr(d.SE, 0.3395955929) > 1e-8 || relErr(d.Stat, -2.892036) > 1e-6 {
+		t.Errorf("Longley b4 − b5: SE %.10f, t %.6f; want 0.3395955929, −2.892036", d.SE, d.Stat)
+	}
+	p, _ := StudentTTwoSidedP(d.Stat, 9)
+	if d.P != p {
+		t.Errorf("P = %g, want the t(9) tail %g", d.P, p)
+	}
+}
+
+func TestDifferencePRange(t *testing.T) {
+	// Hand computation: d ∈ [0.10, 0.14], SE ∈ [0.05, 0.06]. Largest |z| = 0.14/0.05
+	// = 2.8 (p = 0.00511), smallest 0.10/0.06 = 1.6667 (p = 0.09558).
+	r, err := DifferencePRange(Range{0.10, 0.14}, Range{0.05, 0.06}, math.NaN())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(r.Lo-NormalTwoSidedP(2.8)) > 1e-15 || math.Abs(r.Hi-NormalTwoSidedP(0.10/0.06)) > 1e-15 {
+		t.Errorf("DifferencePRange = %v", r)
+	}
+	if math.Abs(r.Lo-0.00511) > 5e-5 || math.Abs(r.Hi-0.09558) > 5e-5 {
+		t.Errorf("DifferencePRange = %v, want [0.00511, 0.09558]", r)
+	}
+	// A difference whose range straddles 0 can reach p = 1.
+	r, _ = DifferencePRange(Range{-0.01, 0.02}, Range{0.05, 0.06}, math.NaN())
+	if r.Hi != 1 {
+		t.Errorf("straddling 0: p range %v, want upper end 1", r)
+	}
+	if _, err := DifferencePRange(Range{0, 1}, Range{0, 1}, math.NaN()); err == nil {
+		t.Error("SE range starting at 0: want an error")
+	}
+}
+
+func TestAdmissibleVarianceRange(t *testing.T) {
+	// Var(d) = s1² + s2² − 2ρ s1 s2 at ρ = ±1 (hand computation: (0.3 ∓ 0.1)²).
+	r, err := AdmissibleVarianceRange(0.3, 0.1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(r.Lo-0.04) > 1e-15 || math.Abs(r.Hi-0.16) > 1e-15 {
+		t.Errorf("AdmissibleVarianceRange(0.3, 0.1) = %v, want [0.04, 0.16]", r)
+	}
+}
+
+func TestDifferenceErrors(t *testing.T) {
+	if _, err := IndependentDifference(1, 0, 1, 1, 0.95); err == nil {
+		t.Error("SE 0: want an error")
+	}
+	if _, err := CorrelatedDifference(1, 1, 1, 1, 1.5, math.NaN(), 0.95); err == nil {
+		t.Error("rho 1.5: want an error")
+	}
+	if _, err := StandardErrorFromCI(0.5, 0.2, 0.95, math.NaN()); err == nil {
+		t.Error("reversed interval: want an error")
+	}
+	if _, err := StandardErrorFromP(0, 0.03, math.NaN()); err == nil {
+		t.Error("SE from p with estimate 0: want an error")
+	}
+	if _, err := StandardErrorFromStatistic(0.5, -2, false); err == nil {
+		t.Error("statistic of the wrong sign: want an error")
+	}
+}
