@@ -120,6 +120,11 @@ var (
 	ErrUnsupportedInput = errors.New("unsupported input")
 	// ErrInputTooLarge: an input beyond the reader's safety limits.
 	ErrInputTooLarge = errors.New("input exceeds the size limits")
+	// ErrMissingSheet: a required sheet (or CSV file) is not in the input.
+	ErrMissingSheet = errors.New("required sheet missing")
+	// ErrOutOfRange: a number outside the values its column admits
+	// (alpha, a level, a correlation, n, df, an SE).
+	ErrOutOfRange = errors.New("value out of range")
 )
 
 // Extra holds the columns a sheet had beyond the known ones, in header

@@ -117,12 +117,14 @@ func (r Range) Contains(x float64) bool { return x >= r.Lo && x <= r.Hi }
 //
 //	|stat| ∈ [min|d| / max SE, max|d| / min SE],
 //
-// with min|d| = 0 when dr straddles 0 (p = 1 is then reachable). The bound
+// with min|d| = 0 when dr straddles 0 (p = 1 is then reachable) and
+// p = 0 reachable when the SE may be 0 (two perfectly correlated
+// estimates with equal SEs). The bound
 // is exact when d and SE vary independently (SEs taken from printed
 // intervals or printed SEs) and safe — never too narrow — when they share
 // inputs (an SE taken from the estimate and its p or t).
 func DifferencePRange(dr, ser Range, df float64) (Range, error) {
-	if !(ser.Lo > 0) || ser.Hi < ser.Lo {
+	if !(ser.Lo >= 0) || !(ser.Hi > 0) || ser.Hi < ser.Lo {
 		return Range{}, fmt.Errorf("standard error range [%v, %v]: %w", ser.Lo, ser.Hi, ErrStandardError)
 	}
 	minAbs := math.Min(math.Abs(dr.Lo), math.Abs(dr.Hi))
@@ -134,9 +136,19 @@ func DifferencePRange(dr, ser Range, df float64) (Range, error) {
 	if err != nil {
 		return Range{}, err
 	}
-	pLo, err := twoSidedP(maxAbs/ser.Lo, df)
-	if err != nil {
-		return Range{}, err
+	zMax := math.Inf(1)
+	if ser.Lo > 0 {
+		zMax = maxAbs / ser.Lo
+	}
+	pLo := 0.0
+	if !math.IsInf(zMax, 1) || maxAbs == 0 {
+		if maxAbs == 0 {
+			zMax = 0
+		}
+		pLo, err = twoSidedP(zMax, df)
+		if err != nil {
+			return Range{}, err
+		}
 	}
 	return Range{pLo, pHi}, nil
 }

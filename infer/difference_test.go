@@ -154,8 +154,13 @@ func TestDifferencePRange(t *testing.T) {
 	if r.Hi != 1 {
 		t.Errorf("straddling 0: p range %v, want upper end 1", r)
 	}
-	if _, err := DifferencePRange(Range{0, 1}, Range{0, 1}, math.NaN()); err == nil {
-		t.Error("SE range starting at 0: want an error")
+	if _, err := DifferencePRange(Range{0, 1}, Range{0, 0}, math.NaN()); err == nil {
+		t.Error("SE range [0, 0]: want an error")
+	}
+	// An SE that may be 0 makes p = 0 reachable.
+	r, _ = DifferencePRange(Range{0.1, 0.2}, Range{0, 0.1}, math.NaN())
+	if r.Lo != 0 || math.Abs(r.Hi-NormalTwoSidedP(1)) > 1e-15 {
+		t.Errorf("SE range from 0: p range %v, want [0, %v]", r, NormalTwoSidedP(1))
 	}
 }
 

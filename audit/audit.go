@@ -1,0 +1,328 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"coefaudit/extract"
+	"coefaudit/infer"
+)
+
+// Options are the settings of an audit.
+type Options struct {
+	// Adjust names the multiplicity adjustment whose p decides outcomes:
+	// AdjustNone, AdjustHolm or AdjustBH.
+	Adjust string
+}
+
+// Multiplicity adjustments for Options.Adjust.
+const (
+	AdjustNone = "none"
+	AdjustHolm = "holm"
+	AdjustBH   = "bh"
+)
+
+// DefaultOptions are the settings used when none are given.
+var DefaultOptions = Options{Adjust: AdjustNone}
+
+// coefKey identifies a coefficient: its study and label.
+type coefKey struct{ study, label string }
+
+// auditor holds what every claim's audit looks up.
+type auditor struct {
+	in         *extract.Input
+	opts       Options
+	coef       map[coefKey]*extract.Coefficient
+	duplicated map[coefKey]bool
+	modelSize  map[[3]string]int
+	// conflicts holds each coefficient's printed numbers that contradict
+	// each other, in input order of the coefficients.
+	conflicts map[*extract.Coefficient][]Problem
+	// modelPredictors lists each model's predictors in input order.
+	modelPredictors map[modelKey][]string
+	// corr holds the correlation tables by sample.
+	corr map[[2]string]*corrSource
+}
+
+// Audit audits every claims row of in, in order, and collects every problem
+// of the input. It never fails: a claim that cannot be tested gets the
+// outcome incomplete with notes saying why.
+func Audit(in *extract.Input, opts Options) *Report {
+	a := newAuditor(in, opts)
+	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions,
+		Claims: make([]ClaimResult, 0, len(in.Claims))}
+	for _, cl := range in.Claims {
+		rep.Claims = append(rep.Claims, a.claim(cl))
+	}
+	adjustWithinStudies(rep.Claims)
+	for i := range rep.Claims {
+		rep.Claims[i].settle(opts.Adjust)
+		rep.Claims[i].Methods = methodsText(&rep.Claims[i])
+	}
+	rep.Problems = collectProblems(in)
+	for i := range in.Coefficients {
+		rep.Problems = append(rep.Problems, a.conflicts[&in.Coefficients[i]]...)
+	}
+	rep.Summary = summarize(rep.Claims)
+	return rep
+}
+
+func newAuditor(in *extract.Input, opts Options) *auditor {
+	a := &auditor{in: in, opts: opts, coef: map[coefKey]*extract.Coefficient{},
+		duplicated: map[coefKey]bool{}, modelSize: map[[3]string]int{},
+		conflicts: map[*extract.Coefficient][]Problem{}, corr: correlationSources(in),
+		modelPredictors: map[modelKey][]string{}}
+	for i := range in.Coefficients {
+		c := &in.Coefficients[i]
+		if len(c.Problems) == 0 {
+			if ps := consistencyProblems(c); len(ps) > 0 {
+				a.conflicts[c] = ps
+			}
+		}
+		k := coefKey{c.Study, c.Label}
+		if _, ok := a.coef[k]; ok {
+			a.duplicated[k] = true
+			continue
+		}
+		a.coef[k] = c
+		if c.Measure == extract.MeasureB || c.Measure == extract.MeasureBeta {
+			a.modelSize[[3]string{c.Study, c.Group, c.Model}]++
+			mk := modelKey{c.Study, c.Group, c.Model}
+			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
+				a.modelPredictors[mk] = append(a.modelPredictors[mk], c.Predictor)
+			}
+		}
+	}
+	return a
+}
+
+// lookup finds a claim's coefficient by label in the claim's study, or in
+// another study when written "study:label" and no such label exists in the
+// claim's own study.
+func (a *auditor) lookup(study, label string) (*extract.Coefficient, error) {
+	k := coefKey{study, label}
+	c, ok := a.coef[k]
+	if !ok {
+		if s, l, found := strings.Cut(label, ":"); found {
+			k = coefKey{strings.TrimSpace(s), strings.TrimSpace(l)}
+			c, ok = a.coef[k]
+		}
+	}
+	if !ok {
+		return nil, fmt.Errorf("no coefficient labelled %q in study %q", label, study)
+	}
+	if a.duplicated[k] {
+		return nil, fmt.Errorf("the label %q appears more than once in study %q, so the claim is ambiguous", k.label, k.study)
+	}
+	return c, nil
+}
+
+func relationOf(c1, c2 *extract.Coefficient) string {
+	switch {
+	case c1.Study != c2.Study || c1.Group != c2.Group:
+		return Independent
+	case c1.Model == c2.Model:
+		return SameModel
+	default:
+		return SameSample
+	}
+}
+
+// claim audits one claims row.
+func (a *auditor) claim(cl extract.Claim) ClaimResult {
+	r := ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
+		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
+		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
+		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
+		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: []string{},
+		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
+	if r.Alpha == 0 {
+		r.Alpha = extract.DefaultAlpha
+	}
+	if len(cl.Problems) > 0 {
+		for _, p := range cl.Problems {
+			r.Notes = append(r.Notes, "This claims row could not be read: "+cellMessage(p)+".")
+		}
+		return r.finish(Incomplete)
+	}
+	c1, err1 := a.lookup(cl.Study, cl.First)
+	c2, err2 := a.lookup(cl.Study, cl.Second)
+	for _, err := range []error{err1, err2} {
+		if err != nil {
+			r.Notes = append(r.Notes, capitalize(err.Error())+".")
+		}
+	}
+	if err1 != nil || err2 != nil {
+		return r.finish(Incomplete)
+	}
+	bad := false
+	for _, c := range []*extract.Coefficient{c1, c2} {
+		for _, p := range c.Problems {
+			r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s (%s row %d) has a problem: %s.", c.Label, c.Sheet, c.Row, cellMessage(p)))
+			bad = true
+		}
+	}
+	if bad {
+		return r.finish(Incomplete)
+	}
+	r.Relation = relationOf(c1, c2)
+	r.Measure = c1.Measure
+	if c1.Measure != c2.Measure {
+		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a %q coefficient with a %q one; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
+		return r.finish(Incomplete)
+	}
+	rc1, e1 := extract.Reconstruct(*c1, a.modelSize[[3]string{c1.Study, c1.Group, c1.Model}])
+	rc2, e2 := extract.Reconstruct(*c2, a.modelSize[[3]string{c2.Study, c2.Group, c2.Model}])
+	r.First = sideOf(c1.Label, rc1, e1)
+	r.Second = sideOf(c2.Label, rc2, e2)
+	r.Scale = rc1.Scale
+	for i, err := range []error{e1, e2} {
+		if err != nil {
+			r.Notes = append(r.Notes, fmt.Sprintf("%s: %s; print its SE, interval, statistic or exact p to test the claim.",
+				[]string{c1.Label, c2.Label}[i], err))
+		}
+	}
+	if e1 != nil || e2 != nil {
+		return r.finish(Incomplete)
+	}
+	r.Notes = append(r.Notes, rc1.Notes...)
+	r.Notes = append(r.Notes, rc2.Notes...)
+	if rc1.Scale != extract.ScaleAsPrinted {
+		r.Notes = append(r.Notes, fmt.Sprintf("Estimates, SEs and the difference are on the %s scale.", rc1.Scale))
+	}
+	r.Overlap = overlapOf(rc1, rc2, &r)
+	var conflicts []string
+	for _, c := range []*extract.Coefficient{c1, c2} {
+		for _, p := range a.conflicts[c] {
+			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s row %d, column %q): %s.", p.Sheet, p.Row, p.Column, p.Message))
+		}
+	}
+
+	if r.Relation == Independent {
+		a.independent(&r, c1, c2, rc1, rc2)
+	} else {
+		a.dependent(&r, cl, c1, c2, rc1, rc2)
+	}
+	basisNotes(&r, cl, c1, c2, rc1, rc2)
+	if len(conflicts) > 0 {
+		r.Notes = append(r.Notes, conflicts...)
+		r.conflict = true
+	}
+	return r
+}
+
+// finish sets the outcome and returns the result.
+func (r ClaimResult) finish(outcome string) ClaimResult {
+	r.Outcome = outcome
+	return r
+}
+
+func sideOf(label string, rc extract.Reconstructed, err error) Side {
+	s := Side{Label: label, Estimate: Number(rc.Estimate), SE: nan, SEFrom: rc.SEFrom}
+	if err == nil {
+		s.SE = Number(rc.SE)
+	}
+	if math.IsNaN(rc.Estimate) {
+		s.Estimate = nan
+	}
+	return s
+}
+
+// independent runs the z test of two estimates from independent samples
+// and classifies the claim.
+func (a *auditor) independent(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+	d, err := infer.IndependentDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, 1-r.Alpha)
+	if err != nil {
+		r.Notes = append(r.Notes, "The difference could not be tested: "+err.Error()+".")
+		r.Outcome = Incomplete
+		return
+	}
+	r.Method = "independent-z"
+	r.setDifference(d)
+	if r.Measure == extract.MeasureR {
+		a.independentCorrelations(r, c1, c2, rc1, rc2)
+	}
+	dr := infer.Range{Lo: rc1.EstimateRange.Lo - rc2.EstimateRange.Hi, Hi: rc1.EstimateRange.Hi - rc2.EstimateRange.Lo}
+	ser := infer.Range{Lo: math.Hypot(rc1.SERange.Lo, rc2.SERange.Lo), Hi: math.Hypot(rc1.SERange.Hi, rc2.SERange.Hi)}
+	pr, err := infer.DifferencePRange(dr, ser, math.NaN())
+	if err != nil {
+		pr = infer.Point(d.P)
+	}
+	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
+	how := rangeSafe
+	if rc1.SEExactRange && rc2.SEExactRange {
+		how = rangeExact
+	}
+	r.classify(rc1.Estimate, rc2.Estimate, dr, pr, how)
+}
+
+func (r *ClaimResult) setDifference(d infer.Difference) {
+	r.Difference = Number(d.Estimate)
+	r.DifferenceSE = Number(d.SE)
+	r.PoolEstimate, r.PoolSE, r.PoolScale = Number(d.Estimate), Number(d.SE), r.Scale
+	r.DifferenceCI = [2]Number{Number(d.CI[0]), Number(d.CI[1])}
+	r.Statistic = Number(d.Stat)
+	r.DF = Number(d.DF)
+	r.P = Number(d.P)
+}
+
+func overlapOf(rc1, rc2 extract.Reconstructed, r *ClaimResult) *OverlapResult {
+	if math.IsNaN(rc1.CI[0]) || math.IsNaN(rc2.CI[0]) {
+		return nil
+	}
+	if rc1.Level != rc2.Level {
+		r.Notes = append(r.Notes, fmt.Sprintf("The two intervals have different levels (%g%% and %g%%), so their overlap is not read.", 100*rc1.Level, 100*rc2.Level))
+		return nil
+	}
+	o, err := infer.CIOverlap(rc1.Estimate, rc1.CI[0], rc1.CI[1], rc2.Estimate, rc2.CI[0], rc2.CI[1], rc1.Level)
+	if err != nil {
+		return nil
+	}
+	return &OverlapResult{Proportion: Number(o.Proportion), ImpliedP: Number(o.ImpliedP), marginRatio: o.MarginRatio}
+}
+
+func collectProblems(in *extract.Input) []Problem {
+	ps := []Problem{}
+	add := func(errs []*extract.CellError) {
+		for _, e := range errs {
+			ps = append(ps, Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()})
+		}
+	}
+	add(in.Problems)
+	for _, c := range in.Coefficients {
+		add(c.Problems)
+	}
+	for _, c := range in.Claims {
+		add(c.Problems)
+	}
+	for _, c := range in.Correlations {
+		add(c.Problems)
+	}
+	for _, t := range in.Tables {
+		add(t.Problems)
+	}
+	return ps
+}
+
+func summarize(claims []ClaimResult) Summary {
+	s := Summary{Claims: len(claims), Counts: map[string]int{}}
+	for _, c := range claims {
+		s.Counts[c.Outcome]++
+	}
+	return s
+}
+
+func cellMessage(e *extract.CellError) string {
+	if e.Column != "" {
+		return fmt.Sprintf("column %q: %v", e.Column, e.Err)
+	}
+	return e.Err.Error()
+}
+
+func capitalize(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}

@@ -1,0 +1,123 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+
+	"coefaudit/extract"
+	"coefaudit/infer"
+)
+
+// Recomputed verdict when the p range leaves the test undecided.
+const undetermined = "undetermined"
+
+// dependent audits a claim whose two estimates come from one sample. In
+// order of preference it uses: for correlations, the comparison of
+// dependent correlations with the cross correlations of the paper's table;
+// for two coefficients of one regression, the covariance rebuilt from the
+// paper's correlation table; the printed sampling correlation of the two
+// estimates (estimate_corr); and otherwise the range over every admissible
+// correlation.
+func (a *auditor) dependent(r *ClaimResult, cl extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	if r.Measure == extract.MeasureR && src != nil {
+		if a.dependentCorrelations(r, c1, c2, src) {
+			return
+		}
+	}
+	if r.Relation == SameModel && (r.Measure == extract.MeasureB || r.Measure == extract.MeasureBeta) && src != nil {
+		if a.regressionFromTable(r, c1, c2, src) {
+			return
+		}
+	}
+	if cl.EstimateCorr.IsExact() {
+		a.withEstimateCorr(r, cl.EstimateCorr, rc1, rc2)
+		return
+	}
+	a.admissible(r, c1, rc1, rc2)
+}
+
+// commonDF returns the residual df two coefficients of one model share, or
+// NaN when they do not share one.
+func commonDF(r *ClaimResult, rc1, rc2 extract.Reconstructed) float64 {
+	if r.Relation == SameModel && rc1.DF == rc2.DF {
+		return rc1.DF
+	}
+	return math.NaN()
+}
+
+// withEstimateCorr tests the difference with the printed sampling
+// correlation ρ of the two estimates: Var(d) = SE1² + SE2² − 2ρ SE1 SE2.
+func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2 extract.Reconstructed) {
+	df := commonDF(r, rc1, rc2)
+	d, err := infer.CorrelatedDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, rho.Value, df, 1-r.Alpha)
+	if err != nil {
+		r.Notes = append(r.Notes, "The difference could not be tested with the printed estimate_corr: "+err.Error()+".")
+		r.Outcome = Incomplete
+		return
+	}
+	r.Method = "z-with-estimate-corr"
+	if !math.IsNaN(df) {
+		r.Method = "t-with-estimate-corr"
+	}
+	r.setDifference(d)
+	// A safe outer bound over the rounding box: Var = (s1 − s2)² + 2(1 − ρ) s1 s2.
+	rlo, rhi := rho.RoundingInterval()
+	rlo, rhi = math.Max(rlo, -1), math.Min(rhi, 1)
+	gap := seGap(rc1.SERange, rc2.SERange)
+	vLo := gap*gap + 2*(1-rhi)*rc1.SERange.Lo*rc2.SERange.Lo
+	spread := math.Max(rc1.SERange.Hi-rc2.SERange.Lo, rc2.SERange.Hi-rc1.SERange.Lo)
+	vHi := spread*spread + 2*(1-rlo)*rc1.SERange.Hi*rc2.SERange.Hi
+	r.Notes = append(r.Notes, fmt.Sprintf("The two estimates' sampling correlation %s, as printed, enters the SE of the difference.", rho.Text))
+	a.finishRange(r, rc1, rc2, infer.Range{Lo: math.Sqrt(vLo), Hi: math.Sqrt(vHi)}, df, rangeSafe)
+}
+
+// seGap is the smallest |s1 − s2| over the two SE ranges.
+func seGap(a, b infer.Range) float64 {
+	switch {
+	case a.Hi < b.Lo:
+		return b.Lo - a.Hi
+	case b.Hi < a.Lo:
+		return a.Lo - b.Hi
+	}
+	return 0
+}
+
+// admissible gives the range of p over every admissible sampling
+// correlation of the two estimates, −1 to 1: Var(d) runs from (SE1 − SE2)²
+// to (SE1 + SE2)².
+func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+	df := commonDF(r, rc1, rc2)
+	r.Method = "admissible-range"
+	r.Difference = Number(rc1.Estimate - rc2.Estimate)
+	gap := seGap(rc1.SERange, rc2.SERange)
+	ser := infer.Range{Lo: gap, Hi: rc1.SERange.Hi + rc2.SERange.Hi}
+	what := "the sampling correlation (or covariance) of the two estimates"
+	switch {
+	case r.Measure == extract.MeasureR:
+		what += ", or the correlations between all the variables involved with n"
+	case r.Relation == SameModel:
+		what += ", or the correlation table of the model's outcome and predictors with their SDs and n"
+	}
+	r.Notes = append(r.Notes, fmt.Sprintf("Both estimates come from one sample (study %q, group %q) and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need %s from the authors.",
+		c1.Study, c1.Group, what))
+	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
+}
+
+func diffRange(rc1, rc2 extract.Reconstructed) infer.Range {
+	return infer.Range{Lo: rc1.EstimateRange.Lo - rc2.EstimateRange.Hi, Hi: rc1.EstimateRange.Hi - rc2.EstimateRange.Lo}
+}
+
+// finishRange sets p_range from the range of the difference's SE and
+// classifies the claim.
+func (a *auditor) finishRange(r *ClaimResult, rc1, rc2 extract.Reconstructed, ser infer.Range, df float64, how rangeKind) {
+	dr := diffRange(rc1, rc2)
+	pr, err := infer.DifferencePRange(dr, ser, df)
+	if err != nil {
+		r.Notes = append(r.Notes, "The range of p could not be computed: "+err.Error()+".")
+		r.Outcome = Incomplete
+		return
+	}
+	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
+	r.classify(rc1.Estimate, rc2.Estimate, dr, pr, how)
+}

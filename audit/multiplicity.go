@@ -1,0 +1,65 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+
+	"coefaudit/infer"
+)
+
+// adjustWithinStudies adds Holm and Benjamini–Hochberg adjusted p-values to
+// every claim with a p, the family being the claims of one study.
+func adjustWithinStudies(claims []ClaimResult) {
+	families := map[string][]int{}
+	var order []string
+	for i, c := range claims {
+		if !c.P.Known() || c.dec == nil {
+			continue
+		}
+		if _, ok := families[c.Study]; !ok {
+			order = append(order, c.Study)
+		}
+		families[c.Study] = append(families[c.Study], i)
+	}
+	for _, study := range order {
+		idx := families[study]
+		p := make([]float64, len(idx))
+		for k, i := range idx {
+			p[k] = float64(claims[i].P)
+		}
+		holm := infer.HolmAdjust(p)
+		bh := infer.BenjaminiHochbergAdjust(p)
+		for k, i := range idx {
+			claims[i].AdjustedP = map[string]Number{AdjustHolm: Number(holm[k]), AdjustBH: Number(bh[k])}
+			claims[i].family = len(idx)
+		}
+	}
+}
+
+// settle decides the claim's outcome with the p the options ask for. With an
+// adjustment the ends of the p range are scaled by the claim's own
+// adjustment factor (adjusted p / p), which keeps the family's order fixed —
+// an approximation when rounding could reorder the study's p-values.
+func (r *ClaimResult) settle(adjust string) {
+	if r.dec != nil {
+		p, pr := float64(r.P), r.dec.pr
+		if q, ok := r.AdjustedP[adjust]; ok && adjust != AdjustNone && p > 0 {
+			f := float64(q) / p
+			r.Notes = append(r.Notes, fmt.Sprintf("The outcome uses the %s-adjusted p = %s, adjusted over the %d claims of the study that have a p (the raw p is %s).",
+				adjustName(adjust), formatP(float64(q)), r.family, formatP(p)))
+			p = float64(q)
+			pr = infer.Range{Lo: math.Min(1, pr.Lo*f), Hi: math.Min(1, pr.Hi*f)}
+		}
+		r.decide(p, pr)
+	}
+	if r.conflict {
+		r.Outcome = Conflict
+	}
+}
+
+func adjustName(a string) string {
+	if a == AdjustBH {
+		return "Benjamini–Hochberg"
+	}
+	return "Holm"
+}

@@ -1,0 +1,262 @@
+package audit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"strings"
+
+	"coefaudit/extract"
+	"coefaudit/infer"
+	"coefaudit/infer/regress"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// roundingCorners is how many corners of a table's rounding box are
+// evaluated, besides the printed values, for the p range of a regression
+// rebuilt from it. A table of p predictors has (p+1)p/2 correlations, too
+// many corners to visit all; the sample is drawn with a fixed seed so that
+// the report does not change from run to run.
+const roundingCorners = 256
+
+// modelKey identifies a fitted model: study, group, model.
+type modelKey [3]string
+
+// regressionFromTable rebuilds the model behind two coefficients from the
+// sample's correlation table (OLS from summary statistics) and tests their
+// difference with the rebuilt covariance: a t test with the residual df for
+// unstandardized coefficients, a z test with the delta-method covariance for
+// standardized ones. It reports false when the table lacks what is needed.
+func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource) bool {
+	key := modelKey{c1.Study, c1.Group, c1.Model}
+	preds := a.modelPredictors[key]
+	outcome := c1.Outcome
+	if outcome == "" || c1.Predictor == "" || c2.Predictor == "" || outcome != c2.Outcome {
+		r.Notes = append(r.Notes, "To rebuild the model from the correlation table, both coefficients need the same outcome and their predictors named.")
+		return false
+	}
+	vars := append([]string{outcome}, preds...)
+	var missing []string
+	for _, v := range vars {
+		if !src.has(v) {
+			missing = append(missing, v)
+		}
+	}
+	if len(missing) > 0 {
+		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: it lacks %s.", src.name, strings.Join(missing, ", ")))
+		return false
+	}
+	n := src.n
+	if math.IsNaN(n) && c1.N.IsExact() {
+		n = c1.N.Value
+	}
+	if math.IsNaN(n) {
+		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: no n is printed.", src.name))
+		return false
+	}
+	unstd := r.Measure == extract.MeasureB
+	table, err := newModelTable(src, vars, unstd)
+	if err != nil {
+		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: %v.", src.name, err))
+		return false
+	}
+	i, j := indexOf(preds, c1.Predictor), indexOf(preds, c2.Predictor)
+	level := 1 - r.Alpha
+	res, err := table.test(table.point(), int(n), i, j, unstd, level)
+	if err != nil {
+		var npd *regress.NotPositiveDefiniteError
+		if errors.As(err, &npd) {
+			r.Notes = append(r.Notes, fmt.Sprintf("The correlation table in %s is not positive definite (smallest eigenvalue %.3g): no sample can have these correlations, so the model cannot be rebuilt from it.", src.name, npd.MinEigenvalue))
+		} else {
+			r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: %v.", src.name, err))
+		}
+		return false
+	}
+	if unstd {
+		r.Method = "t-from-correlation-table"
+	} else {
+		r.Method = "z-delta-from-correlation-table"
+	}
+	r.Difference = Number(res.diff.Estimate)
+	r.DifferenceSE = Number(res.diff.SE)
+	r.DifferenceCI = [2]Number{Number(res.diff.Lower), Number(res.diff.Upper)}
+	r.Statistic = Number(res.diff.Statistic)
+	r.DF = nan
+	if !math.IsInf(res.diff.DF, 1) {
+		r.DF = Number(res.diff.DF)
+	}
+	r.P = Number(res.diff.P)
+	r.PoolEstimate, r.PoolSE, r.PoolScale = r.Difference, r.DifferenceSE, extract.ScaleAsPrinted
+	r.First.Estimate, r.First.SE, r.First.SEFrom = Number(res.est[i]), Number(res.se[i]), "rebuilt from "+src.name
+	r.Second.Estimate, r.Second.SE, r.Second.SEFrom = Number(res.est[j]), Number(res.se[j]), "rebuilt from "+src.name
+	kind := "classical OLS covariance, t with the residual df"
+	if !unstd {
+		kind = "normal-theory delta-method covariance of standardized coefficients (Yuan & Chan 2011; Jones & Waller 2013), z test"
+	}
+	r.Notes = append(r.Notes, fmt.Sprintf("The model of %s on %s was rebuilt from %s with n = %g (%s).", outcome, strings.Join(preds, ", "), src.name, n, kind))
+	for _, w := range res.warnings {
+		r.Notes = append(r.Notes, capitalize(w)+".")
+	}
+
+	// The rounding of the table and of the printed coefficients: the
+	// printed values, then corners of the box drawn with a fixed seed.
+	pr := infer.Point(res.diff.P)
+	dr := infer.Point(res.diff.Estimate)
+	estLo := append([]float64(nil), res.est...)
+	estHi := append([]float64(nil), res.est...)
+	rng := rand.New(rand.NewPCG(uint64(len(vars)), uint64(n)))
+	for range roundingCorners {
+		g, err := table.test(table.corner(rng), int(n), i, j, unstd, level)
+		if err != nil {
+			continue
+		}
+		pr.Lo, pr.Hi = math.Min(pr.Lo, g.diff.P), math.Max(pr.Hi, g.diff.P)
+		dr.Lo, dr.Hi = math.Min(dr.Lo, g.diff.Estimate), math.Max(dr.Hi, g.diff.Estimate)
+		for k := range g.est {
+			estLo[k], estHi[k] = math.Min(estLo[k], g.est[k]), math.Max(estHi[k], g.est[k])
+		}
+	}
+	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
+	r.classify(res.est[i], res.est[j], dr, pr, rangeGrid)
+
+	var conflicts []string
+	for _, pc := range []struct {
+		c *extract.Coefficient
+		k int
+	}{{c1, i}, {c2, j}} {
+		lo, hi := pc.c.Estimate.RoundingInterval()
+		if hi < estLo[pc.k]-1e-12 || lo > estHi[pc.k]+1e-12 {
+			conflicts = append(conflicts, fmt.Sprintf("Coefficient %s is printed as %s, but the correlation table gives %s (between %s and %s within its rounding): the table and the coefficient disagree beyond rounding, or the model had covariates the table does not show.",
+				pc.c.Label, pc.c.Estimate.Text, formatNum(res.est[pc.k]), formatNum(estLo[pc.k]), formatNum(estHi[pc.k])))
+		}
+	}
+	if len(conflicts) > 0 {
+		r.Notes = append(r.Notes, conflicts...)
+		r.conflict = true
+	}
+	return true
+}
+
+func indexOf(list []string, v string) int {
+	for i, x := range list {
+		if varKey(x) == varKey(v) {
+			return i
+		}
+	}
+	return -1
+}
+
+// modelTable is the part of a correlation table one model needs.
+type modelTable struct {
+	r        [][]extract.Printed
+	sds      []extract.Printed
+	unstd    bool
+	printedN int
+}
+
+func newModelTable(src *corrSource, vars []string, unstd bool) (*modelTable, error) {
+	t := &modelTable{unstd: unstd}
+	idx := make([]int, len(vars))
+	for k, v := range vars {
+		idx[k] = src.index[varKey(v)]
+	}
+	t.r = make([][]extract.Printed, len(vars))
+	for a := range vars {
+		t.r[a] = make([]extract.Printed, len(vars))
+		for b := range vars {
+			if a == b {
+				t.r[a][b] = extract.Printed{Value: 1, Bound: extract.Exact, Decimals: -1}
+				continue
+			}
+			p := src.r[idx[a]][idx[b]]
+			if !p.IsExact() {
+				return nil, fmt.Errorf("the correlation of %s and %s is missing", vars[a], vars[b])
+			}
+			t.r[a][b] = p
+		}
+	}
+	if unstd {
+		for k, v := range vars {
+			sd := src.sd[idx[k]]
+			if !sd.IsExact() || sd.Value <= 0 {
+				return nil, fmt.Errorf("the SD of %s is missing, so unstandardized coefficients cannot be rebuilt", v)
+			}
+			t.sds = append(t.sds, sd)
+		}
+	}
+	return t, nil
+}
+
+// values are a correlation matrix and SDs to rebuild the model from.
+type values struct {
+	r   *mat.SymDense
+	sds []float64
+}
+
+func (t *modelTable) point() values {
+	return t.build(func(p extract.Printed) float64 { return p.Value })
+}
+
+// corner draws one corner of the rounding box of the table's numbers.
+func (t *modelTable) corner(rng *rand.Rand) values {
+	return t.build(func(p extract.Printed) float64 {
+		lo, hi := p.RoundingInterval()
+		if rng.IntN(2) == 0 {
+			return lo
+		}
+		return hi
+	})
+}
+
+func (t *modelTable) build(at func(extract.Printed) float64) values {
+	q := len(t.r)
+	m := mat.NewSymDense(q, nil)
+	for a := 0; a < q; a++ {
+		m.SetSym(a, a, 1)
+		for b := a + 1; b < q; b++ {
+			m.SetSym(a, b, math.Max(-1, math.Min(1, at(t.r[a][b]))))
+		}
+	}
+	v := values{r: m}
+	for _, sd := range t.sds {
+		v.sds = append(v.sds, at(sd))
+	}
+	return v
+}
+
+// tableResult is one rebuilt model's test of two of its coefficients.
+type tableResult struct {
+	diff     *regress.Difference
+	est, se  []float64
+	warnings []string
+}
+
+func (t *modelTable) test(v values, n, i, j int, unstd bool, level float64) (tableResult, error) {
+	s := regress.Summary{Correlation: v.r, N: n}
+	if unstd {
+		s.SDs = v.sds
+	}
+	fit, err := regress.FromSummary(s)
+	if err != nil {
+		return tableResult{}, err
+	}
+	res := tableResult{warnings: fit.Warnings}
+	var cov *mat.SymDense
+	df := math.Inf(1)
+	if unstd {
+		res.est, res.se, cov = fit.Coefficients, fit.StandardErrors, fit.Covariance
+		i, j = fit.SlopeIndex(i), fit.SlopeIndex(j)
+		df = float64(fit.ResidualDF)
+		res.est, res.se = res.est[len(res.est)-fit.Predictors:], res.se[len(res.se)-fit.Predictors:]
+	} else {
+		res.est, res.se, cov = fit.Standardized, fit.StandardizedDeltaSE, fit.StandardizedDeltaCov
+	}
+	all := fit.Standardized
+	if unstd {
+		all = fit.Coefficients
+	}
+	res.diff, err = regress.TestDifference(all, cov, i, j, df, level)
+	return res, err
+}

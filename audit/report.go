@@ -1,0 +1,168 @@
+package audit
+
+import (
+	"encoding/json"
+	"math"
+	"strconv"
+)
+
+// Outcomes of a claim, as defined in the output contract.
+const (
+	Consistent    = "consistent"
+	Unsupported   = "unsupported"
+	Missed        = "missed"
+	Reversed      = "reversed"
+	Indeterminate = "indeterminate"
+	Conflict      = "conflict"
+	Incomplete    = "incomplete"
+)
+
+// Outcomes lists every outcome in the order summaries show them.
+var Outcomes = []string{Consistent, Unsupported, Missed, Reversed, Indeterminate, Conflict, Incomplete}
+
+// Relations between the two estimates of a claim.
+const (
+	Independent = "independent"
+	SameModel   = "same-model"
+	SameSample  = "same-sample"
+)
+
+// Number is a float64 that encodes NaN and ±Inf as JSON null, since the
+// report must say "not known" rather than fail.
+type Number float64
+
+// MarshalJSON writes the number, or null when it is not finite.
+func (n Number) MarshalJSON() ([]byte, error) {
+	f := float64(n)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return []byte("null"), nil
+	}
+	return strconv.AppendFloat(nil, f, 'g', -1, 64), nil
+}
+
+// Known reports whether the number is finite.
+func (n Number) Known() bool { return !math.IsNaN(float64(n)) && !math.IsInf(float64(n), 0) }
+
+var nan = Number(math.NaN())
+
+// Side is one of the two coefficients of a claim, as the report shows it.
+type Side struct {
+	Label    string `json:"label"`
+	Estimate Number `json:"estimate"`
+	SE       Number `json:"se"`
+	SEFrom   string `json:"se_from"`
+}
+
+// OverlapResult is the confidence-interval overlap of the two estimates.
+type OverlapResult struct {
+	Proportion Number `json:"proportion"`
+	ImpliedP   Number `json:"implied_p"`
+	// marginRatio is the larger facing margin of error over the smaller.
+	marginRatio float64
+}
+
+// Alternative is a second method's result for the same comparison.
+type Alternative struct {
+	Method    string `json:"method"`
+	Statistic Number `json:"statistic"`
+	P         Number `json:"p"`
+}
+
+// ClaimResult is the audit of one claims row.
+type ClaimResult struct {
+	Study        string         `json:"study"`
+	Claim        string         `json:"claim"`
+	Row          int            `json:"row"`
+	First        Side           `json:"first"`
+	Second       Side           `json:"second"`
+	Relation     string         `json:"relation"`
+	Method       string         `json:"method"`
+	Difference   Number         `json:"difference"`
+	DifferenceSE Number         `json:"difference_se"`
+	DifferenceCI [2]Number      `json:"difference_ci"`
+	Statistic    Number         `json:"statistic"`
+	DF           Number         `json:"df"`
+	P            Number         `json:"p"`
+	PRange       [2]Number      `json:"p_range"`
+	Published    string         `json:"published"`
+	Recomputed   string         `json:"recomputed"`
+	Outcome      string         `json:"outcome"`
+	Notes        []string       `json:"notes"`
+	Overlap      *OverlapResult `json:"overlap"`
+	Alternatives []Alternative  `json:"alternatives,omitempty"`
+
+	// Alpha is the claim's significance level; Basis how the paper reached
+	// its verdict; Measure the coefficients' measure. Shown in tables and CSV.
+	Alpha   float64 `json:"-"`
+	Basis   string  `json:"-"`
+	Measure string  `json:"-"`
+	// Scale is the scale the difference is on ("log" for ratio measures).
+	Scale string `json:"-"`
+	// PoolEstimate and PoolSE are the difference and its SE on the scale
+	// claims are pooled on (PoolScale): the analysis scale for coefficients
+	// (log for ratio measures), Fisher's z for correlations. NaN when the
+	// claim's difference has no SE (an unknown covariance, or incomplete).
+	PoolEstimate, PoolSE Number `json:"-"`
+	PoolScale            string `json:"-"`
+	// Methods is a paragraph a reviewer can paste into a report: the
+	// method, the numbers, the verdict and its caveats.
+	Methods string `json:"-"`
+	// AdjustedP holds the claim's p adjusted within its study, by method
+	// ("holm", "bh"); absent when the claim has no p.
+	AdjustedP map[string]Number `json:"p_adjusted,omitempty"`
+	// Topic is the claim's topic; claims sharing one are pooled.
+	Topic string `json:"-"`
+	// ExtraNames and ExtraValues are the claims row's unknown columns,
+	// passed through to the CSV output.
+	ExtraNames  []string `json:"-"`
+	ExtraValues []string `json:"-"`
+
+	// dec is what the outcome is decided from, once the multiplicity
+	// adjustment is known; conflict forces the outcome conflict.
+	dec      *decision
+	conflict bool
+	// family is the number of claims the multiplicity adjustment ran over.
+	family int
+}
+
+// Problem is a problem with the input, placed by sheet, row and column.
+type Problem struct {
+	Sheet   string `json:"sheet"`
+	Row     int    `json:"row"`
+	Column  string `json:"column"`
+	Message string `json:"message"`
+}
+
+// Summary counts the claims and each outcome.
+type Summary struct {
+	Claims int
+	Counts map[string]int
+}
+
+// MarshalJSON writes the summary with "claims" first and the outcomes in
+// the order of Outcomes, leaving out outcomes that did not occur.
+func (s Summary) MarshalJSON() ([]byte, error) {
+	b := []byte(`{"claims":`)
+	b = strconv.AppendInt(b, int64(s.Claims), 10)
+	for _, o := range Outcomes {
+		if n := s.Counts[o]; n > 0 {
+			b = append(b, `,"`...)
+			b = append(b, o...)
+			b = append(b, `":`...)
+			b = strconv.AppendInt(b, int64(n), 10)
+		}
+	}
+	return append(b, '}'), nil
+}
+
+// Report is the audit of one input.
+type Report struct {
+	Source   string        `json:"-"`
+	Alpha    float64       `json:"alpha"`
+	Summary  Summary       `json:"summary"`
+	Claims   []ClaimResult `json:"claims"`
+	Problems []Problem     `json:"problems"`
+	Cautions []string      `json:"-"`
+}
+
+var _ json.Marshaler = Summary{}

@@ -1,0 +1,222 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"coefaudit/extract"
+	"coefaudit/infer"
+)
+
+// direction returns +1 when the first estimate is the stronger at
+// difference d, −1 when the second is, 0 for no difference. When both
+// estimates are negative "stronger" means farther from zero, so the sign
+// of d is turned; otherwise the signed values are compared.
+func direction(e1, e2, d float64) int {
+	if e1 < 0 && e2 < 0 {
+		d = -d
+	}
+	switch {
+	case d > 0:
+		return 1
+	case d < 0:
+		return -1
+	}
+	return 0
+}
+
+// outcomeAt classifies a published verdict against a test that is
+// significant or not, with the estimates pointing in direction dir.
+func outcomeAt(published string, significant bool, dir int) string {
+	switch published {
+	case extract.PublishedDiffer:
+		if significant {
+			return Consistent
+		}
+		return Unsupported
+	case extract.PublishedNoDifference:
+		if significant {
+			return Missed
+		}
+		return Consistent
+	case extract.PublishedFirstLarger, extract.PublishedSecondLarger:
+		want := 1
+		if published == extract.PublishedSecondLarger {
+			want = -1
+		}
+		switch {
+		case dir == -want:
+			return Reversed
+		case significant && dir == want:
+			return Consistent
+		}
+		return Unsupported
+	}
+	return Incomplete
+}
+
+func recomputedVerdict(significant bool, dir int) string {
+	switch {
+	case !significant || dir == 0:
+		return extract.PublishedNoDifference
+	case dir > 0:
+		return extract.PublishedFirstLarger
+	}
+	return extract.PublishedSecondLarger
+}
+
+// rangeKind says how a p range was obtained, for the notes.
+type rangeKind int
+
+const (
+	rangeExact      rangeKind = iota // exact over the rounding box
+	rangeSafe                        // a safe outer bound over the rounding box
+	rangeGrid                        // evaluated on a grid over the rounding box
+	rangeAdmissible                  // over every admissible correlation and the rounding
+)
+
+func (k rangeKind) phrase() string {
+	switch k {
+	case rangeSafe:
+		return "Within the rounding of the printed numbers (a safe outer bound) p"
+	case rangeGrid:
+		return "Within the rounding of the printed numbers (evaluated on a grid of their extremes and midpoints) p"
+	case rangeAdmissible:
+		return "Over every admissible correlation of the two estimates and the rounding of the printed numbers, p"
+	}
+	return "Within the rounding of the printed numbers p"
+}
+
+// decision holds what a claim's outcome is decided from, once every claim
+// of the input has been tested and the multiplicity adjustment is known.
+type decision struct {
+	e1, e2 float64
+	dr, pr infer.Range
+	how    rangeKind
+	// verdictNote is the index in Notes of the sentence giving the verdict.
+	verdictNote int
+}
+
+// classify records the test's result for the claim; decide turns it into
+// the recomputed verdict and the outcome.
+func (r *ClaimResult) classify(e1, e2 float64, dr, pr infer.Range, how rangeKind) {
+	r.dec = &decision{e1: e1, e2: e2, dr: dr, pr: pr, how: how}
+}
+
+// decide sets the recomputed verdict and the outcome. p and pr are the
+// p-value and its range that decide (raw, or adjusted for multiplicity).
+// The outcome turns indeterminate when the verdict could both stand and
+// fall for p inside pr (rounding, or an unknown covariance) with the
+// difference anywhere in dr. A claim without a point p (NaN) is decided
+// only when the whole range lies on one side of α.
+func (r *ClaimResult) decide(p float64, pr infer.Range) {
+	dc := r.dec
+	dir := direction(dc.e1, dc.e2, float64(r.Difference))
+	dirs := []int{dir}
+	if dc.dr.Contains(0) {
+		dirs = []int{1, -1}
+	}
+	seen := map[string]bool{}
+	for _, s := range []bool{pr.Lo < r.Alpha, pr.Hi < r.Alpha} {
+		for _, dd := range dirs {
+			seen[outcomeAt(r.Published, s, dd)] = true
+		}
+	}
+	if math.IsNaN(p) {
+		switch {
+		case pr.Hi < r.Alpha:
+			p = pr.Hi
+		case pr.Lo >= r.Alpha:
+			p = pr.Lo
+		}
+	}
+	if math.IsNaN(p) {
+		r.Recomputed = undetermined
+		r.Outcome = Indeterminate
+		if len(seen) == 1 {
+			for o := range seen {
+				r.Outcome = o
+			}
+		}
+	} else {
+		sig := p < r.Alpha
+		r.Recomputed = recomputedVerdict(sig, dir)
+		r.Outcome = outcomeAt(r.Published, sig, dir)
+	}
+	dc.verdictNote = len(r.Notes)
+	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
+	if len(seen) > 1 && seen[Consistent] {
+		r.Outcome = Indeterminate
+		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
+			dc.how.phrase(), formatP(pr.Lo), formatP(pr.Hi), formatAlpha(r.Alpha)))
+	}
+}
+
+func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
+	var test string
+	if r.P.Known() {
+		test = fmt.Sprintf("the test of the difference gives %s (difference %s, %g%% CI %s to %s)",
+			pStatement(float64(r.P)), formatNum(float64(r.Difference)), 100*(1-r.Alpha),
+			formatNum(float64(r.DifferenceCI[0])), formatNum(float64(r.DifferenceCI[1])))
+	} else {
+		test = fmt.Sprintf("the difference %s has p from %s to %s", formatNum(float64(r.Difference)), formatP(pr.Lo), formatP(pr.Hi))
+	}
+	alpha := formatAlpha(r.Alpha)
+	switch r.Outcome {
+	case Consistent:
+		return "The verdict stands: " + test + "."
+	case Unsupported:
+		return fmt.Sprintf("The paper reports a difference, but %s, not below α = %s: the printed numbers do not show one.", test, alpha)
+	case Missed:
+		return fmt.Sprintf("The paper reports no difference, but %s, below α = %s.", test, alpha)
+	case Reversed:
+		return fmt.Sprintf("The paper says the %s estimate is the larger, but the estimates point the other way: %s.", larger(r.Published), test)
+	case Indeterminate:
+		return "The verdict cannot be decided: " + test + "."
+	}
+	return test + "."
+}
+
+func larger(published string) string {
+	if published == extract.PublishedSecondLarger {
+		return "second"
+	}
+	return "first"
+}
+
+// formatNum writes a number with four significant digits.
+func formatNum(x float64) string {
+	if math.IsNaN(x) {
+		return "NA"
+	}
+	if math.IsInf(x, 0) {
+		if x > 0 {
+			return "∞"
+		}
+		return "−∞"
+	}
+	return strconv.FormatFloat(x, 'g', 4, 64)
+}
+
+// formatP writes a p-value the way reports print them: three decimals,
+// "< 0.001" below that, and two significant digits in the far tail when
+// asked for exactly by pStatement.
+func formatP(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "NA"
+	case p < 0.001:
+		return "< 0.001"
+	}
+	return strconv.FormatFloat(p, 'f', 3, 64)
+}
+
+func pStatement(p float64) string {
+	if p < 0.001 {
+		return "p " + formatP(p)
+	}
+	return "p = " + formatP(p)
+}
+
+func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }

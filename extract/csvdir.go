@@ -1,0 +1,275 @@
+package extract
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+)
+
+// Limits of the CSV reader. A field longer than MaxFieldBytes is a problem
+// of its row (the cell is read as blank); a physical line longer than
+// MaxLineBytes or a record longer than MaxRecordBytes stops the file with
+// ErrInputTooLarge, since nothing after it can be trusted to line up. The
+// reader never holds more than about MaxRecordBytes of a file at once.
+const (
+	MaxFieldBytes  = 1 << 20
+	MaxLineBytes   = 4 << 20
+	MaxRecordBytes = 16 << 20
+)
+
+// csvBufferSize is the read-ahead of the CSV reader, the slack of the
+// record limit.
+const csvBufferSize = 64 << 10
+
+// sizeError reports an input beyond the limits at a line of the file.
+type sizeError struct {
+	line   int
+	reason string
+}
+
+func (e *sizeError) Error() string { return e.reason }
+
+// limitReader refuses a line or a record beyond the limits before the CSV
+// parser has buffered it whole, and counts lines to say where.
+type limitReader struct {
+	r           io.Reader
+	line        int // 1-based line being delivered
+	lineLen     int64
+	delivered   int64
+	recordStart int64
+	err         error
+}
+
+func (l *limitReader) Read(p []byte) (int, error) {
+	if l.err != nil {
+		return 0, l.err
+	}
+	n, err := l.r.Read(p)
+	chunk := p[:n]
+	for len(chunk) > 0 {
+		i := bytes.IndexByte(chunk, '\n')
+		if i < 0 {
+			l.lineLen += int64(len(chunk))
+			break
+		}
+		l.lineLen += int64(i)
+		if l.lineLen > MaxLineBytes {
+			break
+		}
+		l.lineLen = 0
+		l.line++
+		chunk = chunk[i+1:]
+	}
+	l.delivered += int64(n)
+	switch {
+	case l.lineLen > MaxLineBytes:
+		l.err = &sizeError{line: l.line, reason: fmt.Sprintf("line %d is longer than %d MiB", l.line, MaxLineBytes>>20)}
+	case l.delivered-l.recordStart > MaxRecordBytes+csvBufferSize:
+		l.err = &sizeError{line: l.line, reason: fmt.Sprintf("a record reaching line %d is longer than %d MiB", l.line, MaxRecordBytes>>20)}
+	}
+	if l.err != nil {
+		return 0, l.err
+	}
+	return n, err
+}
+
+// csvSource streams the rows of one CSV file.
+type csvSource struct {
+	file   string
+	lim    *limitReader
+	r      *csv.Reader
+	closer io.Closer
+}
+
+// newCSVSource prepares a CSV stream: a UTF-8 byte order mark is dropped, a
+// UTF-16 file is refused, CRLF line ends are read as LF, and the delimiter
+// is the one of comma, semicolon or tab that the header line uses most (a
+// semicolon for the CSV that spreadsheets write where the decimal mark is a
+// comma). Quotes are strict and rows may be ragged.
+func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error) {
+	lim := &limitReader{r: r, line: 1}
+	br := bufio.NewReaderSize(lim, csvBufferSize)
+	head, err := br.Peek(csvBufferSize)
+	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
+		var se *sizeError
+		if errors.As(err, &se) {
+			return nil, &CellError{Position: Position{File: file, Row: se.line}, Err: fmt.Errorf("%s: %w", se.reason, ErrInputTooLarge)}
+		}
+		return nil, fmt.Errorf("%s: %w", file, err)
+	}
+	if bytes.HasPrefix(head, []byte{0xFF, 0xFE}) || bytes.HasPrefix(head, []byte{0xFE, 0xFF}) {
+		return nil, fmt.Errorf("%s is UTF-16 text; save it as CSV UTF-8: %w", file, ErrUnsupportedInput)
+	}
+	if bytes.HasPrefix(head, []byte{0xEF, 0xBB, 0xBF}) {
+		_, _ = br.Discard(3)
+		head = head[3:]
+	}
+	cr := csv.NewReader(br)
+	cr.Comma = sniffDelimiter(head)
+	cr.FieldsPerRecord = -1
+	cr.ReuseRecord = true
+	cr.LazyQuotes = false
+	return &csvSource{file: file, lim: lim, r: cr, closer: closer}, nil
+}
+
+// sniffDelimiter picks the delimiter of the first line.
+func sniffDelimiter(head []byte) rune {
+	if i := bytes.IndexByte(head, '\n'); i >= 0 {
+		head = head[:i]
+	}
+	counts := map[byte]int{}
+	quoted := false
+	for _, b := range head {
+		switch {
+		case b == '"':
+			quoted = !quoted
+		case !quoted && (b == ',' || b == ';' || b == '\t'):
+			counts[b]++
+		}
+	}
+	best := byte(',')
+	for _, b := range []byte{';', '\t'} {
+		if counts[b] > counts[best] {
+			best = b
+		}
+	}
+	return rune(best)
+}
+
+// Next reads the next record. A record the CSV parser rejects (a stray
+// quote) is still returned, with what could be read and a Problem.
+func (s *csvSource) Next(row *sheetRow) error {
+	rec, err := s.r.Read()
+	if err == io.EOF {
+		return io.EOF
+	}
+	row.Problem = nil
+	var se *sizeError
+	var pe *csv.ParseError
+	switch {
+	case errors.As(err, &se):
+		return &CellError{Position: Position{File: s.file, Row: se.line}, Err: fmt.Errorf("%s: %w", se.reason, ErrInputTooLarge)}
+	case errors.As(err, &pe):
+		row.Row = pe.StartLine
+		if pe.Line > pe.StartLine {
+			row.Problem = fmt.Errorf("the row cannot be read as CSV (%v at line %d, column %d): lines %d to %d were read as one row, and the rows on them are lost",
+				pe.Err, pe.Line, pe.Column, pe.StartLine, pe.Line)
+		} else {
+			row.Problem = fmt.Errorf("the row cannot be read as CSV (%v at column %d); its cells may be incomplete", pe.Err, pe.Column)
+		}
+	case err != nil:
+		return fmt.Errorf("%s: %w", s.file, err)
+	default:
+		row.Row, _ = s.r.FieldPos(0)
+	}
+	s.lim.recordStart = s.r.InputOffset()
+	row.Fields = len(rec)
+	if row.Fields == 0 {
+		row.Fields = 1
+	}
+	row.Cells = row.Cells[:0]
+	for i, f := range rec {
+		if len(f) > MaxFieldBytes {
+			if row.Problem == nil {
+				row.Problem = fmt.Errorf("field %d is longer than %d MiB and is read as blank: %w", i+1, MaxFieldBytes>>20, ErrInputTooLarge)
+			}
+			f = ""
+		}
+		row.Cells = append(row.Cells, sheetCell{Text: f})
+	}
+	return nil
+}
+
+// Close closes the file.
+func (s *csvSource) Close() error {
+	if s.closer == nil {
+		return nil
+	}
+	return s.closer.Close()
+}
+
+// openCSV opens a CSV file as a row source.
+func openCSV(path string) (*csvSource, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	src, err := newCSVSource(f, path, f)
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	return src, nil
+}
+
+// readFolder reads a folder of CSV files: coefficients.csv, claims.csv, and
+// optionally correlations.csv and "table *.csv" files (names
+// case-insensitive). Other files are ignored.
+func readFolder(dir string) (*Input, error) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	found := map[string]string{}
+	var tables []string
+	for _, e := range entries {
+		if e.IsDir() {
+			continue
+		}
+		name := e.Name()
+		lower := strings.ToLower(name)
+		if !strings.HasSuffix(lower, ".csv") {
+			continue
+		}
+		base := strings.TrimSuffix(lower, ".csv")
+		switch base {
+		case "coefficients", "claims", "correlations":
+			found[base] = name
+		default:
+			if _, ok := tableName(name[:len(name)-4]); ok {
+				tables = append(tables, name)
+			}
+		}
+	}
+	if found["claims"] == "" {
+		return nil, fmt.Errorf("%s: no claims.csv in the folder (expected coefficients.csv, claims.csv, optionally correlations.csv and table *.csv): %w", dir, ErrMissingSheet)
+	}
+	sort.Strings(tables)
+	in := &Input{Source: dir}
+	sheets := []struct{ kind, name string }{
+		{"coefficients", found["coefficients"]}, {"claims", found["claims"]}, {"correlations", found["correlations"]},
+	}
+	for _, t := range tables {
+		sheets = append(sheets, struct{ kind, name string }{"table", t})
+	}
+	for _, sh := range sheets {
+		if sh.name == "" {
+			if sh.kind == "coefficients" {
+				in.Problems = append(in.Problems, &CellError{Position: Position{File: dir},
+					Err: fmt.Errorf("no coefficients.csv in the folder: %w", ErrMissingSheet)})
+			}
+			continue
+		}
+		path := filepath.Join(dir, sh.name)
+		src, err := openCSV(path)
+		if err != nil {
+			return nil, err
+		}
+		err = readInto(in, src, sh.kind, Position{File: path}, strings.TrimSuffix(sh.name, filepath.Ext(sh.name)))
+		cerr := src.Close()
+		if err != nil {
+			return nil, err
+		}
+		if cerr != nil {
+			return nil, cerr
+		}
+	}
+	return in, nil
+}

@@ -1,0 +1,486 @@
+package extract
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// ParseError explains why a printed cell could not be read. Its message
+// names the cell as written, the reason and the forms that are accepted:
+//
+//	"0.4.3" is not a number (more than one decimal point; expected e.g. 0.43, .43, −0.43, 0,43)
+//
+// errors.Is(err, ErrMalformedNumber) (or ErrMalformedP, ErrMalformedInterval)
+// tells the kinds apart.
+type ParseError struct {
+	// Text is the cell, trimmed.
+	Text string
+	// Kind is ErrMalformedNumber, ErrMalformedP or ErrMalformedInterval.
+	Kind error
+	// Reason says what was wrong, in a few words.
+	Reason string
+}
+
+// Error implements error.
+func (e *ParseError) Error() string {
+	noun, examples := "not a number", "0.43, .43, −0.43, 0,43"
+	switch e.Kind {
+	case ErrMalformedP:
+		noun, examples = "not a p-value", "p < .001, p = .03, .03, ns"
+	case ErrMalformedInterval:
+		noun, examples = "not a confidence interval", "[0.12, 0.45], (.12–.45), 0.12 to 0.45"
+	}
+	return fmt.Sprintf("%q is %s (%s; expected e.g. %s)", e.Text, noun, e.Reason, examples)
+}
+
+// Unwrap returns the sentinel Kind.
+func (e *ParseError) Unwrap() error { return e.Kind }
+
+// ParseNumber reads a number as a paper printed it. It accepts
+//
+//	0.43   .43   +0.43   −0.43 (U+2212)   –0.43 (en dash as a minus)
+//	0,43 (decimal comma)   1,234.5   1.234,5   1,234,567 (thousands grouped)
+//	0.21***   0.21 *   0.21† (trailing significance marks; Stars counts the *)
+//	2.3e-5   2.3E-05   2.3 × 10^-5   2.3×10⁻⁵   2.3 x 10^-5
+//
+// and leading and trailing spaces, including non-breaking ones. A single
+// comma followed by exactly three digits ("1,234", "12,345") is refused as
+// ambiguous: it is 1.234 with a decimal comma or 1234 with a thousands
+// separator, and only the paper knows which (ParseCount reads it as a
+// thousands separator, as n and df are). "0,123" is read as a decimal comma,
+// since no thousands group starts with 0.
+//
+// Decimals is the number of digits printed after the decimal separator. For
+// scientific notation it is the mantissa's decimals shifted by the exponent,
+// so that "2.3e-5" has 6 decimals and stands for [2.25e-5, 2.35e-5). A
+// precision coarser than units ("2.3e5", known to ±5000) cannot be written
+// as a count of decimals and is reported as unknown (−1).
+//
+// A blank cell gives Printed{Bound: Absent} and no error. Anything else fails
+// with a *ParseError wrapping ErrMalformedNumber.
+func ParseNumber(text string) (Printed, error) {
+	return parsePrinted(text, numberGeneral, ErrMalformedNumber)
+}
+
+// ParseCount reads a count or degrees of freedom (the n and df columns). It
+// takes everything ParseNumber takes, except significance stars, and reads a
+// comma followed by groups of three digits as a thousands separator:
+// "1,234" is 1234, while "45,5" (one or two digits after the comma) is 45.5
+// with a decimal comma. It does not require a whole number, since df of a
+// Welch test or a mixed model is often fractional; the reader of the n
+// column checks that itself.
+func ParseCount(text string) (Printed, error) {
+	return parsePrinted(text, numberCount, ErrMalformedNumber)
+}
+
+// numberMode selects how a comma is read.
+type numberMode int
+
+const (
+	// numberGeneral: a lone "d,ddd" is ambiguous and refused.
+	numberGeneral numberMode = iota
+	// numberCount: ",ddd" groups are thousands.
+	numberCount
+	// numberLimit: like numberGeneral; used for interval limits.
+	numberLimit
+)
+
+func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
+	s := trimSpace(text)
+	if s == "" {
+		return Printed{Bound: Absent}, nil
+	}
+	body, stars, marks := splitStars(s)
+	if (stars > 0 || marks) && mode != numberGeneral {
+		what := "a significance star"
+		if stars == 0 {
+			what = "a significance mark"
+		}
+		return Printed{}, &ParseError{Text: s, Kind: kind, Reason: what + " does not belong in this column"}
+	}
+	if body == "" {
+		return Printed{}, &ParseError{Text: s, Kind: kind, Reason: "stars but no number"}
+	}
+	v, dec, reason := parseNumeral(body, mode)
+	if reason != "" {
+		return Printed{}, &ParseError{Text: s, Kind: kind, Reason: reason}
+	}
+	return Printed{Value: v, Decimals: dec, Bound: Exact, Stars: stars, Text: s}, nil
+}
+
+// trimSpace trims white space, including the non-breaking and thin spaces
+// that typeset tables carry into copied text.
+func trimSpace(s string) string {
+	return strings.TrimFunc(s, isSpace)
+}
+
+func isSpace(r rune) bool {
+	switch r {
+	case ' ', '\t', '\n', '\r', '\v', '\f', '\u00a0', '\u2007', '\u2009', '\u200a', '\u202f', '\u205f', '\u3000', '\ufeff':
+		return true
+	}
+	return false
+}
+
+// isMinus reports whether r is printed as a minus sign before a number.
+func isMinus(r rune) bool {
+	switch r {
+	case '-', '\u2212', '\u2013', '\u2012', '\ufe63', '\uff0d':
+		return true
+	}
+	return false
+}
+
+// splitStars strips trailing significance marks: stars, which it counts,
+// and daggers and double daggers, which it accepts without counting (they
+// usually mark p < .10 and are kept in Text).
+func splitStars(s string) (body string, stars int, marks bool) {
+	body = s
+	for body != "" {
+		r, size := utf8.DecodeLastRuneInString(body)
+		switch {
+		case r == '*' || r == '\u2217':
+			stars++
+		case r == '\u2020' || r == '\u2021':
+			marks = true
+		case isSpace(r):
+		default:
+			return body, stars, marks
+		}
+		body = body[:len(body)-size]
+	}
+	return body, stars, marks
+}
+
+// superscripts maps superscript digits and signs to ASCII, for "10⁻⁵".
+var superscripts = map[rune]byte{
+	'⁰': '0', '¹': '1', '²': '2', '³': '3', '⁴': '4', '⁵': '5', '⁶': '6', '⁷': '7', '⁸': '8', '⁹': '9',
+	'⁻': '-', '⁺': '+',
+}
+
+// parseNumeral reads an optionally signed number with an optional exponent.
+// It returns a non-empty reason when s is not a number.
+func parseNumeral(s string, mode numberMode) (v float64, decimals int, reason string) {
+	neg := false
+	if r, size := utf8.DecodeRuneInString(s); r == '+' || isMinus(r) {
+		neg = isMinus(r)
+		s = strings.TrimLeftFunc(s[size:], isSpace)
+		if s == "" {
+			return 0, 0, "a sign but no number"
+		}
+	}
+	mant, exp, hasExp, reason := splitExponent(s)
+	if reason != "" {
+		return 0, 0, reason
+	}
+	intPart, frac, reason := splitMantissa(mant, mode)
+	if reason != "" {
+		return 0, 0, reason
+	}
+	var b strings.Builder
+	b.Grow(len(intPart) + len(frac) + 8)
+	if neg {
+		b.WriteByte('-')
+	}
+	if intPart == "" {
+		b.WriteByte('0')
+	} else {
+		b.WriteString(intPart)
+	}
+	if frac != "" {
+		b.WriteByte('.')
+		b.WriteString(frac)
+	}
+	decimals = len(frac)
+	if hasExp {
+		b.WriteByte('e')
+		b.WriteString(strconv.Itoa(exp))
+		decimals -= exp
+		if decimals < 0 {
+			decimals = -1
+		}
+	}
+	v, err := strconv.ParseFloat(b.String(), 64)
+	if err != nil || math.IsInf(v, 0) {
+		return 0, 0, "too large to be a number"
+	}
+	return v, decimals, ""
+}
+
+// splitExponent separates "2.3e-5", "2.3 × 10^-5" and "2.3×10⁻⁵" into the
+// mantissa and the exponent.
+func splitExponent(s string) (mant string, exp int, hasExp bool, reason string) {
+	if i := strings.IndexAny(s, "eE"); i >= 0 {
+		e := s[i+1:]
+		n, ok := parseExponent(e)
+		if !ok {
+			return "", 0, false, fmt.Sprintf("%q is not an exponent", e)
+		}
+		if i == 0 {
+			return "", 0, false, "an exponent without a number before it"
+		}
+		return s[:i], n, true, ""
+	}
+	// "× 10^-5", "x10^-5", "·10⁻⁵", "*10^-5": find the times sign.
+	i := strings.IndexAny(s, "×xX·*")
+	if i < 0 {
+		return s, 0, false, ""
+	}
+	_, size := utf8.DecodeRuneInString(s[i:])
+	mant = strings.TrimRightFunc(s[:i], isSpace)
+	rest := strings.TrimLeftFunc(s[i+size:], isSpace)
+	if !strings.HasPrefix(rest, "10") {
+		return "", 0, false, "a times sign not followed by 10"
+	}
+	rest = rest[2:]
+	if rest == "" {
+		return "", 0, false, "a power of 10 without its exponent (write 10^-5 or 10⁻⁵)"
+	}
+	switch {
+	case strings.HasPrefix(rest, "^"):
+		rest = rest[1:]
+	case strings.HasPrefix(rest, "**"):
+		rest = rest[2:]
+	default:
+		var b strings.Builder
+		for _, r := range rest {
+			c, ok := superscripts[r]
+			if !ok {
+				return "", 0, false, "a power of 10 without its exponent (write 10^-5 or 10⁻⁵)"
+			}
+			b.WriteByte(c)
+		}
+		rest = b.String()
+	}
+	n, ok := parseExponent(rest)
+	if !ok {
+		return "", 0, false, fmt.Sprintf("%q is not an exponent", rest)
+	}
+	if mant == "" {
+		return "", 0, false, "a power of 10 without a number before it"
+	}
+	return mant, n, true, ""
+}
+
+// parseExponent reads a signed integer exponent of at most four digits.
+func parseExponent(e string) (int, bool) {
+	neg := false
+	if r, size := utf8.DecodeRuneInString(e); r == '+' || isMinus(r) {
+		neg = isMinus(r)
+		e = e[size:]
+	}
+	if e == "" || len(e) > 4 {
+		return 0, false
+	}
+	n := 0
+	for i := 0; i < len(e); i++ {
+		if e[i] < '0' || e[i] > '9' {
+			return 0, false
+		}
+		n = 10*n + int(e[i]-'0')
+	}
+	if neg {
+		n = -n
+	}
+	return n, true
+}
+
+// splitMantissa checks the digits and separators of a mantissa and returns
+// its integer and fractional digits.
+func splitMantissa(s string, mode numberMode) (intPart, frac, reason string) {
+	if s == "" {
+		return "", "", "no digits"
+	}
+	var seps []int
+	digits := 0
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			digits++
+		case c == '.' || c == ',':
+			seps = append(seps, i)
+		default:
+			r, _ := utf8.DecodeRuneInString(s[i:])
+			if isSpace(r) {
+				return "", "", "a space inside the number"
+			}
+			if r == '%' {
+				return "", "", "a percent sign (write the number as a proportion or in a column that takes percent)"
+			}
+			return "", "", fmt.Sprintf("%q is not part of a number", string(r))
+		}
+	}
+	if digits == 0 {
+		return "", "", "no digits"
+	}
+	if len(seps) == 0 {
+		return s, "", ""
+	}
+	dots, commas := 0, 0
+	for _, i := range seps {
+		if s[i] == '.' {
+			dots++
+		} else {
+			commas++
+		}
+	}
+	switch {
+	case commas == 0:
+		if dots > 1 {
+			return "", "", "more than one decimal point"
+		}
+		return splitAt(s, seps[0])
+	case dots == 0 && commas == 1:
+		i := seps[0]
+		if isThousandsGroup(s[:i], s[i+1:]) {
+			if mode == numberCount {
+				return s[:i] + s[i+1:], "", ""
+			}
+			return "", "", fmt.Sprintf("ambiguous: %s with a decimal comma or %s%s with a thousands separator (write %s.%s or %s%s)",
+				s[:i]+"."+s[i+1:], s[:i], s[i+1:], s[:i], s[i+1:], s[:i], s[i+1:])
+		}
+		return splitAt(s, i)
+	case dots == 0:
+		if grouped(s, ',') {
+			return strings.ReplaceAll(s, ",", ""), "", ""
+		}
+		return "", "", "more than one decimal comma"
+	}
+	// Both kinds: the last separator is the decimal mark and the other
+	// kind must group thousands before it.
+	last := seps[len(seps)-1]
+	mark := s[last]
+	group := byte(',')
+	if mark == ',' {
+		group = '.'
+	}
+	for _, i := range seps[:len(seps)-1] {
+		if s[i] == mark {
+			return "", "", "more than one decimal separator"
+		}
+	}
+	if !grouped(s[:last], group) {
+		return "", "", fmt.Sprintf("%q does not group thousands", string(group))
+	}
+	return splitAt(strings.ReplaceAll(s[:last], string(group), "")+"."+s[last+1:], last-(len(seps)-1))
+}
+
+// splitAt splits s at the decimal separator at index i.
+func splitAt(s string, i int) (intPart, frac, reason string) {
+	intPart, frac = s[:i], s[i+1:]
+	if frac == "" {
+		return "", "", "no digits after the decimal separator"
+	}
+	return intPart, frac, ""
+}
+
+// isThousandsGroup reports whether "a,b" reads as a thousands group: 1 to 3
+// leading digits, not starting with 0, then exactly three digits.
+func isThousandsGroup(a, b string) bool {
+	return len(a) >= 1 && len(a) <= 3 && a[0] != '0' && len(b) == 3
+}
+
+// grouped reports whether s is digits grouped in threes by sep, the first
+// group of 1 to 3 digits not starting with 0 (unless it is a lone 0).
+func grouped(s string, sep byte) bool {
+	parts := strings.Split(s, string(sep))
+	if len(parts) < 2 {
+		return false
+	}
+	first := parts[0]
+	if len(first) < 1 || len(first) > 3 || (first[0] == '0' && len(first) > 1) || first == "0" {
+		return false
+	}
+	for _, p := range parts[1:] {
+		if len(p) != 3 {
+			return false
+		}
+	}
+	return true
+}
+
+// ParseP reads a p-value as printed. It takes everything ParseNumber takes
+// and, in addition,
+//
+//	p = .03   p=0.03   P = .03   (Exact)
+//	p < .001   P<0.001   <.001   p ≤ .05   p <= .05   (Below: p is below Value)
+//	p > .05   > .05   p ≥ .10   (Above: p is above Value)
+//	ns   n.s.   NS   n.s   (NotSignificant: above the paper's alpha)
+//
+// A p outside [0, 1], "p < 0" and "p > 1" fail with a *ParseError wrapping
+// ErrMalformedP that says why. "p = .000", as some programs print, is
+// accepted as Exact 0 with 3 decimals: it stands for p < .0005.
+func ParseP(text string) (Printed, error) {
+	s := trimSpace(text)
+	if s == "" {
+		return Printed{Bound: Absent}, nil
+	}
+	if isNotSignificant(s) {
+		return Printed{Bound: NotSignificant, Decimals: -1, Text: s}, nil
+	}
+	rest := s
+	hasP := false
+	if rest[0] == 'p' || rest[0] == 'P' {
+		hasP = true
+		rest = strings.TrimLeftFunc(rest[1:], isSpace)
+	}
+	bound := Exact
+	op := ""
+	for _, o := range []struct {
+		text  string
+		bound Bound
+	}{
+		{"<=", Below}, {"≤", Below}, {"⩽", Below}, {"<", Below},
+		{">=", Above}, {"≥", Above}, {"⩾", Above}, {">", Above},
+		{"=", Exact},
+	} {
+		if strings.HasPrefix(rest, o.text) {
+			op, bound = o.text, o.bound
+			rest = strings.TrimLeftFunc(rest[len(o.text):], isSpace)
+			break
+		}
+	}
+	if hasP && op == "" {
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "expected <, = or > after p"}
+	}
+	if rest == "" {
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no number"}
+	}
+	p, err := parsePrinted(rest, numberGeneral, ErrMalformedP)
+	if err != nil {
+		var pe *ParseError
+		if errors.As(err, &pe) {
+			pe.Text = s
+		}
+		return Printed{}, err
+	}
+	p.Bound, p.Text = bound, s
+	switch {
+	case p.Value < 0:
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "a p-value cannot be negative"}
+	case p.Value > 1:
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "a p-value cannot exceed 1"}
+	case bound == Below && p.Value == 0:
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no p-value is below 0"}
+	case bound == Above && p.Value == 1:
+		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no p-value is above 1"}
+	}
+	return p, nil
+}
+
+// isNotSignificant recognizes "ns", "n.s.", "NS", "n.s", "n. s.".
+func isNotSignificant(s string) bool {
+	var b strings.Builder
+	for _, r := range s {
+		if r == '.' || isSpace(r) {
+			continue
+		}
+		b.WriteRune(r)
+	}
+	return strings.EqualFold(b.String(), "ns")
+}

@@ -1,0 +1,144 @@
+package extract
+
+import (
+	"fmt"
+	"os"
+	"strings"
+)
+
+// Read reads an input in any of its three forms, chosen by what path is:
+//
+//   - an .xlsx workbook (recognized by its content, not its name) with the
+//     sheets coefficients, claims, optionally correlations, and any number
+//     of "table …" sheets, names case-insensitive; other sheets (such as the
+//     template's instructions) are ignored;
+//   - a folder with coefficients.csv, claims.csv, optionally
+//     correlations.csv and "table *.csv" files;
+//   - a single paired CSV, one claim per row with both coefficients inline
+//     (see PairedReader for its columns and how labels are made).
+//
+// Every record keeps its file, sheet and row. Read fails only when nothing
+// can be read: a missing file, a file that is not a workbook or a CSV, no
+// claims sheet (ErrMissingSheet), or an input beyond the size limits
+// (ErrInputTooLarge; see MaxUnzippedBytes and MaxLineBytes). Everything else
+// is a problem: of a row, in that record's Problems, or of a sheet (a
+// missing coefficients sheet, a missing column, an empty claims sheet), in
+// Input.Problems. Every non-blank claims row yields exactly one Claim, in
+// order, however malformed; entirely blank rows are skipped.
+//
+// Header names are matched case-insensitively after trimming, with a space
+// or hyphen read as an underscore; unknown columns are kept in Extra. Row
+// numbers are the sheet's own (header = row 1; for a CSV, the line on which
+// the record starts). The input file is opened read-only and never changed.
+func Read(path string) (*Input, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if fi.IsDir() {
+		return readFolder(path)
+	}
+	zipLike, err := isZipFile(path)
+	if err != nil {
+		return nil, err
+	}
+	lower := strings.ToLower(path)
+	if zipLike || strings.HasSuffix(lower, ".xlsx") || strings.HasSuffix(lower, ".xlsm") || strings.HasSuffix(lower, ".xls") {
+		return readWorkbook(path)
+	}
+	return readPairedFile(path)
+}
+
+// readWorkbook reads the sheets of a workbook.
+func readWorkbook(path string) (*Input, error) {
+	wb, err := openWorkbook(path)
+	if err != nil {
+		return nil, err
+	}
+	defer wb.Close()
+	found := map[string]string{}
+	var tables []string
+	sheets := wb.sheets()
+	for _, s := range sheets {
+		key := strings.ToLower(trimSpace(s))
+		switch key {
+		case "coefficients", "claims", "correlations":
+			if _, dup := found[key]; !dup {
+				found[key] = s
+			}
+		default:
+			if _, ok := tableName(s); ok {
+				tables = append(tables, s)
+			}
+		}
+	}
+	if found["claims"] == "" {
+		return nil, fmt.Errorf("%s has no claims sheet (its sheets: %s; expected coefficients, claims, optionally correlations and \"table …\"): %w",
+			path, strings.Join(quoteAll(sheets), ", "), ErrMissingSheet)
+	}
+	in := &Input{Source: path}
+	if found["coefficients"] == "" {
+		in.Problems = append(in.Problems, &CellError{Position: Position{File: path},
+			Err: fmt.Errorf("the workbook has no coefficients sheet: %w", ErrMissingSheet)})
+	}
+	order := []struct{ kind, sheet string }{
+		{"coefficients", found["coefficients"]}, {"claims", found["claims"]}, {"correlations", found["correlations"]},
+	}
+	for _, t := range tables {
+		order = append(order, struct{ kind, sheet string }{"table", t})
+	}
+	for _, o := range order {
+		if o.sheet == "" {
+			continue
+		}
+		src, err := wb.source(o.sheet)
+		if err != nil {
+			return nil, err
+		}
+		err = readInto(in, src, o.kind, Position{File: path, Sheet: o.sheet}, o.sheet)
+		cerr := src.Close()
+		if err != nil {
+			return nil, err
+		}
+		if cerr != nil {
+			return nil, fmt.Errorf("%s, sheet %q: %w", path, o.sheet, cerr)
+		}
+	}
+	return in, nil
+}
+
+// readInto reads one sheet of the given kind into in. It returns only a
+// fatal error of the source.
+func readInto(in *Input, src rowSource, kind string, pos Position, sheetName string) error {
+	switch kind {
+	case "coefficients":
+		cs, probs, err := readCoefficientSheet(src, pos)
+		in.Coefficients = append(in.Coefficients, cs...)
+		in.Problems = append(in.Problems, probs...)
+		return err
+	case "claims":
+		cs, probs, err := readClaimSheet(src, pos)
+		in.Claims = append(in.Claims, cs...)
+		in.Problems = append(in.Problems, probs...)
+		return err
+	case "correlations":
+		cs, probs, err := readCorrelationSheet(src, pos)
+		in.Correlations = append(in.Correlations, cs...)
+		in.Problems = append(in.Problems, probs...)
+		return err
+	case "table":
+		name, _ := tableName(sheetName)
+		t, err := readTableSheet(src, pos, name)
+		in.Tables = append(in.Tables, t)
+		return err
+	}
+	return fmt.Errorf("unknown sheet kind %q", kind)
+}
+
+func quoteAll(names []string) []string {
+	out := make([]string, len(names))
+	for i, n := range names {
+		out[i] = fmt.Sprintf("%q", n)
+	}
+	return out
+}

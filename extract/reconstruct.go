@@ -1,0 +1,294 @@
+package extract
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"coefaudit/infer"
+)
+
+// ErrNoStandardError is returned when nothing printed gives a standard error.
+var ErrNoStandardError = errors.New("no standard error can be reconstructed")
+
+// Scales on which a coefficient is analysed.
+const (
+	ScaleAsPrinted = "as printed"
+	ScaleLog       = "log"
+	ScaleFisherZ   = "Fisher z"
+)
+
+// Reconstructed is a coefficient on the scale it is analysed on (the log for
+// ratio measures, Fisher's z for correlations), with the standard error
+// rebuilt from what was printed and the ranges both can take within the
+// rounding of the printed numbers.
+type Reconstructed struct {
+	Label, Measure string
+	Scale          string
+	Estimate       float64
+	EstimateRange  infer.Range
+	SE             float64
+	SERange        infer.Range
+	// SEFrom names the printed numbers the SE came from, e.g. "ci_low, ci_high (t, df 24)".
+	SEFrom string
+	// SEExactRange is false when SERange shares inputs with EstimateRange (an
+	// SE from the estimate and its p or statistic), so that a p range built
+	// from both is a safe outer bound rather than exact.
+	SEExactRange bool
+	// DF is the df used for the t quantile, NaN when the normal was used.
+	DF float64
+	// N is the printed n, NaN when blank.
+	N float64
+	// Level is the printed interval's confidence level as a proportion.
+	Level float64
+	// CI is the printed interval on the analysis scale (NaN when not printed).
+	CI [2]float64
+	// Notes say how the SE was taken and what was assumed.
+	Notes []string
+}
+
+// Reconstruct rebuilds a coefficient's SE from what was printed, trying in
+// turn the printed SE, the interval, the t or z statistic and the p-value.
+// modelSize is the number of coefficients of the same fitted model listed
+// in the input; it is used to derive df = n − modelSize − 1 for regression
+// coefficients when df was not printed.
+//
+// The t quantile is used when df is printed, or can be derived: n − 2 for a
+// mean difference (two groups; Cochrane Handbook 5.1 §7.7.3.3), n − k − 1 for
+// a regression coefficient of a model with k listed coefficients (an upper
+// bound on the true df when covariates went unlisted). Ratio measures and
+// correlations use the normal, as their intervals are large-sample Wald or
+// Fisher-z intervals.
+func Reconstruct(c Coefficient, modelSize int) (Reconstructed, error) {
+	rc := Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
+		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()}}
+	level := c.CILevel
+	if level == 0 {
+		level = DefaultCILevel
+	}
+	rc.Level = level / 100
+	if !c.Estimate.IsExact() {
+		return rc, fmt.Errorf("%w: no estimate printed", ErrNoStandardError)
+	}
+	if c.N.IsExact() {
+		rc.N = c.N.Value
+	}
+	transform := func(x float64) float64 { return x }
+	switch {
+	case IsRatioMeasure(c.Measure):
+		rc.Scale = ScaleLog
+		transform = math.Log
+	case c.Measure == MeasureR:
+		rc.Scale = ScaleFisherZ
+		transform = math.Atanh
+	}
+	tr := func(p Printed) (float64, infer.Range, error) {
+		lo, hi := p.RoundingInterval()
+		v, a, b := transform(p.Value), transform(lo), transform(hi)
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return 0, infer.Range{}, fmt.Errorf("%s %s cannot be put on the %s scale", c.Measure, p.Text, rc.Scale)
+		}
+		// Rounding may push a limit past the scale's edge (a ratio printed as 0.00, r = 1.00).
+		if math.IsNaN(a) || math.IsInf(a, 0) {
+			a = v
+		}
+		if math.IsNaN(b) || math.IsInf(b, 0) {
+			b = v
+		}
+		return v, infer.Range{Lo: a, Hi: b}, nil
+	}
+	var err error
+	rc.Estimate, rc.EstimateRange, err = tr(c.Estimate)
+	if err != nil {
+		return rc, err
+	}
+	rc.DF = chooseDF(c, modelSize, &rc)
+	tName := "normal"
+	if !math.IsNaN(rc.DF) {
+		tName = fmt.Sprintf("t, df %g", rc.DF)
+	}
+
+	if c.CI.Present() {
+		lo, _, err1 := tr(c.CI.Low)
+		hi, _, err2 := tr(c.CI.High)
+		if err := errors.Join(err1, err2); err != nil {
+			return rc, err
+		}
+		rc.CI = [2]float64{lo, hi}
+	}
+
+	switch {
+	case c.Measure == MeasureR && rc.N > 3:
+		// The sampling SD of Fisher's z is 1/√(n − 3) whatever else was
+		// printed (Fisher 1921); it needs no rounding allowance.
+		rc.SE = 1 / math.Sqrt(rc.N-3)
+		rc.SERange = infer.Point(rc.SE)
+		rc.SEFrom = "n (Fisher z)"
+		rc.SEExactRange = true
+	case c.SE.IsExact() && c.SE.Value > 0:
+		rc.SE = c.SE.Value
+		lo, hi := c.SE.RoundingInterval()
+		rc.SERange = infer.Range{Lo: math.Max(lo, c.SE.Value*1e-3), Hi: hi}
+		if lo <= 0 {
+			rc.SERange.Lo = hi * 1e-3
+		}
+		rc.SEFrom = "se"
+		rc.SEExactRange = true
+		if rc.Scale != ScaleAsPrinted {
+			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the printed SE is taken to be on the %s scale", c.Label, rc.Scale))
+		}
+	case c.CI.Present():
+		if err := rc.fromInterval(c, tr, tName); err != nil {
+			return rc, err
+		}
+	case c.Stat.IsExact() && c.Stat.Value != 0:
+		rc.fromStatistic(c)
+	case c.P.IsExact() || c.P.Bound == Below:
+		if err := rc.fromP(c, tName); err != nil {
+			return rc, err
+		}
+	default:
+		what := "no SE, interval, statistic or p-value printed"
+		if c.P.Bound == NotSignificant || c.P.Bound == Above {
+			what = fmt.Sprintf("only %q printed for p, which bounds nothing useful", c.P.Text)
+		}
+		return rc, fmt.Errorf("%w: %s", ErrNoStandardError, what)
+	}
+	return rc, nil
+}
+
+// smallDF is the df below which a derived df is worth a note: above it the
+// t and normal quantiles differ by less than 2% (t(0.975, 100) = 1.984).
+const smallDF = 100
+
+func chooseDF(c Coefficient, modelSize int, rc *Reconstructed) float64 {
+	if c.DF.IsExact() && c.DF.Value > 0 {
+		return c.DF.Value
+	}
+	if !c.N.IsExact() || IsRatioMeasure(c.Measure) || c.Measure == MeasureR {
+		return math.NaN()
+	}
+	n := c.N.Value
+	switch c.Measure {
+	case MeasureMD:
+		if n > 2 {
+			if n-2 < smallDF {
+				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
+			}
+			return n - 2
+		}
+	case MeasureB, MeasureBeta:
+		k := float64(max(modelSize, 1))
+		if n-k-1 > 0 {
+			if n-k-1 < smallDF {
+				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − k − 1 = %g with the k = %g coefficients listed for its model; unlisted covariates would lower it", c.Label, n-k-1, k))
+			}
+			return n - k - 1
+		}
+	}
+	return math.NaN()
+}
+
+func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, infer.Range, error), tName string) error {
+	_, loR, _ := tr(c.CI.Low)
+	_, hiR, _ := tr(c.CI.High)
+	lo, hi := rc.CI[0], rc.CI[1]
+	if !(lo < hi) {
+		return fmt.Errorf("%w: interval limits %s and %s are reversed or equal", ErrNoStandardError, c.CI.Low.Text, c.CI.High.Text)
+	}
+	crit, err := infer.CriticalValue(rc.Level, rc.DF)
+	if err != nil {
+		return fmt.Errorf("%w: %v", ErrNoStandardError, err)
+	}
+	rc.SE = (hi - lo) / (2 * crit)
+	rc.SERange = infer.Range{Lo: math.Max(hiR.Lo-loR.Hi, 1e-3*(hi-lo)) / (2 * crit), Hi: (hiR.Hi - loR.Lo) / (2 * crit)}
+	rc.SEFrom = fmt.Sprintf("ci_low, ci_high (%s)", tName)
+	rc.SEExactRange = true
+	// An asymmetric interval is no error (bootstrap and profile intervals are
+	// asymmetric): the range always covers the SE read from either half, and
+	// an asymmetry beyond what rounding explains is noted.
+	seLo, seHi := (rc.Estimate-lo)/crit, (hi-rc.Estimate)/crit
+	if seLo > 0 && seHi > 0 {
+		rc.SERange.Lo = math.Min(rc.SERange.Lo, math.Min(seLo, seHi))
+		rc.SERange.Hi = math.Max(rc.SERange.Hi, math.Max(seLo, seHi))
+	}
+	slack := (rc.EstimateRange.Hi - rc.EstimateRange.Lo + loR.Hi - loR.Lo + hiR.Hi - hiR.Lo) / crit
+	if math.Abs(seLo-seHi) > slack && seLo > 0 && seHi > 0 {
+		scale := ""
+		if rc.Scale != ScaleAsPrinted {
+			scale = " on the " + rc.Scale + " scale"
+		}
+		rc.SEFrom = fmt.Sprintf("ci_low, ci_high, mean of the two half-widths (%s)", tName)
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: asymmetric interval%s (SE %.4g from the lower half, %.4g from the upper); the SE is their mean and the p range covers both",
+			c.Label, scale, seLo, seHi))
+	}
+	return nil
+}
+
+func (rc *Reconstructed) fromStatistic(c Coefficient) {
+	rc.SE = math.Abs(rc.Estimate / c.Stat.Value)
+	slo, shi := c.Stat.RoundingInterval()
+	aLo, aHi := absRange(rc.EstimateRange)
+	tLo, tHi := math.Min(math.Abs(slo), math.Abs(shi)), math.Max(math.Abs(slo), math.Abs(shi))
+	if tLo <= 0 {
+		tLo = tHi * 1e-3
+	}
+	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / tHi, Hi: aHi / tLo}
+	rc.SEFrom = "estimate, stat"
+	if rc.Scale != ScaleAsPrinted {
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the statistic is taken to be estimate/SE on the %s scale", c.Label, rc.Scale))
+	}
+}
+
+func (rc *Reconstructed) fromP(c Coefficient, tName string) error {
+	q := func(p float64) (float64, error) {
+		if math.IsNaN(rc.DF) {
+			return infer.NormalZFromTwoSidedP(p)
+		}
+		return infer.StudentTFromTwoSidedP(p, rc.DF)
+	}
+	if rc.Estimate == 0 {
+		return fmt.Errorf("%w: the estimate is 0, so its p-value fixes no scale", ErrNoStandardError)
+	}
+	aLo, aHi := absRange(rc.EstimateRange)
+	if c.P.Bound == Below {
+		qb, err := q(c.P.Value)
+		if err != nil {
+			return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+		}
+		rc.SE = math.Abs(rc.Estimate) / qb
+		rc.SERange = infer.Range{Lo: rc.SE * 1e-6, Hi: aHi / qb}
+		rc.SEFrom = fmt.Sprintf("estimate, p bound (%s)", tName)
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: only %q was printed, so the SE %.4g taken from it is the largest the bound allows", c.Label, c.P.Text, rc.SE))
+		return nil
+	}
+	pq, err := q(c.P.Value)
+	if err != nil || pq == 0 {
+		return fmt.Errorf("%w: p %s gives no statistic", ErrNoStandardError, c.P.Text)
+	}
+	rc.SE = math.Abs(rc.Estimate) / pq
+	plo, phi := c.P.RoundingInterval()
+	plo = math.Max(plo, c.P.Value*1e-3)
+	phi = math.Min(phi, 1)
+	qHi, err1 := q(plo)
+	qLo, err2 := q(phi)
+	if err := errors.Join(err1, err2); err != nil {
+		return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+	}
+	hi := math.Inf(1)
+	if qLo > 0 {
+		hi = aHi / qLo
+	}
+	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / qHi, Hi: hi}
+	rc.SEFrom = fmt.Sprintf("estimate, p (%s)", tName)
+	return nil
+}
+
+// absRange returns the range of |x| for x in r.
+func absRange(r infer.Range) (lo, hi float64) {
+	if r.Contains(0) {
+		return 0, math.Max(-r.Lo, r.Hi)
+	}
+	a, b := math.Abs(r.Lo), math.Abs(r.Hi)
+	return math.Min(a, b), math.Max(a, b)
+}

@@ -1,0 +1,560 @@
+package extract
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Known columns of each sheet, by canonical name.
+var (
+	coefficientColumnNames = []string{"study", "label", "measure", "outcome", "predictor", "group", "model",
+		"estimate", "ci_low", "ci_high", "ci", "ci_level", "se", "stat", "p", "df", "n"}
+	claimColumnNames       = []string{"study", "claim", "first", "second", "published", "published_p", "basis", "alpha", "estimate_corr", "topic"}
+	correlationColumnNames = []string{"study", "group", "var_a", "var_b", "r", "n", "sd", "mean"}
+)
+
+func nameSet(names ...[]string) map[string]bool {
+	m := make(map[string]bool)
+	for _, list := range names {
+		for _, n := range list {
+			m[n] = true
+		}
+	}
+	return m
+}
+
+// readSheet streams a sheet: the first non-blank row is the header, every
+// later non-blank row goes to each. It returns the header (nil for an empty
+// sheet) and a fatal error from the source.
+func readSheet(src rowSource, pos Position, known map[string]bool, each func(cols *columns, row *sheetRow)) (*columns, error) {
+	var row sheetRow
+	var cols *columns
+	for {
+		err := src.Next(&row)
+		if err == io.EOF {
+			return cols, nil
+		}
+		if err != nil {
+			return cols, err
+		}
+		if row.blank() {
+			continue
+		}
+		if cols == nil {
+			cols = newColumns(&row, pos, known)
+			continue
+		}
+		each(cols, &row)
+	}
+}
+
+// coefficientColumns locates the columns of one coefficient: the
+// coefficients sheet's own, or one side ("first_", "second_") of a paired
+// CSV, where measure, group, model and outcome may also be shared by both
+// sides (the shared* fields, −1 when absent).
+type coefficientColumns struct {
+	prefix                                                   string
+	study, label, measure, outcome, predictor, group, model  int
+	estimate, ciLow, ciHigh, ci, ciLevel, se, stat, p, df, n int
+	sharedMeasure, sharedGroup, sharedModel, sharedOutcome   int
+}
+
+func lookupCoefficientColumns(c *columns, prefix string) coefficientColumns {
+	col := func(n string) int { return c.col(prefix + n) }
+	cc := coefficientColumns{prefix: prefix,
+		study: col("study"), label: col("label"), measure: col("measure"), outcome: col("outcome"),
+		predictor: col("predictor"), group: col("group"), model: col("model"),
+		estimate: col("estimate"), ciLow: col("ci_low"), ciHigh: col("ci_high"), ci: col("ci"),
+		ciLevel: col("ci_level"), se: col("se"), stat: col("stat"), p: col("p"), df: col("df"), n: col("n"),
+		sharedMeasure: -1, sharedGroup: -1, sharedModel: -1, sharedOutcome: -1}
+	if prefix != "" {
+		cc.study = c.col("study")
+		cc.sharedMeasure, cc.sharedGroup = c.col("measure"), c.col("group")
+		cc.sharedModel, cc.sharedOutcome = c.col("model"), c.col("outcome")
+	}
+	return cc
+}
+
+// requiredText returns the text of a required column, recording
+// ErrMissingValue for a blank cell and ErrMissingColumn when the header
+// lacks the column.
+func (r *rowReading) requiredText(i int, name string) string {
+	if i < 0 {
+		r.failNamed(name, fmt.Errorf("no %q column in the header: %w", name, ErrMissingColumn))
+		return ""
+	}
+	t := r.text(i)
+	if t == "" {
+		r.fail(i, fmt.Errorf("%s is blank: %w", name, ErrMissingValue))
+	}
+	return t
+}
+
+// textOr returns column i's text, or column j's when i is absent or blank.
+func (r *rowReading) textOr(i, j int) string {
+	if t := r.text(i); t != "" {
+		return t
+	}
+	return r.text(j)
+}
+
+// extra collects the unknown columns of the row.
+func (r *rowReading) extra() Extra {
+	if len(r.cols.extra) == 0 {
+		return Extra{}
+	}
+	vals := make([]string, len(r.cols.extra))
+	for k, i := range r.cols.extra {
+		vals[k] = r.text(i)
+	}
+	return Extra{Names: r.cols.extraNames, Values: vals}
+}
+
+// readCoefficient reads one coefficient from the row. It validates what is
+// about the input (allowed values, ranges, an interval given twice) and
+// leaves what is about the statistics (an estimate outside its own CI) to
+// the audit.
+func readCoefficient(r *rowReading, cc *coefficientColumns) Coefficient {
+	c := Coefficient{Position: r.pos}
+	if cc.prefix == "" {
+		c.Study = r.requiredText(cc.study, "study")
+		c.Label = r.requiredText(cc.label, "label")
+	} else {
+		// A side of a paired CSV: the study belongs to the claim, and the
+		// label is optional (the reader makes it unique per claim).
+		c.Study = r.text(cc.study)
+		c.Label = r.text(cc.label)
+	}
+	c.Outcome = r.textOr(cc.outcome, cc.sharedOutcome)
+	c.Predictor = r.text(cc.predictor)
+	c.Group = r.textOr(cc.group, cc.sharedGroup)
+	c.Model = r.textOr(cc.model, cc.sharedModel)
+
+	c.Measure = MeasureOther
+	mi := cc.measure
+	if r.text(mi) == "" {
+		mi = cc.sharedMeasure
+	}
+	if t := r.text(mi); t != "" {
+		if m, err := allowedValue("measure", t); err != nil {
+			r.fail(mi, err)
+		} else {
+			c.Measure = m
+		}
+	}
+
+	if cc.estimate < 0 {
+		r.failNamed(cc.prefix+"estimate", fmt.Errorf("no %q column in the header: %w", cc.prefix+"estimate", ErrMissingColumn))
+	} else if r.text(cc.estimate) == "" {
+		r.fail(cc.estimate, fmt.Errorf("%s is blank: %w", cc.prefix+"estimate", ErrMissingValue))
+	}
+	c.Estimate = r.number(cc.estimate, kindNumber)
+	c.CI, c.CILevel = readInterval(r, cc)
+	c.SE = r.number(cc.se, kindLimit)
+	if c.SE.Present() && c.SE.Value < 0 {
+		r.fail(cc.se, fmt.Errorf("a standard error cannot be negative (%s): %w", c.SE.Text, ErrOutOfRange))
+	}
+	c.Stat = r.number(cc.stat, kindNumber)
+	c.P = r.number(cc.p, kindP)
+	c.DF = r.number(cc.df, kindCount)
+	if c.DF.Present() && !(c.DF.Value > 0) {
+		r.fail(cc.df, fmt.Errorf("degrees of freedom must be positive (%s): %w", c.DF.Text, ErrOutOfRange))
+	}
+	c.N = r.sampleSize(cc.n)
+	checkMeasureRange(r, cc, &c)
+	c.Extra = r.extra()
+	c.Problems = r.problems
+	return c
+}
+
+// sampleSize reads an n column: a positive whole number. Since n cannot be
+// fractional, a dot grouping thousands ("1.234", as printed in much of
+// Europe) is read as 1234 here, though not in df, whose decimals are real.
+func (r *rowReading) sampleSize(i int) Printed {
+	p := r.number(i, kindCount)
+	p, err := checkSampleSize(p)
+	if err != nil {
+		r.fail(i, err)
+		return Printed{Bound: Absent}
+	}
+	return p
+}
+
+// checkSampleSize validates n, reading a dot-grouped count.
+func checkSampleSize(p Printed) (Printed, error) {
+	if !p.Present() {
+		return p, nil
+	}
+	if p.Value != math.Trunc(p.Value) && grouped(p.Text, '.') {
+		if v, err := strconv.ParseFloat(strings.ReplaceAll(p.Text, ".", ""), 64); err == nil {
+			p.Value, p.Decimals = v, 0
+		}
+	}
+	if !(p.Value > 0) || p.Value != math.Trunc(p.Value) {
+		return p, fmt.Errorf("n must be a positive whole number (%s): %w", p.Text, ErrOutOfRange)
+	}
+	return p, nil
+}
+
+// checkMeasureRange checks what the measure implies: a ratio and its limits
+// are positive, a correlation lies in [−1, 1].
+func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
+	ciCol := cc.ci
+	if r.text(cc.ciLow) != "" {
+		ciCol = cc.ciLow
+	}
+	switch {
+	case IsRatioMeasure(c.Measure):
+		if c.Estimate.Present() && !(c.Estimate.Value > 0) {
+			r.fail(cc.estimate, fmt.Errorf("a ratio measure (%s) must be positive, as printed, not on the log scale (%s): %w", c.Measure, c.Estimate.Text, ErrOutOfRange))
+		}
+		if c.CI.Present() && !(c.CI.Low.Value > 0) {
+			r.fail(ciCol, fmt.Errorf("the interval of a ratio measure (%s) must be positive (lower limit %s): %w", c.Measure, c.CI.Low.Text, ErrOutOfRange))
+		}
+	case c.Measure == MeasureR:
+		if c.Estimate.Present() && math.Abs(c.Estimate.Value) > 1 {
+			r.fail(cc.estimate, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.Estimate.Text, ErrOutOfRange))
+		}
+		if c.CI.Present() && (c.CI.Low.Value < -1 || c.CI.High.Value > 1) {
+			r.fail(ciCol, fmt.Errorf("the interval of a correlation lies within [−1, 1]: %w", ErrOutOfRange))
+		}
+	}
+}
+
+// readInterval reads ci, ci_low, ci_high and ci_level. When both forms are
+// given they must agree; ci_low and ci_high are kept. A level printed in the
+// ci cell ("90% CI …") is used when ci_level is blank and must agree with it
+// otherwise.
+func readInterval(r *rowReading, cc *coefficientColumns) (Interval, float64) {
+	var iv Interval
+	printedLevel := 0.0
+	if r.text(cc.ci) != "" {
+		c := r.cell(cc.ci)
+		text := c.Text
+		if c.Numeric {
+			text = c.Display
+		}
+		v, lv, err := ParseIntervalLevel(text)
+		if err != nil {
+			r.fail(cc.ci, err)
+		} else {
+			iv, printedLevel = v, lv
+		}
+	}
+	low, high := r.number(cc.ciLow, kindLimit), r.number(cc.ciHigh, kindLimit)
+	switch {
+	case low.Present() && high.Present():
+		if low.Value > high.Value {
+			r.fail(cc.ciLow, fmt.Errorf("limits reversed: ci_low %s is above ci_high %s: %w", low.Text, high.Text, ErrMalformedInterval))
+			break
+		}
+		sep := Interval{Low: low, High: high}
+		if iv.Present() && (iv.Low.Value != low.Value || iv.High.Value != high.Value) {
+			r.fail(cc.ci, fmt.Errorf("the interval is given twice and the two disagree (ci %s, ci_low %s, ci_high %s); ci_low and ci_high are used: %w",
+				r.text(cc.ci), low.Text, high.Text, ErrDuplicate))
+		}
+		iv = sep
+	case low.Present():
+		r.fail(cc.ciLow, fmt.Errorf("ci_low is given without ci_high: %w", ErrMissingValue))
+	case high.Present():
+		r.fail(cc.ciHigh, fmt.Errorf("ci_high is given without ci_low: %w", ErrMissingValue))
+	}
+
+	level := DefaultCILevel
+	if t := r.text(cc.ciLevel); t != "" {
+		lv, err := parseLevel(r.cell(cc.ciLevel))
+		if err != nil {
+			r.fail(cc.ciLevel, err)
+		} else {
+			level = lv
+			if printedLevel != 0 && printedLevel != lv {
+				r.fail(cc.ciLevel, fmt.Errorf("ci_level %v%% disagrees with the %v%% printed in the ci cell: %w", lv, printedLevel, ErrDuplicate))
+			}
+		}
+	} else if printedLevel != 0 {
+		level = printedLevel
+	}
+	return iv, level
+}
+
+// parseLevel reads a confidence level: "95", "95%", "99.9" in percent, or a
+// proportion such as 0.95, which is read as 95%. Levels of 1 (1% or 100%?)
+// and anything outside (0, 100) are refused.
+func parseLevel(c sheetCell) (float64, error) {
+	if !c.Numeric {
+		c.Text = strings.TrimSuffix(trimSpace(c.Text), "%")
+	}
+	p, err := cellNumber(c, kindLimit)
+	if err != nil {
+		return 0, err
+	}
+	v := p.Value
+	switch {
+	case v > 0 && v < 1:
+		return v * 100, nil
+	case v > 1 && v < 100:
+		return v, nil
+	}
+	return 0, fmt.Errorf("a confidence level is a percent between 0 and 100 (95) or a proportion (0.95), not %s: %w", p.Text, ErrOutOfRange)
+}
+
+// claimColumns locates the claim-level columns.
+type claimColumns struct {
+	study, claim, first, second, published, publishedP, basis, alpha, estimateCorr, topic int
+}
+
+func lookupClaimColumns(c *columns) claimColumns {
+	return claimColumns{study: c.col("study"), claim: c.col("claim"), first: c.col("first"), second: c.col("second"),
+		published: c.col("published"), publishedP: c.col("published_p"), basis: c.col("basis"),
+		alpha: c.col("alpha"), estimateCorr: c.col("estimate_corr"), topic: c.col("topic")}
+}
+
+// readClaim reads the claim-level fields of a row. withLabels is false for a
+// paired CSV, whose labels are made by the reader.
+func readClaim(r *rowReading, cc *claimColumns, withLabels bool) Claim {
+	c := Claim{Position: r.pos}
+	c.Study = r.requiredText(cc.study, "study")
+	c.Claim = r.requiredText(cc.claim, "claim")
+	if withLabels {
+		c.First = r.requiredText(cc.first, "first")
+		c.Second = r.requiredText(cc.second, "second")
+		if c.First != "" && c.First == c.Second {
+			r.fail(cc.second, fmt.Errorf("first and second name the same coefficient %q: %w", c.First, ErrDuplicate))
+		}
+	}
+	if t := r.requiredText(cc.published, "published"); t != "" {
+		if v, err := allowedValue("published", t); err != nil {
+			r.fail(cc.published, err)
+		} else {
+			c.Published = v
+		}
+	}
+	c.PublishedP = r.number(cc.publishedP, kindP)
+	c.Basis = BasisUnstated
+	if t := r.text(cc.basis); t != "" {
+		if v, err := allowedValue("basis", t); err != nil {
+			r.fail(cc.basis, err)
+		} else {
+			c.Basis = v
+		}
+	}
+	c.Alpha = DefaultAlpha
+	if t := r.text(cc.alpha); t != "" {
+		a, err := parseAlpha(r.cell(cc.alpha))
+		if err != nil {
+			r.fail(cc.alpha, err)
+		} else {
+			c.Alpha = a
+		}
+	}
+	c.EstimateCorr = r.number(cc.estimateCorr, kindLimit)
+	if c.EstimateCorr.Present() && math.Abs(c.EstimateCorr.Value) > 1 {
+		r.fail(cc.estimateCorr, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.EstimateCorr.Text, ErrOutOfRange))
+		c.EstimateCorr = Printed{Bound: Absent}
+	}
+	c.Topic = r.text(cc.topic)
+	return c
+}
+
+// parseAlpha reads a significance level in (0, 1); "5%" is read as 0.05. A
+// malformed alpha leaves the claim at DefaultAlpha with a problem.
+func parseAlpha(c sheetCell) (float64, error) {
+	scale := 1.0
+	if !c.Numeric {
+		t := trimSpace(c.Text)
+		if strings.HasSuffix(t, "%") {
+			scale, c.Text = 0.01, strings.TrimSuffix(t, "%")
+		}
+	}
+	p, err := cellNumber(c, kindLimit)
+	if err != nil {
+		return 0, err
+	}
+	a := p.Value * scale
+	if !(a > 0 && a < 1) {
+		return 0, fmt.Errorf("alpha must lie strictly between 0 and 1, not %s: %w", p.Text, ErrOutOfRange)
+	}
+	return a, nil
+}
+
+// readCoefficientSheet reads the coefficients sheet. It returns the rows in
+// order, the sheet-level problems, and a fatal error from the source.
+func readCoefficientSheet(src rowSource, pos Position) ([]Coefficient, []*CellError, error) {
+	var out []Coefficient
+	var rr rowReading
+	var cc coefficientColumns
+	cols, err := readSheet(src, pos, nameSet(coefficientColumnNames), func(cols *columns, row *sheetRow) {
+		if out == nil {
+			cols.require("study", "label", "estimate")
+			cc = lookupCoefficientColumns(cols, "")
+			out = make([]Coefficient, 0, 16)
+		}
+		rr.start(cols, row, pos)
+		out = append(out, readCoefficient(&rr, &cc))
+	})
+	if cols != nil && out == nil {
+		cols.require("study", "label", "estimate")
+	}
+	problems := sheetProblems(cols, pos, "coefficients")
+	checkDuplicateLabels(out)
+	return out, problems, err
+}
+
+// sheetProblems returns the header's problems, or one problem for a sheet
+// with no header at all.
+func sheetProblems(cols *columns, pos Position, what string) []*CellError {
+	if cols == nil {
+		return []*CellError{{Position: pos, Err: fmt.Errorf("the %s sheet is empty: %w", what, ErrMissingValue)}}
+	}
+	return cols.problems
+}
+
+// checkDuplicateLabels flags a label used twice within a study.
+func checkDuplicateLabels(cs []Coefficient) {
+	type key struct{ study, label string }
+	seen := make(map[key]int, len(cs))
+	for i := range cs {
+		c := &cs[i]
+		if c.Label == "" {
+			continue
+		}
+		k := key{c.Study, c.Label}
+		if j, dup := seen[k]; dup {
+			p := c.Position
+			p.Column = "label"
+			c.Problems = append(c.Problems, &CellError{Position: p,
+				Err: fmt.Errorf("label %q is used twice in study %q (first on row %d): %w", c.Label, c.Study, cs[j].Row, ErrDuplicate)})
+			continue
+		}
+		seen[k] = i
+	}
+}
+
+// readClaimSheet reads the claims sheet: every non-blank row gives exactly
+// one Claim, in order, however malformed.
+func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) {
+	var out []Claim
+	var rr rowReading
+	var cc claimColumns
+	started := false
+	cols, err := readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) {
+		if !started {
+			started = true
+			cols.require("study", "claim", "first", "second", "published")
+			cc = lookupClaimColumns(cols)
+		}
+		rr.start(cols, row, pos)
+		c := readClaim(&rr, &cc, true)
+		c.Extra = rr.extra()
+		c.Problems = rr.problems
+		out = append(out, c)
+	})
+	problems := sheetProblems(cols, pos, "claims")
+	if cols != nil && !started {
+		cols.require("study", "claim", "first", "second", "published")
+		problems = append(cols.problems, &CellError{Position: pos, Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
+	}
+	checkDuplicateClaims(out)
+	return out, problems, err
+}
+
+// checkDuplicateClaims flags a claim key used twice within a study.
+func checkDuplicateClaims(cs []Claim) {
+	type key struct{ study, claim string }
+	seen := make(map[key]int, len(cs))
+	for i := range cs {
+		c := &cs[i]
+		if c.Claim == "" {
+			continue
+		}
+		k := key{c.Study, c.Claim}
+		if j, dup := seen[k]; dup {
+			p := c.Position
+			p.Column = "claim"
+			c.Problems = append(c.Problems, &CellError{Position: p,
+				Err: fmt.Errorf("claim %q appears twice in study %q (first on row %d): %w", c.Claim, c.Study, cs[j].Row, ErrDuplicate)})
+			continue
+		}
+		seen[k] = i
+	}
+}
+
+// readCorrelationSheet reads the long correlations sheet.
+func readCorrelationSheet(src rowSource, pos Position) ([]Correlation, []*CellError, error) {
+	var out []Correlation
+	var rr rowReading
+	started := false
+	var study, group, a, b, rc, n, sd, mean int
+	cols, err := readSheet(src, pos, nameSet(correlationColumnNames), func(cols *columns, row *sheetRow) {
+		if !started {
+			started = true
+			cols.require("study", "var_a", "var_b")
+			study, group, a, b = cols.col("study"), cols.col("group"), cols.col("var_a"), cols.col("var_b")
+			rc, n, sd, mean = cols.col("r"), cols.col("n"), cols.col("sd"), cols.col("mean")
+		}
+		rr.start(cols, row, pos)
+		c := Correlation{Position: rr.pos}
+		c.Study = rr.requiredText(study, "study")
+		c.Group = rr.text(group)
+		c.VarA = rr.requiredText(a, "var_a")
+		c.VarB = rr.requiredText(b, "var_b")
+		c.R = rr.number(rc, kindNumber)
+		c.N = rr.sampleSize(n)
+		c.SD = rr.number(sd, kindLimit)
+		c.Mean = rr.number(mean, kindLimit)
+		if c.VarA != "" && c.VarA == c.VarB {
+			if c.R.Present() && c.R.Value != 1 {
+				rr.fail(rc, fmt.Errorf("a variable's correlation with itself is 1, not %s; a row with var_a = var_b gives sd and mean: %w", c.R.Text, ErrOutOfRange))
+			}
+			if c.SD.Present() && !(c.SD.Value > 0) {
+				rr.fail(sd, fmt.Errorf("an SD must be positive (%s): %w", c.SD.Text, ErrOutOfRange))
+			}
+		} else {
+			switch {
+			case rc < 0:
+				rr.failNamed("r", fmt.Errorf("no \"r\" column in the header: %w", ErrMissingColumn))
+			case rr.text(rc) == "":
+				rr.fail(rc, fmt.Errorf("r is blank: %w", ErrMissingValue))
+			}
+			if c.R.Present() && math.Abs(c.R.Value) > 1 {
+				rr.fail(rc, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.R.Text, ErrOutOfRange))
+			}
+			if c.SD.Present() || c.Mean.Present() {
+				col := sd
+				if !c.SD.Present() {
+					col = mean
+				}
+				rr.fail(col, fmt.Errorf("sd and mean belong on a row with var_a = var_b: %w", ErrUnknownValue))
+			}
+		}
+		c.Problems = rr.problems
+		out = append(out, c)
+	})
+	problems := sheetProblems(cols, pos, "correlations")
+	checkDuplicateCorrelations(out)
+	return out, problems, err
+}
+
+// checkDuplicateCorrelations flags a pair (in either order) given twice for
+// the same study and group.
+func checkDuplicateCorrelations(cs []Correlation) {
+	type key struct{ study, group, a, b string }
+	seen := make(map[key]int, len(cs))
+	for i := range cs {
+		c := &cs[i]
+		a, b := c.VarA, c.VarB
+		if a > b {
+			a, b = b, a
+		}
+		k := key{c.Study, c.Group, a, b}
+		if j, dup := seen[k]; dup {
+			c.Problems = append(c.Problems, &CellError{Position: c.Position,
+				Err: fmt.Errorf("%s and %s are given twice for study %q, group %q (first on row %d): %w", c.VarA, c.VarB, c.Study, c.Group, cs[j].Row, ErrDuplicate)})
+			continue
+		}
+		seen[k] = i
+	}
+}

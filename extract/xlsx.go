@@ -1,0 +1,522 @@
+package extract
+
+import (
+	"archive/zip"
+	"bytes"
+	"compress/flate"
+	"encoding/xml"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path"
+	"strconv"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// Limits of the workbook reader. The archive's directory is checked before
+// excelize sees the file, and every member is then decompressed once with a
+// counter, because a member that understates its size would otherwise open
+// without error and give no rows (LIBRARY-NOTES.md). Beyond a limit the
+// workbook is refused with ErrInputTooLarge.
+//
+// MaxUnzippedBytes bounds each member and their sum (excelize's
+// UnzipSizeLimit); MaxXMLPartBytes is excelize's UnzipXMLSizeLimit, above
+// which it spills a worksheet to a temporary file instead of memory.
+// MaxCompressionRatio applies to members over 1 MiB unpacked: a worksheet
+// of repetitive XML packs about 10 to 50 times, while a zip bomb packs
+// thousands of times (common practice, no source).
+const (
+	MaxWorkbookBytes    = 64 << 20
+	MaxUnzippedBytes    = 64 << 20
+	MaxXMLPartBytes     = 16 << 20
+	MaxZipMembers       = 10000
+	MaxCompressionRatio = 200
+)
+
+// ratioFloor is the unpacked size under which the ratio is not checked.
+const ratioFloor = 1 << 20
+
+var (
+	zipMagic = []byte("PK\x03\x04")
+	oleMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
+)
+
+// checkArchive opens path as a zip archive and checks its members against
+// the limits, decompressing each to count its real size. The caller closes
+// the returned reader.
+func checkArchive(path string) (*zip.ReadCloser, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if fi.Size() > MaxWorkbookBytes {
+		return nil, fmt.Errorf("%s is %d MiB; workbooks over %d MiB are not read: %w", path, fi.Size()>>20, MaxWorkbookBytes>>20, ErrInputTooLarge)
+	}
+	zr, err := zip.OpenReader(path)
+	if err != nil {
+		return nil, fmt.Errorf("%s is not a workbook (%v): %w", path, err, ErrUnsupportedInput)
+	}
+	fail := func(err error) (*zip.ReadCloser, error) {
+		zr.Close()
+		return nil, err
+	}
+	if len(zr.File) > MaxZipMembers {
+		return fail(fmt.Errorf("%s holds %d parts; at most %d are read: %w", path, len(zr.File), MaxZipMembers, ErrInputTooLarge))
+	}
+	var total uint64
+	for _, m := range zr.File {
+		size := m.UncompressedSize64
+		total += size
+		switch {
+		case size > MaxUnzippedBytes:
+			return fail(fmt.Errorf("%s: part %q unpacks to %d MiB; at most %d MiB are read: %w", path, m.Name, size>>20, MaxUnzippedBytes>>20, ErrInputTooLarge))
+		case total > MaxUnzippedBytes:
+			return fail(fmt.Errorf("%s unpacks to more than %d MiB: %w", path, MaxUnzippedBytes>>20, ErrInputTooLarge))
+		case size > ratioFloor && size > MaxCompressionRatio*(m.CompressedSize64+1):
+			return fail(fmt.Errorf("%s: part %q is compressed %d to 1; more than %d to 1 looks like a zip bomb: %w",
+				path, m.Name, size/(m.CompressedSize64+1), MaxCompressionRatio, ErrInputTooLarge))
+		}
+	}
+	for _, m := range zr.File {
+		if err := checkMember(m); err != nil {
+			return fail(fmt.Errorf("%s: %w", path, err))
+		}
+	}
+	return zr, nil
+}
+
+// checkMember decompresses a member's raw data itself, counting, to catch
+// one that holds more than it declares; archive/zip would stop such a
+// member with a bare format error, and excelize would then see no rows.
+func checkMember(m *zip.File) error {
+	if m.FileInfo().IsDir() {
+		return nil
+	}
+	var r io.Reader
+	switch m.Method {
+	case zip.Store, zip.Deflate:
+		raw, err := m.OpenRaw()
+		if err != nil {
+			return fmt.Errorf("part %q cannot be opened (%v): %w", m.Name, err, ErrUnsupportedInput)
+		}
+		r = raw
+		if m.Method == zip.Deflate {
+			fr := flate.NewReader(raw)
+			defer fr.Close()
+			r = fr
+		}
+	default:
+		rc, err := m.Open()
+		if err != nil {
+			return fmt.Errorf("part %q cannot be opened (%v): %w", m.Name, err, ErrUnsupportedInput)
+		}
+		defer rc.Close()
+		r = rc
+	}
+	n, err := io.Copy(io.Discard, io.LimitReader(r, int64(m.UncompressedSize64)+1))
+	switch {
+	case uint64(n) > m.UncompressedSize64:
+		return fmt.Errorf("part %q holds more than the %d bytes it declares: %w", m.Name, m.UncompressedSize64, ErrInputTooLarge)
+	case err != nil:
+		return fmt.Errorf("part %q is damaged (%v): %w", m.Name, err, ErrUnsupportedInput)
+	}
+	return nil
+}
+
+// workbook is an open workbook: excelize for the values and the displayed
+// text, and the archive for the cell types, which excelize's streaming rows
+// do not report.
+type workbook struct {
+	path  string
+	f     *excelize.File
+	zr    *zip.ReadCloser
+	parts map[string]string // sheet name → archive member
+}
+
+// openWorkbook checks and opens a workbook read-only. Nothing is ever
+// written back: the file is opened with os.Open by both readers.
+func openWorkbook(path string) (*workbook, error) {
+	head := make([]byte, 8)
+	fh, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	n, _ := io.ReadFull(fh, head)
+	fh.Close()
+	head = head[:n]
+	if bytes.Equal(head, oleMagic) {
+		return nil, fmt.Errorf("%s is an old-format (.xls) or password-protected workbook; save it as an unprotected .xlsx: %w", path, ErrUnsupportedInput)
+	}
+	if !bytes.HasPrefix(head, zipMagic) {
+		return nil, fmt.Errorf("%s is not an .xlsx workbook: %w", path, ErrUnsupportedInput)
+	}
+	zr, err := checkArchive(path)
+	if err != nil {
+		return nil, err
+	}
+	f, err := excelize.OpenFile(path, excelize.Options{UnzipSizeLimit: MaxUnzippedBytes, UnzipXMLSizeLimit: MaxXMLPartBytes})
+	if err != nil {
+		zr.Close()
+		return nil, fmt.Errorf("%s cannot be opened as a workbook (%v): %w", path, err, ErrUnsupportedInput)
+	}
+	wb := &workbook{path: path, f: f, zr: zr}
+	wb.parts = sheetParts(&zr.Reader)
+	return wb, nil
+}
+
+// Close releases the workbook and excelize's temporary files.
+func (w *workbook) Close() error {
+	err := w.f.Close()
+	if e := w.zr.Close(); err == nil {
+		err = e
+	}
+	return err
+}
+
+// sheets lists the worksheets in workbook order.
+func (w *workbook) sheets() []string { return w.f.GetSheetList() }
+
+// source streams one sheet.
+func (w *workbook) source(sheet string) (*xlsxSource, error) {
+	raw, err := w.f.Rows(sheet)
+	if err != nil {
+		return nil, fmt.Errorf("%s, sheet %q: %w", w.path, sheet, err)
+	}
+	disp, err := w.f.Rows(sheet)
+	if err != nil {
+		raw.Close()
+		return nil, fmt.Errorf("%s, sheet %q: %w", w.path, sheet, err)
+	}
+	s := &xlsxSource{raw: raw, disp: disp, file: w.path, sheet: sheet}
+	if part, ok := w.parts[sheet]; ok {
+		s.types = newCellTypes(&w.zr.Reader, part)
+	}
+	return s, nil
+}
+
+// xlsxSource streams a worksheet three times in step: the stored values, the
+// displayed text, and the cell types.
+type xlsxSource struct {
+	raw, disp   *excelize.Rows
+	types       *cellTypes
+	file, sheet string
+	n           int
+	rawOpts     excelize.Options
+}
+
+// Next reads the next row, blank rows included (a blank row ends a
+// correlation table). A numeric cell carries its stored value and displayed
+// text; a boolean, error or date cell its displayed text; a text cell what
+// was typed.
+func (s *xlsxSource) Next(row *sheetRow) error {
+	if !s.raw.Next() {
+		if err := s.raw.Error(); err != nil {
+			return fmt.Errorf("%s, sheet %q: %w", s.file, s.sheet, err)
+		}
+		return io.EOF
+	}
+	s.disp.Next()
+	s.n++
+	row.Row, row.Fields, row.Problem = s.n, 0, nil
+	row.Cells = row.Cells[:0]
+	s.rawOpts.RawCellValue = true
+	rawCols, err := s.raw.Columns(s.rawOpts)
+	if err != nil {
+		row.Problem = fmt.Errorf("the row cannot be read (%v)", err)
+	}
+	dispCols, err := s.disp.Columns()
+	if err != nil && row.Problem == nil {
+		row.Problem = fmt.Errorf("the row cannot be read (%v)", err)
+	}
+	var kinds []byte
+	known := s.types != nil && s.types.err == nil
+	if known {
+		kinds = s.types.row(s.n)
+	}
+	width := max(len(rawCols), len(dispCols))
+	for i := 0; i < width; i++ {
+		raw, disp := "", ""
+		if i < len(rawCols) {
+			raw = rawCols[i]
+		}
+		if i < len(dispCols) {
+			disp = dispCols[i]
+		}
+		var kind byte
+		if i < len(kinds) {
+			kind = kinds[i]
+		}
+		var c sheetCell
+		switch {
+		case !known:
+			// Without the types, a cell whose shown text differs from its
+			// stored number is numeric; the rest are read as text.
+			_, perr := strconv.ParseFloat(raw, 64)
+			c = sheetCell{Text: raw, Display: disp, Numeric: raw != disp && perr == nil}
+		case kind == xmlNumeric && raw != "":
+			c = sheetCell{Text: raw, Display: disp, Numeric: true}
+		case kind == xmlBool || kind == xmlError || kind == xmlDate:
+			c = sheetCell{Text: disp}
+		default:
+			c = sheetCell{Text: raw}
+		}
+		row.Cells = append(row.Cells, c)
+	}
+	return nil
+}
+
+// Close closes the three streams.
+func (s *xlsxSource) Close() error {
+	err := s.raw.Close()
+	if e := s.disp.Close(); err == nil {
+		err = e
+	}
+	if s.types != nil {
+		if e := s.types.Close(); err == nil {
+			err = e
+		}
+	}
+	return err
+}
+
+// Cell types as the worksheet XML's t attribute gives them.
+const (
+	xmlNone    byte = 0
+	xmlNumeric byte = 'n'
+	xmlText    byte = 's'
+	xmlBool    byte = 'b'
+	xmlError   byte = 'e'
+	xmlDate    byte = 'd'
+)
+
+// cellTypes reads the t attribute of every cell of a worksheet, streaming,
+// one row at a time and in step with excelize's rows.
+type cellTypes struct {
+	rc      io.ReadCloser
+	dec     *xml.Decoder
+	ahead   int    // the row number read ahead, 0 for none
+	kinds   []byte // the kinds of row ahead, by column
+	lastRow int
+	done    bool
+	err     error
+}
+
+func newCellTypes(zr *zip.Reader, part string) *cellTypes {
+	for _, m := range zr.File {
+		if m.Name == part {
+			rc, err := m.Open()
+			if err != nil {
+				return &cellTypes{err: err}
+			}
+			return &cellTypes{rc: rc, dec: xml.NewDecoder(rc)}
+		}
+	}
+	return &cellTypes{err: fmt.Errorf("no part %q", part)}
+}
+
+// row returns the kinds of the cells of row n (1-based, asked in increasing
+// order), nil for a row with no cells.
+func (t *cellTypes) row(n int) []byte {
+	for !t.done && t.err == nil && t.ahead < n {
+		t.readRow()
+	}
+	if t.ahead == n {
+		return t.kinds
+	}
+	return nil
+}
+
+// readRow reads the next row element.
+func (t *cellTypes) readRow() {
+	t.kinds = t.kinds[:0]
+	for {
+		tok, err := t.dec.Token()
+		if err != nil {
+			if err != io.EOF {
+				t.err = err
+			}
+			t.done = true
+			return
+		}
+		switch el := tok.(type) {
+		case xml.StartElement:
+			switch el.Name.Local {
+			case "row":
+				t.lastRow++
+				if r, err := strconv.Atoi(attr(el, "r")); err == nil && r > 0 {
+					t.lastRow = r
+				}
+				t.ahead = t.lastRow
+				t.readCells()
+				return
+			}
+		case xml.EndElement:
+			if el.Name.Local == "sheetData" {
+				t.done = true
+				return
+			}
+		}
+	}
+}
+
+// readCells reads the c elements of the current row.
+func (t *cellTypes) readCells() {
+	col := 0
+	for {
+		tok, err := t.dec.Token()
+		if err != nil {
+			t.err, t.done = err, true
+			return
+		}
+		switch el := tok.(type) {
+		case xml.StartElement:
+			if el.Name.Local != "c" {
+				if err := t.dec.Skip(); err != nil {
+					t.err, t.done = err, true
+					return
+				}
+				continue
+			}
+			col++
+			if ref := attr(el, "r"); ref != "" {
+				if c, _, err := excelize.CellNameToCoordinates(ref); err == nil {
+					col = c
+				}
+			}
+			kind := xmlNumeric
+			switch attr(el, "t") {
+			case "s", "str", "inlineStr":
+				kind = xmlText
+			case "b":
+				kind = xmlBool
+			case "e":
+				kind = xmlError
+			case "d":
+				kind = xmlDate
+			}
+			if col > 0 && col <= excelize.MaxColumns {
+				for len(t.kinds) < col {
+					t.kinds = append(t.kinds, xmlNone)
+				}
+				t.kinds[col-1] = kind
+			}
+			if err := t.dec.Skip(); err != nil {
+				t.err, t.done = err, true
+				return
+			}
+		case xml.EndElement:
+			if el.Name.Local == "row" {
+				return
+			}
+		}
+	}
+}
+
+// Close closes the stream.
+func (t *cellTypes) Close() error {
+	if t.rc == nil {
+		return nil
+	}
+	return t.rc.Close()
+}
+
+func attr(el xml.StartElement, name string) string {
+	for _, a := range el.Attr {
+		if a.Name.Local == name {
+			return a.Value
+		}
+	}
+	return ""
+}
+
+// sheetParts maps sheet names to their archive members, following the
+// package relationships to the workbook part and its relationships to the
+// worksheets (ECMA-376 Part 2, Open Packaging Conventions). It returns what
+// it can; a sheet it cannot place is read without cell types.
+func sheetParts(zr *zip.Reader) map[string]string {
+	parts := map[string]string{}
+	byName := map[string]*zip.File{}
+	for _, m := range zr.File {
+		byName[strings.ToLower(strings.ReplaceAll(m.Name, "\\", "/"))] = m
+	}
+	type rel struct {
+		ID     string `xml:"Id,attr"`
+		Type   string `xml:"Type,attr"`
+		Target string `xml:"Target,attr"`
+	}
+	type rels struct {
+		Rels []rel `xml:"Relationship"`
+	}
+	readXML := func(name string, v any) bool {
+		m, ok := byName[strings.ToLower(name)]
+		if !ok {
+			return false
+		}
+		rc, err := m.Open()
+		if err != nil {
+			return false
+		}
+		defer rc.Close()
+		return xml.NewDecoder(io.LimitReader(rc, MaxXMLPartBytes)).Decode(v) == nil
+	}
+	resolve := func(base, target string) string {
+		if strings.HasPrefix(target, "/") {
+			return strings.TrimPrefix(target, "/")
+		}
+		return path.Join(path.Dir(base), target)
+	}
+	wbPart := "xl/workbook.xml"
+	var root rels
+	if readXML("_rels/.rels", &root) {
+		for _, r := range root.Rels {
+			if strings.HasSuffix(r.Type, "/officeDocument") {
+				wbPart = resolve("", r.Target)
+			}
+		}
+	}
+	var wb struct {
+		Sheets []struct {
+			Name  string     `xml:"name,attr"`
+			Attrs []xml.Attr `xml:",any,attr"`
+		} `xml:"sheets>sheet"`
+	}
+	var wbRels rels
+	if !readXML(wbPart, &wb) || !readXML(path.Join(path.Dir(wbPart), "_rels", path.Base(wbPart)+".rels"), &wbRels) {
+		return parts
+	}
+	targets := map[string]string{}
+	for _, r := range wbRels.Rels {
+		targets[r.ID] = resolve(wbPart, r.Target)
+	}
+	for _, s := range wb.Sheets {
+		for _, a := range s.Attrs {
+			if a.Name.Local == "id" {
+				if t, ok := targets[a.Value]; ok {
+					if m, ok := byName[strings.ToLower(t)]; ok {
+						parts[s.Name] = m.Name
+					}
+				}
+			}
+		}
+	}
+	return parts
+}
+
+// isZipFile reports whether path starts like a zip archive (an .xlsx).
+func isZipFile(path string) (bool, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return false, err
+	}
+	defer f.Close()
+	head := make([]byte, 8)
+	n, err := io.ReadFull(f, head)
+	if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) && !errors.Is(err, io.EOF) {
+		return false, err
+	}
+	head = head[:n]
+	return bytes.HasPrefix(head, zipMagic) || bytes.Equal(head, oleMagic), nil
+}
