@@ -188,7 +188,11 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	}
 	r.Notes = append(r.Notes, rc1.Notes...)
 	r.Notes = append(r.Notes, rc2.Notes...)
-	if rc1.Scale != extract.ScaleAsPrinted {
+	switch rc1.Scale {
+	case extract.ScaleAsPrinted:
+	case extract.ScaleFisherZ:
+		r.Notes = append(r.Notes, "The two estimates and their SEs are shown on the Fisher z scale.")
+	default:
 		r.Notes = append(r.Notes, fmt.Sprintf("Estimates, SEs and the difference are on the %s scale.", rc1.Scale))
 	}
 	r.Overlap = overlapOf(rc1, rc2, &r)
