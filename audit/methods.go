@@ -53,7 +53,7 @@ func methodsText(r *ClaimResult) string {
 		if r.First.SE.Known() && r.Second.SE.Known() {
 			fmt.Fprintf(&b, "The estimates were %s (SE %s, from %s) and %s (SE %s, from %s)%s. ",
 				formatNum(float64(r.First.Estimate)), formatNum(float64(r.First.SE)), r.First.SEFrom,
-				formatNum(float64(r.Second.Estimate)), formatNum(float64(r.Second.SE)), r.Second.SEFrom, scalePhrase(r.Scale))
+				formatNum(float64(r.Second.Estimate)), formatNum(float64(r.Second.SE)), r.Second.SEFrom, onScale(r.Scale))
 		}
 		if r.P.Known() {
 			fmt.Fprintf(&b, "The difference was %s", formatNum(float64(r.Difference)))
@@ -86,7 +86,7 @@ func publishedOr(v string) string {
 	return fmt.Sprintf("%q", v)
 }
 
-func scalePhrase(scale string) string {
+func onScale(scale string) string {
 	switch scale {
 	case "", extract.ScaleAsPrinted:
 		return ""
