@@ -26,7 +26,7 @@ func (c sheetCell) shown() string {
 }
 
 // sheetRow is one row of a sheet. Row is the sheet's own row number (the
-// line number of the record in a CSV file). Fields is the number of fields a
+// line number on which the record starts in a CSV file). Fields is the number of fields a
 // CSV record had, for the ragged-row check; 0 for a workbook, whose rows
 // have no fixed width. Problem is what the reader found wrong with the row
 // itself (a quote error), or nil.
@@ -35,6 +35,9 @@ type sheetRow struct {
 	Cells   []sheetCell
 	Fields  int
 	Problem error
+	// AfterBlank is set when blank lines, which a CSV reader skips, came
+	// before this row; a correlation table ends at one.
+	AfterBlank bool
 }
 
 // blank reports whether the row holds nothing.

@@ -17,7 +17,8 @@ import (
 // of its row (the cell is read as blank); a physical line longer than
 // MaxLineBytes or a record longer than MaxRecordBytes stops the file with
 // ErrInputTooLarge, since nothing after it can be trusted to line up. The
-// reader never holds more than about MaxRecordBytes of a file at once.
+// reader never holds more than about MaxRecordBytes of a file at once. The
+// sizes are far above any table a paper prints (common practice, no source).
 const (
 	MaxFieldBytes  = 1 << 20
 	MaxLineBytes   = 4 << 20
@@ -82,10 +83,11 @@ func (l *limitReader) Read(p []byte) (int, error) {
 
 // csvSource streams the rows of one CSV file.
 type csvSource struct {
-	file   string
-	lim    *limitReader
-	r      *csv.Reader
-	closer io.Closer
+	file     string
+	lim      *limitReader
+	r        *csv.Reader
+	closer   io.Closer
+	lastLine int // the line on which the last record ended
 }
 
 // newCSVSource prepares a CSV stream: a UTF-8 byte order mark is dropped, a
@@ -151,6 +153,16 @@ func (s *csvSource) Next(row *sheetRow) error {
 		return io.EOF
 	}
 	row.Problem = nil
+	if err != nil {
+		return s.readError(err, rec, row)
+	}
+	row.Row, _ = s.r.FieldPos(0)
+	return s.fill(rec, row, nil)
+}
+
+// readError turns what the CSV parser returned into a fatal error or a
+// problem of the row.
+func (s *csvSource) readError(err error, rec []string, row *sheetRow) error {
 	var se *sizeError
 	var pe *csv.ParseError
 	switch {
@@ -164,12 +176,21 @@ func (s *csvSource) Next(row *sheetRow) error {
 		} else {
 			row.Problem = fmt.Errorf("the row cannot be read as CSV (%v at column %d); its cells may be incomplete", pe.Err, pe.Column)
 		}
-	case err != nil:
-		return fmt.Errorf("%s: %w", s.file, err)
 	default:
-		row.Row, _ = s.r.FieldPos(0)
+		return fmt.Errorf("%s: %w", s.file, err)
 	}
+	return s.fill(rec, row, err)
+}
+
+// fill copies a record into row.
+func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 	s.lim.recordStart = s.r.InputOffset()
+	row.AfterBlank = s.lastLine > 0 && row.Row > s.lastLine+1
+	s.lastLine = row.Row
+	if n := len(rec); n > 0 && err == nil {
+		line, _ := s.r.FieldPos(n - 1)
+		s.lastLine = line + strings.Count(rec[n-1], "\n")
+	}
 	row.Fields = len(rec)
 	if row.Fields == 0 {
 		row.Fields = 1

@@ -43,7 +43,7 @@ type xsheet struct {
 }
 
 // writeWorkbook writes a workbook with the sheets in order, in dir.
-func writeWorkbook(t *testing.T, dir, file string, sheets ...xsheet) string {
+func writeWorkbook(t testing.TB, dir, file string, sheets ...xsheet) string {
 	t.Helper()
 	f := excelize.NewFile()
 	defer f.Close()
@@ -137,10 +137,11 @@ func csvRows(lines ...string) [][]string {
 	return out
 }
 
-// hasProblem reports whether some problem wraps target and mentions text.
+// hasProblem reports whether some problem wraps target (any, when nil)
+// and mentions text.
 func hasProblem(problems []*CellError, target error, text string) bool {
 	for _, p := range problems {
-		if errors.Is(p, target) && strings.Contains(p.Error(), text) {
+		if (target == nil || errors.Is(p, target)) && strings.Contains(p.Error(), text) {
 			return true
 		}
 	}

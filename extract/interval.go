@@ -26,6 +26,14 @@ import (
 // reversed (lower above upper) or anything else. An asymmetric interval is
 // not an error. A blank cell gives an Interval with both limits Absent and no
 // error. Use ParseIntervalLevel to learn a printed confidence level.
+//
+// References:
+//
+//	[1] American Psychological Association (2020). Publication Manual of
+//	    the American Psychological Association, 7th ed., §6.44: "95% CI
+//	    [0.12, 0.45]" (from memory).
+//	[2] Altman DG, Bland JM (2011). How to obtain the confidence interval
+//	    from a P value. BMJ 343:d2090 (prints "1.4 to 32.6").
 func ParseInterval(text string) (Interval, error) {
 	iv, _, err := ParseIntervalLevel(text)
 	return iv, err
@@ -42,23 +50,22 @@ func ParseIntervalLevel(text string) (iv Interval, level float64, err error) {
 	fail := func(format string, args ...any) (Interval, float64, error) {
 		return Interval{}, 0, &ParseError{Text: s, Kind: ErrMalformedInterval, Reason: fmt.Sprintf(format, args...)}
 	}
-	body := s
-	if m := ciPrefix.FindStringSubmatch(body); m != nil {
-		body = trimSpace(body[len(m[0]):])
-		if m[1] != "" {
-			lv, e := ParseNumber(m[1])
-			if e != nil || !(lv.Value > 0 && lv.Value < 100) {
-				return fail("a confidence level must lie between 0 and 100 percent")
-			}
-			level = lv.Value
-		}
-		if body == "" {
-			return fail("a label but no limits")
-		}
-	}
-	body, reason := stripBrackets(body)
+	body, level, reason := stripCIPrefix(s)
 	if reason != "" {
 		return fail("%s", reason)
+	}
+	body, reason = stripBrackets(body)
+	if reason != "" {
+		return fail("%s", reason)
+	}
+	if body == "" {
+		return fail("empty brackets")
+	}
+	if level == 0 {
+		// "(95% CI 0.12 to 0.45)": the label inside the brackets.
+		if body, level, reason = stripCIPrefix(body); reason != "" {
+			return fail("%s", reason)
+		}
 	}
 	low, high, reason := splitLimits(body)
 	if reason != "" {
@@ -79,6 +86,36 @@ func ParseIntervalLevel(text string) (iv Interval, level float64, err error) {
 		return fail("limits reversed: the lower limit %s is above the upper limit %s", lo.Text, hi.Text)
 	}
 	return Interval{Low: lo, High: hi}, level, nil
+}
+
+// stripCIPrefix removes a leading "95% CI" or "CI" and returns the level
+// printed (0 for none).
+func stripCIPrefix(s string) (body string, level float64, reason string) {
+	if s == "" || !mayHaveCIPrefix(s) {
+		return s, 0, ""
+	}
+	m := ciPrefix.FindStringSubmatch(s)
+	if m == nil {
+		return s, 0, ""
+	}
+	body = trimSpace(s[len(m[0]):])
+	if m[1] != "" {
+		lv, err := ParseNumber(m[1])
+		if err != nil || !(lv.Value > 0 && lv.Value < 100) {
+			return "", 0, "a confidence level must lie between 0 and 100 percent"
+		}
+		level = lv.Value
+	}
+	if body == "" {
+		return "", 0, "a label but no limits"
+	}
+	return body, level, ""
+}
+
+// mayHaveCIPrefix is a cheap test before the prefix expression: a level
+// has a percent sign, and the label starts with c or C.
+func mayHaveCIPrefix(s string) bool {
+	return s[0] == 'c' || s[0] == 'C' || strings.IndexByte(s, '%') >= 0
 }
 
 // ciPrefix matches a leading "95% CI", "95 % CI:", "CI", "C.I." or
@@ -116,11 +153,13 @@ var toSeparator = regexp.MustCompile(`(?i)\s+to\s+`)
 
 // splitLimits finds the one separator between two limits.
 func splitLimits(s string) (low, high, reason string) {
-	if locs := toSeparator.FindAllStringIndex(s, -1); len(locs) > 0 {
-		if len(locs) > 1 {
-			return "", "", "more than two numbers"
+	if strings.Contains(s, "to") || strings.Contains(s, "TO") || strings.Contains(s, "To") {
+		if locs := toSeparator.FindAllStringIndex(s, -1); len(locs) > 0 {
+			if len(locs) > 1 {
+				return "", "", "more than two numbers"
+			}
+			return s[:locs[0][0]], s[locs[0][1]:], ""
 		}
-		return s[:locs[0][0]], s[locs[0][1]:], ""
 	}
 	if n := strings.Count(s, ";"); n > 0 {
 		if n > 1 {
@@ -130,37 +169,42 @@ func splitLimits(s string) (low, high, reason string) {
 		return s[:i], s[i+1:], ""
 	}
 	// A comma followed by a space separates even decimal-comma limits.
-	var commaSpace []int
+	at, count := -1, 0
 	for i := 0; i+1 < len(s); i++ {
 		if s[i] == ',' {
 			if r, _ := utf8.DecodeRuneInString(s[i+1:]); isSpace(r) {
-				commaSpace = append(commaSpace, i)
+				if count == 0 {
+					at = i
+				}
+				count++
 			}
 		}
 	}
-	if len(commaSpace) > 0 {
-		if len(commaSpace) > 1 {
+	if count > 0 {
+		if count > 1 {
 			return "", "", "more than two numbers"
 		}
-		i := commaSpace[0]
-		return s[:i], s[i+1:], ""
+		return s[:at], s[at+1:], ""
 	}
 	// A dash after a digit separates; a dash elsewhere is a minus sign.
-	var dashes [][2]int
+	end := -1
 	var prev rune
 	for i, r := range s {
 		if isDash(r) && prev >= '0' && prev <= '9' {
-			dashes = append(dashes, [2]int{i, i + utf8.RuneLen(r)})
+			if count == 0 {
+				at, end = i, i+utf8.RuneLen(r)
+			}
+			count++
 		}
 		if !isSpace(r) {
 			prev = r
 		}
 	}
-	if len(dashes) > 0 {
-		if len(dashes) > 1 {
+	if count > 0 {
+		if count > 1 {
 			return "", "", "more than two numbers"
 		}
-		return s[:dashes[0][0]], s[dashes[0][1]:], ""
+		return s[:at], s[end:], ""
 	}
 	if n := strings.Count(s, ","); n > 0 {
 		switch {

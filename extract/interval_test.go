@@ -45,6 +45,8 @@ func TestParseInterval(t *testing.T) {
 		{"CI without level", "CI 0.12–0.45", 0.12, 0.45, 2, 2, 0, false},
 		{"spelled out", "95% confidence interval 0.12 to 0.45", 0.12, 0.45, 2, 2, 95, false},
 		{"half-open", "[0.1, 0.4)", 0.1, 0.4, 1, 1, 0, false},
+		{"label inside brackets", "(95% CI 0.12 to 0.45)", 0.12, 0.45, 2, 2, 95, false},
+		{"minus sign as separator", "0.1 − 0.2", 0.1, 0.2, 1, 1, 0, false},
 		{"asymmetric ratio [W19]", "1.33 to 3.47", 1.33, 3.47, 2, 2, 0, true},
 		{"scientific", "[2.3e-5, 4.1e-5]", 2.3e-5, 4.1e-5, 6, 6, 0, false},
 		{"scientific dash", "2.3e-5–4.1e-5", 2.3e-5, 4.1e-5, 6, 6, 0, false},
@@ -101,6 +103,7 @@ func TestParseIntervalRejects(t *testing.T) {
 		{"level out of range", "150% CI 0.1 to 0.2", "between 0 and 100"},
 		{"label only", "95% CI", "a label but no limits"},
 		{"missing limit", "0.12 to ", "no lower and upper limit"},
+		{"empty brackets", "( )", "empty brackets"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -113,5 +116,17 @@ func TestParseIntervalRejects(t *testing.T) {
 				t.Errorf("ParseInterval(%q) error = %q, want ErrMalformedInterval saying %q", tt.text, msg, tt.reason)
 			}
 		})
+	}
+}
+
+func BenchmarkParseInterval(b *testing.B) {
+	texts := []string{"[0.12, 0.45]", "(.12–.45)", "95% CI −0.30 to −0.05", "0,12; 0,45"}
+	b.ReportAllocs()
+	for b.Loop() {
+		for _, s := range texts {
+			if _, err := ParseInterval(s); err != nil {
+				b.Fatal(err)
+			}
+		}
 	}
 }

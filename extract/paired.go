@@ -134,8 +134,7 @@ func (p *PairedReader) Next() (PairedClaim, error) {
 	rr.problems = nil
 	pc.Second = readCoefficient(rr, &p.second)
 	pc.First.Study, pc.Second.Study = pc.Claim.Study, pc.Claim.Study
-	pc.First.Label = pairedLabel(pc.Claim.Claim, pc.First.Label, "first")
-	pc.Second.Label = pairedLabel(pc.Claim.Claim, pc.Second.Label, "second")
+	pc.First.Label, pc.Second.Label = pairedLabels(pc.Claim.Claim, pc.First.Label, pc.Second.Label)
 	pc.Claim.First, pc.Claim.Second = pc.First.Label, pc.Second.Label
 	if pc.First.Label == pc.Second.Label {
 		rr.problems = claimProblems
@@ -146,12 +145,19 @@ func (p *PairedReader) Next() (PairedClaim, error) {
 	return pc, nil
 }
 
-// pairedLabel makes a coefficient label unique per claim.
-func pairedLabel(claim, label, side string) string {
-	if label == "" {
-		label = side
+// pairedLabels makes the two labels of a claim unique per claim,
+// "<claim>/<label>" with "first" and "second" for blank labels, in one
+// allocation.
+func pairedLabels(claim, first, second string) (string, string) {
+	if first == "" {
+		first = "first"
 	}
-	return claim + "/" + label
+	if second == "" {
+		second = "second"
+	}
+	both := claim + "/" + first + claim + "/" + second
+	n := len(claim) + 1 + len(first)
+	return both[:n], both[n:]
 }
 
 // readPairedFile reads a whole paired CSV into an Input, checking claim

@@ -1,7 +1,6 @@
 package extract
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -60,8 +59,23 @@ func (e *ParseError) Unwrap() error { return e.Kind }
 // precision coarser than units ("2.3e5", known to ±5000) cannot be written
 // as a count of decimals and is reported as unknown (−1).
 //
+// A printed number stands for every value that rounds to it:
+//
+//	true value ∈ [Value − h, Value + h),   h = ½ · 10^(−Decimals)
+//	Decimals("m × 10^e") = Decimals(m) − e
+//
 // A blank cell gives Printed{Bound: Absent} and no error. Anything else fails
 // with a *ParseError wrapping ErrMalformedNumber.
+//
+// References:
+//
+//	[1] ISO 80000-1:2009. Quantities and units — Part 1: General, §7.3.2:
+//	    the decimal sign is a comma or a point, and digits may be grouped
+//	    in threes (from memory).
+//	[2] American Psychological Association (2020). Publication Manual of
+//	    the American Psychological Association, 7th ed., §6.36: no zero
+//	    before the decimal point of a value that cannot exceed 1 (from
+//	    memory).
 func ParseNumber(text string) (Printed, error) {
 	return parsePrinted(text, numberGeneral, ErrMalformedNumber)
 }
@@ -115,6 +129,9 @@ func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
 // trimSpace trims white space, including the non-breaking and thin spaces
 // that typeset tables carry into copied text.
 func trimSpace(s string) string {
+	if s == "" || (s[0] > ' ' && s[0] < 0x80 && s[len(s)-1] > ' ' && s[len(s)-1] < 0x80) {
+		return s
+	}
 	return strings.TrimFunc(s, isSpace)
 }
 
@@ -173,6 +190,7 @@ func parseNumeral(s string, mode numberMode) (v float64, decimals int, reason st
 			return 0, 0, "a sign but no number"
 		}
 	}
+	unsigned := s
 	mant, exp, hasExp, reason := splitExponent(s)
 	if reason != "" {
 		return 0, 0, reason
@@ -180,6 +198,24 @@ func parseNumeral(s string, mode numberMode) (v float64, decimals int, reason st
 	intPart, frac, reason := splitMantissa(mant, mode)
 	if reason != "" {
 		return 0, 0, reason
+	}
+	decimals = len(frac)
+	if hasExp {
+		decimals -= exp
+		if decimals < 0 {
+			decimals = -1
+		}
+	}
+	if isPlainNumeral(unsigned) {
+		// The digits are already in strconv's syntax: parse them in place.
+		v, err := strconv.ParseFloat(unsigned, 64)
+		if err != nil || math.IsInf(v, 0) {
+			return 0, 0, "too large to be a number"
+		}
+		if neg {
+			v = -v
+		}
+		return v, decimals, ""
 	}
 	var b strings.Builder
 	b.Grow(len(intPart) + len(frac) + 8)
@@ -195,14 +231,9 @@ func parseNumeral(s string, mode numberMode) (v float64, decimals int, reason st
 		b.WriteByte('.')
 		b.WriteString(frac)
 	}
-	decimals = len(frac)
 	if hasExp {
 		b.WriteByte('e')
 		b.WriteString(strconv.Itoa(exp))
-		decimals -= exp
-		if decimals < 0 {
-			decimals = -1
-		}
 	}
 	v, err := strconv.ParseFloat(b.String(), 64)
 	if err != nil || math.IsInf(v, 0) {
@@ -211,9 +242,59 @@ func parseNumeral(s string, mode numberMode) (v float64, decimals int, reason st
 	return v, decimals, ""
 }
 
+// isPlainNumeral reports whether s is an ASCII number strconv reads as
+// printed: an optional sign, digits with at most one decimal point, and an
+// optional e exponent, with nothing else.
+func isPlainNumeral(s string) bool {
+	i := 0
+	if i < len(s) && (s[i] == '-' || s[i] == '+') {
+		i++
+	}
+	digits, dots := 0, 0
+	for ; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			digits++
+		case c == '.':
+			dots++
+		case c == 'e' || c == 'E':
+			return digits > 0 && dots <= 1 && isPlainExponent(s[i+1:])
+		default:
+			return false
+		}
+	}
+	return digits > 0 && dots <= 1 && s[len(s)-1] != '.'
+}
+
+func isPlainExponent(e string) bool {
+	if e != "" && (e[0] == '-' || e[0] == '+') {
+		e = e[1:]
+	}
+	if e == "" || len(e) > 4 {
+		return false
+	}
+	for i := 0; i < len(e); i++ {
+		if e[i] < '0' || e[i] > '9' {
+			return false
+		}
+	}
+	return true
+}
+
 // splitExponent separates "2.3e-5", "2.3 × 10^-5" and "2.3×10⁻⁵" into the
 // mantissa and the exponent.
 func splitExponent(s string) (mant string, exp int, hasExp bool, reason string) {
+	simple := true
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c >= 0x80 || c == 'e' || c == 'E' || c == 'x' || c == 'X' || c == '*' {
+			simple = false
+			break
+		}
+	}
+	if simple {
+		return s, 0, false, ""
+	}
 	if i := strings.IndexAny(s, "eE"); i >= 0 {
 		e := s[i+1:]
 		n, ok := parseExponent(e)
@@ -295,15 +376,18 @@ func splitMantissa(s string, mode numberMode) (intPart, frac, reason string) {
 	if s == "" {
 		return "", "", "no digits"
 	}
-	var seps []int
-	digits := 0
+	digits, dots, commas := 0, 0, 0
+	first, last := -1, -1
 	for i := 0; i < len(s); i++ {
 		c := s[i]
 		switch {
 		case c >= '0' && c <= '9':
 			digits++
-		case c == '.' || c == ',':
-			seps = append(seps, i)
+			continue
+		case c == '.':
+			dots++
+		case c == ',':
+			commas++
 		default:
 			r, _ := utf8.DecodeRuneInString(s[i:])
 			if isSpace(r) {
@@ -314,29 +398,24 @@ func splitMantissa(s string, mode numberMode) (intPart, frac, reason string) {
 			}
 			return "", "", fmt.Sprintf("%q is not part of a number", string(r))
 		}
+		if first < 0 {
+			first = i
+		}
+		last = i
 	}
 	if digits == 0 {
 		return "", "", "no digits"
 	}
-	if len(seps) == 0 {
-		return s, "", ""
-	}
-	dots, commas := 0, 0
-	for _, i := range seps {
-		if s[i] == '.' {
-			dots++
-		} else {
-			commas++
-		}
-	}
 	switch {
+	case dots+commas == 0:
+		return s, "", ""
 	case commas == 0:
 		if dots > 1 {
 			return "", "", "more than one decimal point"
 		}
-		return splitAt(s, seps[0])
+		return splitAt(s, first)
 	case dots == 0 && commas == 1:
-		i := seps[0]
+		i := first
 		if isThousandsGroup(s[:i], s[i+1:]) {
 			if mode == numberCount {
 				return s[:i] + s[i+1:], "", ""
@@ -353,21 +432,19 @@ func splitMantissa(s string, mode numberMode) (intPart, frac, reason string) {
 	}
 	// Both kinds: the last separator is the decimal mark and the other
 	// kind must group thousands before it.
-	last := seps[len(seps)-1]
 	mark := s[last]
 	group := byte(',')
 	if mark == ',' {
 		group = '.'
 	}
-	for _, i := range seps[:len(seps)-1] {
-		if s[i] == mark {
-			return "", "", "more than one decimal separator"
-		}
+	if strings.IndexByte(s[:last], mark) >= 0 {
+		return "", "", "more than one decimal separator"
 	}
 	if !grouped(s[:last], group) {
 		return "", "", fmt.Sprintf("%q does not group thousands", string(group))
 	}
-	return splitAt(strings.ReplaceAll(s[:last], string(group), "")+"."+s[last+1:], last-(len(seps)-1))
+	whole := strings.ReplaceAll(s[:last], string(group), "")
+	return splitAt(whole+"."+s[last+1:], len(whole))
 }
 
 // splitAt splits s at the decimal separator at index i.
@@ -402,85 +479,4 @@ func grouped(s string, sep byte) bool {
 		}
 	}
 	return true
-}
-
-// ParseP reads a p-value as printed. It takes everything ParseNumber takes
-// and, in addition,
-//
-//	p = .03   p=0.03   P = .03   (Exact)
-//	p < .001   P<0.001   <.001   p ≤ .05   p <= .05   (Below: p is below Value)
-//	p > .05   > .05   p ≥ .10   (Above: p is above Value)
-//	ns   n.s.   NS   n.s   (NotSignificant: above the paper's alpha)
-//
-// A p outside [0, 1], "p < 0" and "p > 1" fail with a *ParseError wrapping
-// ErrMalformedP that says why. "p = .000", as some programs print, is
-// accepted as Exact 0 with 3 decimals: it stands for p < .0005.
-func ParseP(text string) (Printed, error) {
-	s := trimSpace(text)
-	if s == "" {
-		return Printed{Bound: Absent}, nil
-	}
-	if isNotSignificant(s) {
-		return Printed{Bound: NotSignificant, Decimals: -1, Text: s}, nil
-	}
-	rest := s
-	hasP := false
-	if rest[0] == 'p' || rest[0] == 'P' {
-		hasP = true
-		rest = strings.TrimLeftFunc(rest[1:], isSpace)
-	}
-	bound := Exact
-	op := ""
-	for _, o := range []struct {
-		text  string
-		bound Bound
-	}{
-		{"<=", Below}, {"≤", Below}, {"⩽", Below}, {"<", Below},
-		{">=", Above}, {"≥", Above}, {"⩾", Above}, {">", Above},
-		{"=", Exact},
-	} {
-		if strings.HasPrefix(rest, o.text) {
-			op, bound = o.text, o.bound
-			rest = strings.TrimLeftFunc(rest[len(o.text):], isSpace)
-			break
-		}
-	}
-	if hasP && op == "" {
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "expected <, = or > after p"}
-	}
-	if rest == "" {
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no number"}
-	}
-	p, err := parsePrinted(rest, numberGeneral, ErrMalformedP)
-	if err != nil {
-		var pe *ParseError
-		if errors.As(err, &pe) {
-			pe.Text = s
-		}
-		return Printed{}, err
-	}
-	p.Bound, p.Text = bound, s
-	switch {
-	case p.Value < 0:
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "a p-value cannot be negative"}
-	case p.Value > 1:
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "a p-value cannot exceed 1"}
-	case bound == Below && p.Value == 0:
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no p-value is below 0"}
-	case bound == Above && p.Value == 1:
-		return Printed{}, &ParseError{Text: s, Kind: ErrMalformedP, Reason: "no p-value is above 1"}
-	}
-	return p, nil
-}
-
-// isNotSignificant recognizes "ns", "n.s.", "NS", "n.s", "n. s.".
-func isNotSignificant(s string) bool {
-	var b strings.Builder
-	for _, r := range s {
-		if r == '.' || isSpace(r) {
-			continue
-		}
-		b.WriteRune(r)
-	}
-	return strings.EqualFold(b.String(), "ns")
 }

@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"sort"
 	"strconv"
 	"strings"
 )
@@ -55,6 +56,16 @@ func (d *DataTable) index(name string) int {
 // which any of them is missing is dropped, and dropped counts those rows.
 // The columns returned are new slices of equal length, in the order of
 // names. It fails naming a column that does not exist or holds text.
+//
+//	row i is kept  ⇔  x_j[i] is not NaN for every named column j
+//
+// Complete-case analysis is unbiased only when the data are missing
+// completely at random [1]; the count dropped goes into the notes.
+//
+// References:
+//
+//	[1] Little RJA, Rubin DB (2019). Statistical Analysis with Missing
+//	    Data, 3rd ed. Wiley, ch. 3 (from memory).
 func (d *DataTable) Complete(names []string) (columns [][]float64, dropped int, err error) {
 	idx := make([]int, len(names))
 	for k, n := range names {
@@ -116,7 +127,8 @@ func isMissingCode(s string) bool {
 // and NaN are missing (NaN). Any other cell in a column that holds numbers
 // is an error naming file, sheet, row and column; ReadData collects up to 20
 // of them (joined with errors.Join, each a *CellError) and then stops.
-// Blank rows are skipped.
+// Blank rows are skipped. The missing-value codes are those R, SAS and Stata
+// write (common practice, no source).
 func ReadData(path string, sheet string) (*DataTable, error) {
 	zipLike, err := isZipFile(path)
 	if err != nil {
@@ -181,7 +193,7 @@ type dataColumn struct {
 	name    string
 	values  []float64
 	numbers int
-	bad     []error
+	bad     []*CellError
 	nbad    int
 }
 
@@ -189,7 +201,7 @@ func readData(src rowSource, pos Position) (*DataTable, error) {
 	var row sheetRow
 	var cols []*dataColumn
 	var header []string
-	var extraErrs []error
+	var extraErrs []*CellError
 	rows := 0
 	confirmed := func() int {
 		n := len(extraErrs)
@@ -282,10 +294,26 @@ func readData(src rowSource, pos Position) (*DataTable, error) {
 		d.Columns = append(d.Columns, c.values)
 	}
 	if len(errs) > 0 {
+		// Report in reading order: by row, then by column.
+		colIndex := map[string]int{}
+		for j, c := range cols {
+			colIndex[c.name] = j
+		}
+		sort.SliceStable(errs, func(a, b int) bool {
+			pa, pb := errs[a], errs[b]
+			if pa.Row != pb.Row {
+				return pa.Row < pb.Row
+			}
+			return colIndex[pa.Column] < colIndex[pb.Column]
+		})
 		if len(errs) > maxDataErrors {
 			errs = errs[:maxDataErrors]
 		}
-		return nil, errors.Join(errs...)
+		joined := make([]error, len(errs))
+		for i, e := range errs {
+			joined[i] = e
+		}
+		return nil, errors.Join(joined...)
 	}
 	return d, nil
 }

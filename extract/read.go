@@ -30,6 +30,14 @@ import (
 // or hyphen read as an underscore; unknown columns are kept in Extra. Row
 // numbers are the sheet's own (header = row 1; for a CSV, the line on which
 // the record starts). The input file is opened read-only and never changed.
+//
+// References:
+//
+//	[1] ECMA International (2016). ECMA-376 Office Open XML File Formats,
+//	    5th ed., Part 1 (SpreadsheetML) and Part 2 (Open Packaging
+//	    Conventions).
+//	[2] Shafranovich Y (2005). Common Format and MIME Type for
+//	    Comma-Separated Values (CSV) Files. RFC 4180.
 func Read(path string) (*Input, error) {
 	fi, err := os.Stat(path)
 	if err != nil {

@@ -55,7 +55,7 @@ type tableRow struct {
 // the rows in order). Either triangle may be printed, or both when they
 // agree; the diagonal may be blank, a dash or 1, or hold a reliability in
 // parentheses, which is ignored. A blank row ends the table (notes below it
-// are ignored). Without a study key row the study is name (the sheet name
+// are ignored, as is everything from a row starting "Note"). Without a study key row the study is name (the sheet name
 // after "table ") and the group is blank. n comes from the n column, per
 // variable, and where that is blank or absent from a key row "n".
 //
@@ -92,15 +92,16 @@ func readTableSheet(src rowSource, pos Position, name string) (CorrelationTable,
 		if row.Problem != nil {
 			fail(row.Row, "", row.Problem)
 		}
-		if row.blank() {
-			if len(rows) > 0 {
-				ended = true
-			}
-			continue
-		}
 		first := ""
 		if len(row.Cells) > 0 {
 			first = trimSpace(row.Cells[0].shown())
+		}
+		if len(rows) > 0 && (row.AfterBlank || row.blank() || isNoteLabel(first)) {
+			ended = true
+			continue
+		}
+		if row.blank() {
+			continue
 		}
 		if header == nil {
 			second := ""
@@ -375,6 +376,12 @@ func isDiagonalText(c sheetCell) bool {
 	}
 	p, err := cellNumber(c, kindLimit)
 	return err == nil && p.Value == 1
+}
+
+// isNoteLabel recognizes the note printed under a table ("Note.", "Notes:").
+func isNoteLabel(s string) bool {
+	s = strings.ToLower(s)
+	return strings.HasPrefix(s, "note.") || strings.HasPrefix(s, "note:") || strings.HasPrefix(s, "notes") || s == "note"
 }
 
 // nonBlankCells counts the cells with something in them.

@@ -44,7 +44,14 @@ var templateSheets = []templateSheet{
 // column formatted as text (number format "@", so that "0.40" keeps its
 // trailing zero), drop-down lists for measure, published and basis, and an
 // instructions sheet that explains every column and the accepted printed
-// forms and shows the layout of a "table …" sheet.
+// forms and shows the layout of a "table …" sheet. Each list covers rows 2 to
+// 5001 of its column.
+//
+// References:
+//
+//	[1] ECMA International (2016). ECMA-376 Office Open XML File Formats,
+//	    5th ed., Part 1, §18.8.30: built-in number format 49 is "@", text
+//	    (from memory; excelize documents the same table).
 func WriteTemplate(w io.Writer) error {
 	f := excelize.NewFile()
 	defer f.Close()

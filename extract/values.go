@@ -61,7 +61,13 @@ func foldValue(s string) string {
 // allowedValue maps a cell of the measure, published or basis column to its
 // canonical value. It fails with ErrUnknownValue naming the values allowed.
 func allowedValue(column, text string) (string, error) {
-	v := foldValue(text)
+	t := trimSpace(text)
+	for _, a := range allowedValues[column] {
+		if t == a {
+			return a, nil
+		}
+	}
+	v := foldValue(t)
 	for _, a := range allowedValues[column] {
 		if v == a {
 			return a, nil

@@ -279,3 +279,92 @@ func TestZipBomb(t *testing.T) {
 		t.Errorf("Read(%d members) error = %v, want ErrInputTooLarge", len(many), err)
 	}
 }
+
+// TestWorkbookClaimsInOrder checks that every non-blank claims row of a
+// workbook, however malformed, gives exactly one claim, in order, with the
+// sheet's own row numbers (blank rows skipped, not renumbered).
+func TestWorkbookClaimsInOrder(t *testing.T) {
+	dir := t.TempDir()
+	path := writeWorkbook(t, dir, "claims.xlsx",
+		xsheet{"coefficients", [][]xcell{coefficientHeader, xrow("s", "a", "b", "0.1"), xrow("s", "b", "b", "0.2")}},
+		xsheet{"claims", [][]xcell{
+			nil, // a blank first row: the header is on row 2
+			xrow("study", "claim", "first", "second", "published", "alpha"),
+			xrow("s", "c1", "a", "b", "differ"),
+			nil,
+			xcells(xnum(2020, 0), xnum(7, 0), xtxt("a"), xtxt("b"), xnum(1, 0), xnum(0.05, 2)),
+			xrow("", "", "", "", "", "2"),
+			nil, nil,
+			xrow("s", "c3", "a", "a", "NO_DIFFERENCE", "0.10"),
+		}})
+	in, err := Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := []int{3, 5, 6, 9}
+	if len(in.Claims) != len(rows) {
+		t.Fatalf("Read gave %d claims, want %d", len(in.Claims), len(rows))
+	}
+	for i, c := range in.Claims {
+		if c.Row != rows[i] || c.Sheet != "claims" {
+			t.Errorf("claim %d at %v, want sheet claims row %d", i, c.Position, rows[i])
+		}
+	}
+	if c := in.Claims[0]; c.Claim != "c1" || len(c.Problems) != 0 {
+		t.Errorf("row 3 = %+v%s", c, problemTexts(c.Problems))
+	}
+	if c := in.Claims[1]; c.Study != "2020" || c.Claim != "7" || c.Alpha != 0.05 || !hasProblem(c.Problems, ErrUnknownValue, `"1" is not a published value`) {
+		t.Errorf("row 5 (numeric cells) = %+v%s, want study 2020, claim 7, alpha 0.05 and published 1 refused", c, problemTexts(c.Problems))
+	}
+	if c := in.Claims[2]; len(c.Problems) < 5 || !hasProblem(c.Problems, ErrOutOfRange, "alpha") {
+		t.Errorf("row 6 (all blank but alpha 2) problems:%s, want every required cell and alpha flagged", problemTexts(c.Problems))
+	}
+	if c := in.Claims[3]; c.Published != PublishedNoDifference || c.Alpha != 0.10 || !hasProblem(c.Problems, ErrDuplicate, "same coefficient") {
+		t.Errorf("row 9 = %+v%s", c, problemTexts(c.Problems))
+	}
+	want := path + `, sheet "claims", row 5, column "published": "1" is not a published value`
+	if !hasProblem(in.Claims[1].Problems, nil, want) {
+		t.Errorf("row 5 problems:%s, want the message to start %q", problemTexts(in.Claims[1].Problems), want)
+	}
+}
+
+// BenchmarkReadWorkbook reads a workbook of 5000 coefficients and 2500
+// claims, all text cells as the template makes them.
+func BenchmarkReadWorkbook(b *testing.B) {
+	coefs := [][]xcell{coefficientHeader}
+	claims := [][]xcell{claimHeader}
+	for i := 0; i < 5000; i++ {
+		coefs = append(coefs, xrow("s"+strconv.Itoa(i/2), "l"+strconv.Itoa(i%2), "b", "0.43", "0.12", "0.74", "0.16", "p < .01", "120"))
+		if i%2 == 0 {
+			claims = append(claims, xrow("s"+strconv.Itoa(i/2), "c", "l0", "l1", "differ", "test"))
+		}
+	}
+	path := writeWorkbook(b, b.TempDir(), "bench.xlsx", xsheet{"coefficients", coefs}, xsheet{"claims", claims})
+	b.ReportAllocs()
+	for b.Loop() {
+		in, err := Read(path)
+		if err != nil || len(in.Claims) != 2500 {
+			b.Fatalf("Read = %d claims, %v", len(in.Claims), err)
+		}
+	}
+}
+
+// TestWorkbookMessage checks the wording of a problem, position first, as
+// the input contract asks.
+func TestWorkbookMessage(t *testing.T) {
+	dir := t.TempDir()
+	path := writeWorkbook(t, dir, "demo.xlsx",
+		xsheet{"coefficients", [][]xcell{
+			xrow("study", "label", "estimate", "ci"),
+			xrow("s", "a", "0.30", "(0.12 0.45"),
+		}},
+		xsheet{"claims", [][]xcell{claimHeader}})
+	in, err := Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := path + `, sheet "coefficients", row 2, column "ci": "(0.12 0.45" is not a confidence interval (the opening "(" has no closing bracket; expected e.g. [0.12, 0.45], (.12–.45), 0.12 to 0.45)`
+	if len(in.Coefficients) != 1 || len(in.Coefficients[0].Problems) != 1 || in.Coefficients[0].Problems[0].Error() != want {
+		t.Errorf("problems:%s\nwant\n\t%s", problemTexts(in.Coefficients[0].Problems), want)
+	}
+}

@@ -1,0 +1,135 @@
+package extract
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// claimColumns locates the claim-level columns.
+type claimColumns struct {
+	study, claim, first, second, published, publishedP, basis, alpha, estimateCorr, topic int
+}
+
+func lookupClaimColumns(c *columns) claimColumns {
+	return claimColumns{study: c.col("study"), claim: c.col("claim"), first: c.col("first"), second: c.col("second"),
+		published: c.col("published"), publishedP: c.col("published_p"), basis: c.col("basis"),
+		alpha: c.col("alpha"), estimateCorr: c.col("estimate_corr"), topic: c.col("topic")}
+}
+
+// readClaim reads the claim-level fields of a row. withLabels is false for a
+// paired CSV, whose labels are made by the reader.
+func readClaim(r *rowReading, cc *claimColumns, withLabels bool) Claim {
+	c := Claim{Position: r.pos}
+	c.Study = r.requiredText(cc.study, "study")
+	c.Claim = r.requiredText(cc.claim, "claim")
+	if withLabels {
+		c.First = r.requiredText(cc.first, "first")
+		c.Second = r.requiredText(cc.second, "second")
+		if c.First != "" && c.First == c.Second {
+			r.fail(cc.second, fmt.Errorf("first and second name the same coefficient %q: %w", c.First, ErrDuplicate))
+		}
+	}
+	if t := r.requiredText(cc.published, "published"); t != "" {
+		if v, err := allowedValue("published", t); err != nil {
+			r.fail(cc.published, err)
+		} else {
+			c.Published = v
+		}
+	}
+	c.PublishedP = r.number(cc.publishedP, kindP)
+	c.Basis = BasisUnstated
+	if t := r.text(cc.basis); t != "" {
+		if v, err := allowedValue("basis", t); err != nil {
+			r.fail(cc.basis, err)
+		} else {
+			c.Basis = v
+		}
+	}
+	c.Alpha = DefaultAlpha
+	if t := r.text(cc.alpha); t != "" {
+		a, err := parseAlpha(r.cell(cc.alpha))
+		if err != nil {
+			r.fail(cc.alpha, err)
+		} else {
+			c.Alpha = a
+		}
+	}
+	c.EstimateCorr = r.number(cc.estimateCorr, kindLimit)
+	if c.EstimateCorr.Present() && math.Abs(c.EstimateCorr.Value) > 1 {
+		r.fail(cc.estimateCorr, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.EstimateCorr.Text, ErrOutOfRange))
+		c.EstimateCorr = Printed{Bound: Absent}
+	}
+	c.Topic = r.text(cc.topic)
+	return c
+}
+
+// parseAlpha reads a significance level in (0, 1); "5%" is read as 0.05. A
+// malformed alpha leaves the claim at DefaultAlpha with a problem.
+func parseAlpha(c sheetCell) (float64, error) {
+	scale := 1.0
+	if !c.Numeric {
+		t := trimSpace(c.Text)
+		if strings.HasSuffix(t, "%") {
+			scale, c.Text = 0.01, strings.TrimSuffix(t, "%")
+		}
+	}
+	p, err := cellNumber(c, kindLimit)
+	if err != nil {
+		return 0, err
+	}
+	a := p.Value * scale
+	if !(a > 0 && a < 1) {
+		return 0, fmt.Errorf("alpha must lie strictly between 0 and 1, not %s: %w", p.Text, ErrOutOfRange)
+	}
+	return a, nil
+}
+
+// readClaimSheet reads the claims sheet: every non-blank row gives exactly
+// one Claim, in order, however malformed.
+func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) {
+	var out []Claim
+	var rr rowReading
+	var cc claimColumns
+	started := false
+	cols, err := readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) {
+		if !started {
+			started = true
+			cols.require("study", "claim", "first", "second", "published")
+			cc = lookupClaimColumns(cols)
+		}
+		rr.start(cols, row, pos)
+		c := readClaim(&rr, &cc, true)
+		c.Extra = rr.extra()
+		c.Problems = rr.problems
+		out = append(out, c)
+	})
+	problems := sheetProblems(cols, pos, "claims")
+	if cols != nil && !started {
+		cols.require("study", "claim", "first", "second", "published")
+		problems = append(cols.problems, &CellError{Position: pos, Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
+	}
+	checkDuplicateClaims(out)
+	return out, problems, err
+}
+
+// checkDuplicateClaims flags a claim key used twice within a study.
+func checkDuplicateClaims(cs []Claim) {
+	type key struct{ study, claim string }
+	seen := make(map[key]int, len(cs))
+	for i := range cs {
+		c := &cs[i]
+		if c.Claim == "" {
+			continue
+		}
+		k := key{c.Study, c.Claim}
+		if j, dup := seen[k]; dup {
+			p := c.Position
+			p.Column = "claim"
+			c.Problems = append(c.Problems, &CellError{Position: p,
+				Err: fmt.Errorf("claim %q appears twice in study %q (first on row %d): %w", c.Claim, c.Study, cs[j].Row, ErrDuplicate)})
+			continue
+		}
+		seen[k] = i
+	}
+}
