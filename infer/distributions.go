@@ -158,4 +158,3 @@ func FUpperTail(f, d1, d2 float64) (float64, error) {
 	}
 	return mathext.RegIncBeta(d2/2, d1/2, d2/(d2+d1*f)), nil
 }
-
