@@ -45,7 +45,7 @@ A flag is a reason to look again, not proof of error or misconduct.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDemoCmd(), newTemplateCmd(), newBootstrapCmd())
+	root.AddCommand(newCheckCmd(), newDemoCmd(), newTemplateCmd(), newBootstrapCmd(), newPoolCmd())
 	return root
 }
 

@@ -113,7 +113,7 @@ func FitRandomEffects(studies []Study, method Tau2Method, opts Options) (RandomE
 	case q < 1 && !opts.TruncateHartungKnapp:
 		re.Warnings = append(re.Warnings, fmt.Sprintf(
 			"%v: Hartung-Knapp scale q = %.3g < 1 makes its standard error smaller than the Wald one; "+
-				"with few studies the interval may be too narrow (Röver, Knapp & Friede 2015); TruncateHartungKnapp uses max(1, q)",
+				"with few studies the interval may be too narrow (Röver, Knapp & Friede 2015); the modified interval with max(1, q) guards against that",
 			method, q))
 	}
 	re.Prediction, err = Prediction(re.Wald, re.Tau2, len(studies), level)

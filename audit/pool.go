@@ -1,0 +1,485 @@
+package audit
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"coefaudit/infer"
+	"coefaudit/infer/meta"
+)
+
+// Estimators of τ² for PoolOptions.Method.
+const (
+	PoolREML = "reml"
+	PoolDL   = "dl"
+)
+
+// PoolOrientation says which way every pooled difference points.
+const PoolOrientation = "Each claim's difference is first − second, as the two coefficients are entered in the claims sheet; " +
+	"a positive pooled value means the first coefficients are the larger on average."
+
+// PoolOptions are the settings of Pool.
+type PoolOptions struct {
+	// Method is the τ² estimator of the random-effects model: PoolREML
+	// (the default, also for "") or PoolDL.
+	Method string
+	// Level is the confidence level as a proportion, e.g. 0.95; 0 means
+	// meta.DefaultLevel.
+	Level float64
+	// REML controls the REML iteration; zero fields take meta's defaults.
+	REML meta.REMLOptions
+}
+
+// DefaultPoolOptions are the settings used when none are given.
+var DefaultPoolOptions = PoolOptions{Method: PoolREML, Level: meta.DefaultLevel}
+
+// ErrPoolMethod is returned by Pool for a Method other than PoolREML or
+// PoolDL.
+var ErrPoolMethod = errors.New("unknown tau2 method")
+
+// PoolReport is the pooling of every topic of an audit.
+type PoolReport struct {
+	// Source names the input.
+	Source string `json:"source"`
+	// Level is the confidence level of every interval, as a proportion.
+	Level float64 `json:"level"`
+	// Method is the τ² estimator asked for ("REML" or "DL"); a topic whose
+	// REML fit failed says so in its Tau2Method and Notes.
+	Method string `json:"method"`
+	// Orientation is PoolOrientation.
+	Orientation string `json:"orientation"`
+	// ClaimsWithoutTopic counts the claims rows with a blank topic, which
+	// are not pooled.
+	ClaimsWithoutTopic int `json:"claims_without_topic"`
+	// Topics are the topics in order of their first claim.
+	Topics []TopicPool `json:"topics"`
+	// Plots lists the forest-plot files written, filled in by the caller
+	// that writes them.
+	Plots []string `json:"plots"`
+	// Cautions are the audit's cautions, printed with every report.
+	Cautions []string `json:"cautions"`
+}
+
+// TopicPool is the meta-analysis of the claims of one topic. Fixed, Random,
+// HKSJ and Heterogeneity are nil when fewer than two claims could be
+// pooled; Prediction is also nil for fewer than three.
+type TopicPool struct {
+	// Topic is the topic as entered; Slug its file-name form (see Slug).
+	Topic string `json:"topic"`
+	Slug  string `json:"slug"`
+	// Measure and Scale are those of the claims pooled (the topic's
+	// majority); ScaleNote explains the scale in words.
+	Measure   string `json:"measure"`
+	Scale     string `json:"scale"`
+	ScaleNote string `json:"scale_note"`
+	// K is the number of claims pooled.
+	K int `json:"k"`
+	// Tau2Method is the τ² estimator the random-effects results used
+	// ("REML" or "DL"); empty when nothing was pooled.
+	Tau2Method string `json:"tau2_method"`
+	// Studies are the claims pooled, in input order.
+	Studies []PoolStudy `json:"studies"`
+	// Fixed is the inverse-variance estimate, Random the random-effects
+	// estimate with its Wald interval, HKSJ the same estimate with the
+	// Hartung–Knapp–Sidik–Jonkman t interval.
+	Fixed  *PooledEstimate `json:"fixed"`
+	Random *PooledEstimate `json:"random"`
+	HKSJ   *PooledEstimate `json:"hksj"`
+	// Heterogeneity holds Q, I², H² and τ² with its Q-profile interval.
+	Heterogeneity *PoolHeterogeneity `json:"heterogeneity"`
+	// Prediction is the interval for the true difference in a new study.
+	Prediction *PoolPrediction `json:"prediction"`
+	// LeaveOneOut has one row per pooled claim (empty when K < 3).
+	LeaveOneOut []PoolLeaveOneOut `json:"leave_one_out"`
+	// LeftOut lists the topic's claims that were not pooled, and why.
+	LeftOut []PoolLeftOut `json:"left_out"`
+	// Notes are warnings and remarks on this topic in plain words.
+	Notes []string `json:"notes"`
+	// Error is why the pooling failed, when it did; empty otherwise.
+	Error string `json:"error,omitempty"`
+}
+
+// PoolStudy is one pooled claim: its difference, the SE, the interval at
+// the report's level and its share of the fixed-effect and random-effects
+// weights (proportions summing to 1; null when nothing was pooled).
+type PoolStudy struct {
+	Study        string    `json:"study"`
+	Claim        string    `json:"claim"`
+	Row          int       `json:"row"`
+	First        string    `json:"first"`
+	Second       string    `json:"second"`
+	Outcome      string    `json:"outcome"`
+	Estimate     Number    `json:"estimate"`
+	SE           Number    `json:"se"`
+	CI           [2]Number `json:"ci"`
+	WeightFixed  Number    `json:"weight_fixed"`
+	WeightRandom Number    `json:"weight_random"`
+}
+
+// PooledEstimate is a pooled difference with its SE and interval, the
+// statistic for the null of no difference, its degrees of freedom (null
+// for the standard normal) and two-sided p.
+type PooledEstimate struct {
+	Estimate  Number    `json:"estimate"`
+	SE        Number    `json:"se"`
+	CI        [2]Number `json:"ci"`
+	Statistic Number    `json:"statistic"`
+	DF        Number    `json:"df"`
+	P         Number    `json:"p"`
+}
+
+// PoolHeterogeneity is Cochran's Q with df = K − 1 and its p, I² = max(0,
+// (Q − df)/Q) and H² = Q/df as proportions, I2Tau2 = τ²/(τ² + s²) from the
+// fitted τ², and τ² with its SE (REML only) and Q-profile interval.
+type PoolHeterogeneity struct {
+	Q      Number    `json:"q"`
+	DF     int       `json:"df"`
+	P      Number    `json:"p"`
+	I2     Number    `json:"i2"`
+	H2     Number    `json:"h2"`
+	I2Tau2 Number    `json:"i2_tau2"`
+	Tau2   Number    `json:"tau2"`
+	Tau2SE Number    `json:"tau2_se"`
+	Tau2CI [2]Number `json:"tau2_ci"`
+}
+
+// PoolPrediction is the prediction interval with its t degrees of freedom.
+type PoolPrediction struct {
+	CI [2]Number `json:"ci"`
+	DF Number    `json:"df"`
+}
+
+// PoolLeaveOneOut is the random-effects result without one claim.
+type PoolLeaveOneOut struct {
+	Study    string    `json:"study"`
+	Claim    string    `json:"claim"`
+	Row      int       `json:"row"`
+	Estimate Number    `json:"estimate"`
+	SE       Number    `json:"se"`
+	CI       [2]Number `json:"ci"`
+	Tau2     Number    `json:"tau2"`
+	Q        Number    `json:"q"`
+	I2       Number    `json:"i2"`
+}
+
+// PoolLeftOut is a claim of the topic that was not pooled, with the reason
+// in plain words.
+type PoolLeftOut struct {
+	Study  string `json:"study"`
+	Claim  string `json:"claim"`
+	Row    int    `json:"row"`
+	Reason string `json:"reason"`
+}
+
+// PoolInput reads and audits the input at path (see Check) and pools its
+// topics (see Pool).
+func PoolInput(path string, check Options, opts PoolOptions) (*PoolReport, error) {
+	rep, err := Check(path, check)
+	if err != nil {
+		return nil, err
+	}
+	return Pool(rep, opts)
+}
+
+// Pool meta-analyses the differences of the claims that share a non-empty
+// topic (compared after trimming spaces). Claim i contributes
+//
+//	y_i = PoolEstimate (first − second, on PoolScale),  v_i = PoolSE²,
+//
+// on the log scale for ratio measures (the log of the ratio of the two
+// ratios), on Fisher's z scale for correlations (z1 − z2 with z = atanh r,
+// near normal with a variance that does not depend on ρ [1]), and in the
+// coefficients' own units otherwise. A claim is left out, with its reason,
+// when its outcome is incomplete or indeterminate, when its difference or
+// SE is unknown or its SE is 0, and when its measure or scale differs from
+// those of most of the topic's remaining claims (a tie goes to the first
+// in input order). Per topic it reports
+//
+//	fixed effect      μ̂ = Σ w_i y_i / Σ w_i,  w_i = 1/v_i               [2]
+//	Q = Σ w_i (y_i − μ̂)²,  I² = max(0, (Q − (K−1))/Q)                    [3]
+//	random effects    μ̂* = Σ w*_i y_i / Σ w*_i,  w*_i = 1/(v_i + τ̂²),
+//	                  τ̂² by REML [4] or DerSimonian–Laird [2]
+//	HKSJ              μ̂* ± t_(K−1) √(q/Σ w*_i)                          [5, 6]
+//	τ² interval       Q-profile                                          [7]
+//	prediction        μ̂* ± t_(K−2) √(τ̂² + SE(μ̂*)²)                       [8]
+//
+// and the random-effects estimate without each claim in turn. The
+// statistics are those of package coefaudit/infer/meta. When REML does not
+// converge the topic is refitted with DerSimonian–Laird and its Notes say
+// so; a topic that cannot be fitted at all has Error set. Claims from one
+// study are pooled as if independent, with a note, since they are not.
+//
+// It returns ErrPoolMethod for an unknown Method and an error wrapping
+// infer.ErrProbability for a Level outside (0, 1).
+//
+// References
+//
+//	[1] Fisher RA (1921). On the "probable error" of a coefficient of
+//	    correlation deduced from a small sample. Metron 1:3-32.
+//	[2] DerSimonian R, Laird N (1986). Meta-analysis in clinical trials.
+//	    Controlled Clinical Trials 7(3):177-188.
+//	[3] Higgins JPT, Thompson SG (2002). Quantifying heterogeneity in a
+//	    meta-analysis. Statistics in Medicine 21(11):1539-1558.
+//	[4] Viechtbauer W (2005). Bias and efficiency of meta-analytic variance
+//	    estimators in the random-effects model. Journal of Educational and
+//	    Behavioral Statistics 30(3):261-293.
+//	[5] Hartung J, Knapp G (2001). A refined method for the meta-analysis
+//	    of controlled clinical trials with binary outcome. Statistics in
+//	    Medicine 20(24):3875-3889.
+//	[6] Sidik K, Jonkman JN (2002). A simple confidence interval for
+//	    meta-analysis. Statistics in Medicine 21(21):3153-3159.
+//	[7] Viechtbauer W (2007). Confidence intervals for the amount of
+//	    heterogeneity in meta-analysis. Statistics in Medicine 26(1):37-52.
+//	[8] Higgins JPT, Thompson SG, Spiegelhalter DJ (2009). A re-evaluation
+//	    of random-effects meta-analysis. Journal of the Royal Statistical
+//	    Society A 172(1):137-159.
+func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
+	var method meta.Tau2Method
+	switch opts.Method {
+	case PoolREML, "":
+		method = meta.RestrictedMaximumLikelihood
+	case PoolDL:
+		method = meta.DerSimonianLaird
+	default:
+		return nil, fmt.Errorf("pooling: %q: %w (want %s or %s)", opts.Method, ErrPoolMethod, PoolREML, PoolDL)
+	}
+	level := opts.Level
+	if level == 0 {
+		level = meta.DefaultLevel
+	}
+	if !(level > 0 && level < 1) {
+		return nil, fmt.Errorf("pooling: confidence level %v: %w", opts.Level, infer.ErrProbability)
+	}
+	cautions := rep.Cautions
+	if len(cautions) == 0 {
+		cautions = Cautions
+	}
+	out := &PoolReport{Source: rep.Source, Level: level, Method: method.String(), Orientation: PoolOrientation,
+		Topics: []TopicPool{}, Plots: []string{}, Cautions: cautions}
+	var order []string
+	byTopic := map[string][]ClaimResult{}
+	for _, c := range rep.Claims {
+		topic := strings.TrimSpace(c.Topic)
+		if topic == "" {
+			out.ClaimsWithoutTopic++
+			continue
+		}
+		if _, ok := byTopic[topic]; !ok {
+			order = append(order, topic)
+		}
+		byTopic[topic] = append(byTopic[topic], c)
+	}
+	slugs := map[string]bool{}
+	mo := meta.Options{Level: level, Method: method, REML: opts.REML}
+	for _, topic := range order {
+		t := poolTopic(topic, byTopic[topic], mo)
+		t.Slug = poolUniqueSlug(Slug(topic), slugs)
+		out.Topics = append(out.Topics, t)
+	}
+	return out, nil
+}
+
+// poolKey is what the claims of a topic must share to be pooled.
+type poolKey struct{ measure, scale string }
+
+func poolTopic(topic string, claims []ClaimResult, mo meta.Options) TopicPool {
+	t := TopicPool{Topic: topic, Studies: []PoolStudy{}, LeaveOneOut: []PoolLeaveOneOut{},
+		LeftOut: []PoolLeftOut{}, Notes: []string{}}
+	reasons := make([]string, len(claims))
+	count := map[poolKey]int{}
+	var keys []poolKey
+	for i, c := range claims {
+		if reasons[i] = poolUnusableReason(c); reasons[i] != "" {
+			continue
+		}
+		k := poolKey{c.Measure, c.PoolScale}
+		if count[k] == 0 {
+			keys = append(keys, k)
+		}
+		count[k]++
+	}
+	var major poolKey
+	for _, k := range keys {
+		if count[k] > count[major] {
+			major = k
+		}
+	}
+	t.Measure, t.Scale = major.measure, major.scale
+	t.ScaleNote = poolScaleNote(major)
+	z, _ := infer.NormalCriticalValue(mo.Level)
+	var usable []ClaimResult
+	for i, c := range claims {
+		if reasons[i] == "" && (poolKey{c.Measure, c.PoolScale}) != major {
+			reasons[i] = fmt.Sprintf("it compares %s %s, but most usable claims of this topic compare %s %s; "+
+				"differences of different measures or on different scales cannot be pooled",
+				poolMeasureNoun(c.Measure), poolScalePhrase(c.PoolScale), poolMeasureNoun(major.measure), poolScalePhrase(major.scale))
+		}
+		if reasons[i] != "" {
+			t.LeftOut = append(t.LeftOut, PoolLeftOut{Study: c.Study, Claim: c.Claim, Row: c.Row, Reason: reasons[i]})
+			continue
+		}
+		usable = append(usable, c)
+		est, se := float64(c.PoolEstimate), float64(c.PoolSE)
+		t.Studies = append(t.Studies, PoolStudy{Study: c.Study, Claim: c.Claim, Row: c.Row,
+			First: c.First.Label, Second: c.Second.Label, Outcome: c.Outcome,
+			Estimate: c.PoolEstimate, SE: c.PoolSE, CI: [2]Number{Number(est - z*se), Number(est + z*se)},
+			WeightFixed: nan, WeightRandom: nan})
+	}
+	t.K = len(usable)
+	if t.K < 2 {
+		t.Notes = append(t.Notes, fmt.Sprintf("Only %d claim(s) of this topic can be pooled; pooling needs at least 2, so no pooled result is given.", t.K))
+		return t
+	}
+	t.Notes = append(t.Notes, poolIndependenceNotes(usable)...)
+	studies := make([]meta.Study, len(usable))
+	for i, c := range usable {
+		studies[i] = meta.StudyFromStandardError(fmt.Sprintf("%s, %s (row %d)", c.Study, c.Claim, c.Row),
+			float64(c.PoolEstimate), float64(c.PoolSE))
+		if c.Outcome == Conflict {
+			t.Notes = append(t.Notes, fmt.Sprintf("Row %d (%s, %s): its printed numbers contradict each other; its difference is pooled as computed, so check it.", c.Row, c.Study, c.Claim))
+		}
+	}
+	fit, err := fitTopic(studies, mo)
+	var ce *meta.ConvergenceError
+	if err != nil && mo.Method == meta.RestrictedMaximumLikelihood && errors.As(err, &ce) && strings.HasPrefix(ce.Method, "REML") {
+		t.Notes = append(t.Notes, fmt.Sprintf("REML did not converge (%v). The random-effects results, τ², the prediction interval and the leave-one-out estimates below use DerSimonian–Laird instead.", err))
+		mo.Method = meta.DerSimonianLaird
+		fit, err = fitTopic(studies, mo)
+	}
+	if err != nil {
+		t.Error = err.Error()
+		t.Notes = append(t.Notes, "The claims could not be pooled: "+err.Error()+".")
+		return t
+	}
+	t.fill(fit, mo.Method, usable, studies)
+	return t
+}
+
+// topicFit is one topic's meta-analysis with a single τ² estimator.
+type topicFit struct {
+	fixed  meta.Pooled
+	het    meta.Heterogeneity
+	re     meta.RandomEffects
+	tau2CI meta.Tau2Interval
+	loo    []meta.LeaveOneOutResult
+	notes  []string
+}
+
+// fitTopic runs the parts of meta.Analyze with the one estimator asked for:
+// Analyze fits REML whatever the choice, so a REML failure would block a
+// DerSimonian–Laird analysis and the fallback.
+func fitTopic(studies []meta.Study, mo meta.Options) (topicFit, error) {
+	var f topicFit
+	var err error
+	if f.fixed, err = meta.FixedEffect(studies, mo.Level); err != nil {
+		return f, err
+	}
+	if f.het, err = meta.CochranQ(studies); err != nil {
+		return f, err
+	}
+	if f.re, err = meta.FitRandomEffects(studies, mo.Method, mo); err != nil {
+		return f, err
+	}
+	f.notes = append(f.notes, f.re.Warnings...)
+	if f.tau2CI, err = meta.Tau2QProfile(studies, mo.Level); err != nil {
+		return f, err
+	}
+	if f.tau2CI.HighAtZero {
+		f.notes = append(f.notes, fmt.Sprintf("Q = %.4g is below the lower %g%% point of chi-square with %d df: the differences agree more closely than their SEs predict; check that the SEs are not overstated.",
+			f.het.Q, 100*(1-mo.Level)/2, f.het.DF))
+	}
+	if len(studies) < 3 {
+		f.notes = append(f.notes, "The prediction interval and the leave-one-out estimates need at least 3 claims.")
+		return f, nil
+	}
+	f.loo, err = meta.LeaveOneOut(studies, mo)
+	return f, err
+}
+
+// fill copies a fit into the topic's report.
+func (t *TopicPool) fill(f topicFit, method meta.Tau2Method, usable []ClaimResult, studies []meta.Study) {
+	t.Tau2Method = method.String()
+	var sw, swr float64
+	for _, s := range studies {
+		sw += 1 / s.Variance
+		swr += 1 / (s.Variance + f.re.Tau2)
+	}
+	for i, s := range studies {
+		t.Studies[i].WeightFixed = Number(1 / s.Variance / sw)
+		t.Studies[i].WeightRandom = Number(1 / (s.Variance + f.re.Tau2) / swr)
+	}
+	t.Fixed = poolEstimateOf(f.fixed)
+	t.Random = poolEstimateOf(f.re.Wald)
+	t.HKSJ = poolEstimateOf(f.re.HartungKnapp)
+	t.Heterogeneity = &PoolHeterogeneity{Q: Number(f.het.Q), DF: f.het.DF, P: Number(f.het.P),
+		I2: Number(f.het.I2), H2: Number(f.het.H2), I2Tau2: Number(f.re.I2), Tau2: Number(f.re.Tau2),
+		Tau2SE: Number(f.re.Tau2SE), Tau2CI: [2]Number{Number(f.tau2CI.Low), Number(f.tau2CI.High)}}
+	if f.re.HasPrediction {
+		p := f.re.Prediction
+		t.Prediction = &PoolPrediction{CI: [2]Number{Number(p.Low), Number(p.High)}, DF: Number(p.DF)}
+	}
+	for _, l := range f.loo {
+		c := usable[l.Omitted]
+		t.LeaveOneOut = append(t.LeaveOneOut, PoolLeaveOneOut{Study: c.Study, Claim: c.Claim, Row: c.Row,
+			Estimate: Number(l.Pooled.Estimate), SE: Number(l.Pooled.SE),
+			CI: [2]Number{Number(l.Pooled.Low), Number(l.Pooled.High)}, Tau2: Number(l.Tau2), Q: Number(l.Q), I2: Number(l.I2)})
+	}
+	for _, n := range f.notes {
+		t.Notes = append(t.Notes, capitalize(strings.TrimSuffix(n, "."))+".")
+	}
+}
+
+func poolEstimateOf(p meta.Pooled) *PooledEstimate {
+	return &PooledEstimate{Estimate: Number(p.Estimate), SE: Number(p.SE), CI: [2]Number{Number(p.Low), Number(p.High)},
+		Statistic: Number(p.Stat), DF: Number(p.DF), P: Number(p.P)}
+}
+
+// poolUnusableReason says why a claim cannot be pooled whatever the topic's
+// other claims, or returns "".
+func poolUnusableReason(c ClaimResult) string {
+	switch c.Outcome {
+	case Incomplete:
+		r := "its outcome is incomplete: not enough was printed to compute and test its difference"
+		if len(c.Notes) > 0 {
+			r += " (" + strings.TrimSuffix(c.Notes[0], ".") + ")"
+		}
+		return r
+	case Indeterminate:
+		return "its outcome is indeterminate: the verdict flips within what was not reported " +
+			"(an unknown covariance or the rounding of the printed numbers), so its difference is not known well enough to pool"
+	}
+	switch {
+	case !c.PoolEstimate.Known():
+		return "its difference could not be computed on a scale that can be pooled"
+	case !c.PoolSE.Known():
+		return "its difference has no standard error (for example, the covariance of the two estimates was not reported), so it cannot be weighted"
+	case c.PoolSE <= 0:
+		return "its difference has a standard error of 0, which would give it unlimited weight"
+	case c.PoolScale == "":
+		return "the scale of its difference is not known"
+	}
+	return ""
+}
+
+// poolIndependenceNotes warns about claims of one study pooled together: their
+// differences share a sample or a paper's data, so they are not the
+// independent estimates the model assumes and the pooled SE is too small.
+func poolIndependenceNotes(usable []ClaimResult) []string {
+	rows := map[string][]string{}
+	var order []string
+	for _, c := range usable {
+		if _, ok := rows[c.Study]; !ok {
+			order = append(order, c.Study)
+		}
+		rows[c.Study] = append(rows[c.Study], fmt.Sprint(c.Row))
+	}
+	var notes []string
+	for _, s := range order {
+		if len(rows[s]) > 1 {
+			notes = append(notes, fmt.Sprintf("Rows %s all come from study %s: the pooling treats their differences as independent, which they are not, so the pooled SE is too small.",
+				strings.Join(rows[s], ", "), s))
+		}
+	}
+	return notes
+}

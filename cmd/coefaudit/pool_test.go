@@ -1,0 +1,216 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// writeKackerInput writes a CSV folder whose claims carry the
+// interlaboratory example of Kacker RN (2004), Metrologia 41(3):132-136
+// (citation from memory), as given in PUBLISHED-VALUES.md §7.2: laboratory
+// i's claim compares a coefficient y_i with a reference coefficient 0 from
+// an independent group, each printed with SE √(v_i/2), so that the claim's
+// difference is y_i with SE √v_i. A tenth claim lacks an SE (left out) and
+// an eleventh has no topic.
+func writeKackerInput(t *testing.T) (dir string, files map[string][]byte) {
+	t.Helper()
+	y := []string{"61.0", "61.4", "62.21", "62.3", "62.34", "62.6", "62.7", "62.84", "65.9"}
+	v := []float64{0.2025, 1.2100, 0.0900, 0.2025, 0.3844, 0.5625, 0.0676, 0.0225, 1.8225}
+	var coef, claims strings.Builder
+	coef.WriteString("study,label,measure,group,estimate,se\n")
+	claims.WriteString("study,claim,first,second,published,basis,topic\n")
+	for i := range y {
+		se := strconv.FormatFloat(math.Sqrt(v[i]/2), 'f', 17, 64)
+		fmt.Fprintf(&coef, "lab %d,x,b,a,%s,%s\nlab %d,ref,b,b,0,%s\n", i+1, y[i], se, i+1, se)
+		fmt.Fprintf(&claims, "lab %d,c1,x,ref,differ,test,Interlab comparison\n", i+1)
+	}
+	coef.WriteString("lab 10,x,b,a,62.0,\nlab 10,ref,b,b,0,0.2\n")
+	claims.WriteString("lab 10,c1,x,ref,differ,test,Interlab comparison\n")
+	claims.WriteString("lab 1,c2,x,ref,differ,test,\n")
+	dir = t.TempDir()
+	files = map[string][]byte{"coefficients.csv": []byte(coef.String()), "claims.csv": []byte(claims.String())}
+	for name, b := range files {
+		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir, files
+}
+
+func executePool(t *testing.T, args ...string) (stdout string, err error) {
+	t.Helper()
+	var out, errOut bytes.Buffer
+	root := newRootCmd(&out, &errOut)
+	root.SetArgs(append([]string{"pool"}, args...))
+	err = root.Execute()
+	return out.String(), err
+}
+
+// dirNames lists a folder's entries.
+func dirNames(t *testing.T, dir string) []string {
+	t.Helper()
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, e := range entries {
+		names = append(names, e.Name())
+	}
+	return names
+}
+
+func checkUnchanged(t *testing.T, dir string, files map[string][]byte) {
+	t.Helper()
+	for name, want := range files {
+		got, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil || !bytes.Equal(got, want) {
+			t.Errorf("input %s changed (err %v)", name, err)
+		}
+	}
+	if names := dirNames(t, dir); len(names) != len(files) {
+		t.Errorf("input folder holds %q, want only the input files", names)
+	}
+}
+
+func TestPoolCommandJSON(t *testing.T) {
+	in, files := writeKackerInput(t)
+	outDir := t.TempDir()
+	out := filepath.Join(outDir, "pool.json")
+	stdout, err := executePool(t, in, "--format", "json", "--method", "dl", "--out", out)
+	if err != nil {
+		t.Fatalf("pool --format json error: %v", err)
+	}
+	if stdout != "" {
+		t.Errorf("pool --out wrote %q to stdout, want nothing", stdout)
+	}
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Method             string   `json:"method"`
+		ClaimsWithoutTopic int      `json:"claims_without_topic"`
+		Plots              []string `json:"plots"`
+		Topics             []struct {
+			Topic  string `json:"topic"`
+			Slug   string `json:"slug"`
+			K      int    `json:"k"`
+			Random struct {
+				Estimate float64 `json:"estimate"`
+				SE       float64 `json:"se"`
+			} `json:"random"`
+			Heterogeneity struct {
+				Tau2 float64 `json:"tau2"`
+			} `json:"heterogeneity"`
+			LeftOut []struct {
+				Study  string `json:"study"`
+				Reason string `json:"reason"`
+			} `json:"left_out"`
+		} `json:"topics"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatalf("pool --format json wrote invalid JSON: %v\n%s", err, b)
+	}
+	if doc.Method != "DL" || doc.ClaimsWithoutTopic != 1 || len(doc.Topics) != 1 {
+		t.Fatalf("pool JSON method %q, without topic %d, %d topics; want DL, 1, 1", doc.Method, doc.ClaimsWithoutTopic, len(doc.Topics))
+	}
+	tp := doc.Topics[0]
+	if tp.K != 9 || tp.Slug != "interlab-comparison" || len(tp.LeftOut) != 1 || tp.LeftOut[0].Study != "lab 10" {
+		t.Errorf("pool JSON topic K %d slug %q left out %+v; want 9, interlab-comparison, lab 10", tp.K, tp.Slug, tp.LeftOut)
+	}
+	// DL values of §7.2 (SECONDARY, recomputed there to ~11 digits),
+	// through reading, SE reconstruction and the z difference.
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"DL estimate", tp.Random.Estimate, 62.3901386044504},
+		{"DL SE", tp.Random.SE, 0.245749668040304},
+		{"tau2", tp.Heterogeneity.Tau2, 0.288049246973751},
+	} {
+		if math.Abs(c.got-c.want) > 1e-9 {
+			t.Errorf("pool JSON %s = %.12g, want %.12g", c.name, c.got, c.want)
+		}
+	}
+	wantPlots := []string{filepath.Join(outDir, "pool-interlab-comparison.svg"), filepath.Join(outDir, "pool-interlab-comparison.png")}
+	if strings.Join(doc.Plots, " ") != strings.Join(wantPlots, " ") {
+		t.Errorf("pool JSON plots = %q, want %q", doc.Plots, wantPlots)
+	}
+	for i, magic := range []string{"<?xml", "\x89PNG"} {
+		b, err := os.ReadFile(wantPlots[i])
+		if err != nil || !bytes.HasPrefix(b, []byte(magic)) {
+			t.Errorf("plot %s: err %v, want a file starting %q", wantPlots[i], err, magic)
+		}
+	}
+	if names := dirNames(t, outDir); len(names) != 3 {
+		t.Errorf("output folder holds %q, want the report and two plots only", names)
+	}
+	checkUnchanged(t, in, files)
+}
+
+func TestPoolCommandText(t *testing.T) {
+	in, files := writeKackerInput(t)
+	plots := t.TempDir()
+	tests := []struct {
+		name      string
+		args      []string
+		want      []string
+		wantPlots int
+	}{
+		{"table without plots", []string{in}, []string{"TOPIC Interlab comparison", "Random effects (REML), HKSJ", "Cautions"}, 0},
+		{"markdown with --plots", []string{in, "--format", "md", "--plots", plots, "--level", "90"},
+			[]string{"## Interlab comparison", "90% CI", "## Forest plots", filepath.Join(plots, "pool-interlab-comparison.png")}, 2},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			stdout, err := executePool(t, tt.args...)
+			if err != nil {
+				t.Fatalf("pool %q error: %v", tt.args, err)
+			}
+			for _, w := range tt.want {
+				if !strings.Contains(stdout, w) {
+					t.Errorf("pool %q output lacks %q:\n%s", tt.args, w, stdout)
+				}
+			}
+			if n := len(dirNames(t, plots)); n != tt.wantPlots {
+				t.Errorf("pool %q left %d files in the plots folder, want %d", tt.args, n, tt.wantPlots)
+			}
+		})
+	}
+	checkUnchanged(t, in, files)
+}
+
+func TestPoolCommandFlagErrors(t *testing.T) {
+	in, files := writeKackerInput(t)
+	tests := []struct {
+		name string
+		args []string
+	}{
+		{"format", []string{in, "--format", "csv"}},
+		{"method", []string{in, "--method", "pm"}},
+		{"level zero", []string{in, "--level", "0"}},
+		{"level 100", []string{in, "--level", "100"}},
+		{"adjust", []string{in, "--adjust", "bonferroni"}},
+		{"plots folder missing", []string{in, "--plots", filepath.Join(in, "missing")}},
+		{"out over the input", []string{in, "--out", filepath.Join(in, "claims.csv")}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := executePool(t, tt.args...)
+			var fe flagError
+			if !errors.As(err, &fe) {
+				t.Errorf("pool %q error = %v, want a flag error", tt.args, err)
+			}
+		})
+	}
+	checkUnchanged(t, in, files)
+}
