@@ -61,6 +61,7 @@ func Audit(in *extract.Input, opts Options) *Report {
 		rep.Claims[i].Methods = methodsText(&rep.Claims[i])
 	}
 	rep.Problems = collectProblems(in)
+	rep.Problems = append(rep.Problems, tableProblems(in)...)
 	for i := range in.Coefficients {
 		rep.Problems = append(rep.Problems, a.conflicts[&in.Coefficients[i]]...)
 	}

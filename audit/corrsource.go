@@ -1,11 +1,15 @@
 package audit
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
 
 	"coefaudit/extract"
+	"coefaudit/infer/regress"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // corrSource is what an input printed about the correlations of one
@@ -114,4 +118,40 @@ func (s *corrSource) corr(a, b string) (extract.Printed, bool) {
 	}
 	p := s.r[i][j]
 	return p, p.IsExact()
+}
+
+// tableProblems checks that each correlation table could come from real
+// data: a matrix that is not positive definite is a problem naming the
+// table and its smallest eigenvalue, whether or not a claim uses it.
+func tableProblems(in *extract.Input) []Problem {
+	var out []Problem
+	for _, t := range in.Tables {
+		if len(t.Problems) > 0 || len(t.R) < 2 {
+			continue
+		}
+		q := len(t.R)
+		m := mat.NewSymDense(q, nil)
+		complete := true
+		for i := 0; i < q; i++ {
+			for j := i; j < q; j++ {
+				v := t.R[i][j]
+				if i == j {
+					m.SetSym(i, i, 1)
+					continue
+				}
+				if !v.IsExact() {
+					complete = false
+				}
+				m.SetSym(i, j, v.Value)
+			}
+		}
+		if !complete {
+			continue
+		}
+		var npd *regress.NotPositiveDefiniteError
+		if err := regress.CheckCorrelationMatrix(m); errors.As(err, &npd) {
+			out = append(out, Problem{Sheet: t.Sheet, Message: fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)})
+		}
+	}
+	return out
 }
