@@ -2,8 +2,23 @@
 // it picks the test the design calls for (independent samples, one fitted
 // model, one sample), runs it on the reconstructed estimates, compares the
 // result with the published verdict allowing for rounding and for what was
-// never printed, and explains the outcome in plain words. It also writes
-// the reports: a terminal table, CSV and JSON.
+// never printed, and explains the outcome in plain words and in a methods
+// paragraph a reviewer can paste into a report.
+//
+// Beyond the per-claim audit (Audit, Check) it pools the claims of a topic
+// across studies (Pool), runs the bootstrap comparison on raw data
+// (Bootstrap), and writes the reports: a terminal table, CSV, JSON,
+// Markdown, xlsx and HTML, and forest plots through package forestplot.
+//
+// The range of p under rounding (p_range) is computed three ways, and the
+// notes say which: exactly at the corners of the rounding box when the test
+// statistic is monotone in each printed number and the SEs come from
+// printed SEs or intervals; as a safe outer bound (interval arithmetic on the
+// difference and its SE) when an SE was taken from the estimate's own p or
+// statistic, or from a printed sampling correlation; and, for dependent
+// correlations and regressions rebuilt from a correlation table, by
+// evaluating a grid (every rounding limit and midpoint for correlations, 256
+// corners drawn with a fixed seed for a table), which is not a proven bound.
 //
 // audit decides nothing about how numbers are read (package extract) and
 // computes no statistics of its own (package infer).
