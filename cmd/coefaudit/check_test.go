@@ -158,6 +158,10 @@ func TestCheckFormatsAndOut(t *testing.T) {
 	if err != nil || !strings.HasPrefix(string(csvText), "row,study,claim") {
 		t.Fatalf("CSV output %q, %v", csvText, err)
 	}
+	md, _, code := runCLI(t, "check", wb, "--format", "md", "--fail-on", "none")
+	if code != exitOK || !strings.Contains(md, "# Audit of published comparisons") || !strings.Contains(md, "## Cautions") {
+		t.Errorf("check --format md: code %d, output %.200q", code, md)
+	}
 	// The report may not overwrite its input, and the input is never changed.
 	if _, stderr, code := runCLI(t, "check", wb, "--out", wb); code != exitError || !strings.Contains(stderr, "input") {
 		t.Errorf("--out equal to the input: code %d, stderr %q", code, stderr)

@@ -39,13 +39,24 @@ sample sizes - it reconstructs what was left out, runs the test the design
 requires and says whether the published verdict stands, allowing for the
 rounding of the printed numbers.
 
-A flag is a reason to look again, not proof of error or misconduct.`,
+A flag is a reason to look again, not proof of error or misconduct.
+
+Exit status: 0 when the run worked and no claim was flagged; 1 when the
+run worked and a claim was flagged (an outcome listed in --fail-on; by
+default unsupported, missed, reversed or conflict; see "coefaudit help
+check"); 2 for a usage error or an input that cannot be read.
+
+Shell completion: "coefaudit completion bash" (or zsh, fish, powershell)
+prints a completion script; "coefaudit completion bash --help" says how to
+load it.`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	root.AddCommand(newCheckCmd(), newDemoCmd(), newTemplateCmd(), newBootstrapCmd(), newPoolCmd())
+	// A flag cobra cannot parse is a usage error, like one a command rejects.
+	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return flagError{err} })
+	root.AddCommand(newCheckCmd(), newDemoCmd(), newTemplateCmd(), newCompareCmd(), newBootstrapCmd(), newPoolCmd())
 	return root
 }
 

@@ -1,0 +1,549 @@
+package audit
+
+import (
+	"bufio"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"coefaudit/extract"
+)
+
+// ErrReported is wrapped by every error of ParseReported: a string that is
+// not an estimate with its interval, SE or p.
+var ErrReported = errors.New("not an estimate with its interval, SE or p")
+
+// ErrComparison is wrapped by the errors of CompareReported that concern
+// the design: a relation, measure or verdict not in its list, a
+// correlation where none can be, a value out of range.
+var ErrComparison = errors.New("invalid comparison")
+
+// Reported is one estimate as an editor has it in front of them, every
+// number kept as printed (see extract.Printed).
+type Reported struct {
+	Estimate extract.Printed
+	// CI is the interval, both limits Absent when none was given; Level is
+	// its confidence level in percent (extract.DefaultCILevel unless the
+	// text said, as in "95% CI 0.30 to 0.52").
+	CI    extract.Interval
+	Level float64
+	SE    extract.Printed
+	P     extract.Printed
+	// Text is the string as given, trimmed.
+	Text string
+}
+
+// ParseReported reads an estimate with what gives its standard error, as
+// papers print it:
+//
+//	0.41 [0.30, 0.52]        0.41 (0.30 to 0.52)      0.41 (95% CI 0.30–0.52)
+//	0.41, SE 0.05            0.41 (SE = 0.05)         0.41, p = .003
+//	0.41 (p < .001)          0.41 [0.30, 0.52], p = .001
+//	−0,41 (−0,52; −0,30)     1.85 (1.20 to 2.85)      (a ratio, on its own scale)
+//
+// The estimate comes first; after it, in brackets or after a comma or
+// semicolon, an interval (anything extract.ParseIntervalLevel reads), an
+// SE ("SE 0.05", "SE = 0.05", "SE: 0.05"), or a p (anything extract.ParseP
+// reads, starting with p). The numbers are read by extract.ParseNumber,
+// ParseInterval and ParseP, so rounding is tracked as for a workbook.
+// "±" is refused, since papers use it for an SE, an SD and a margin of
+// error alike.
+//
+// It fails with an error wrapping ErrReported (and the extract parse error,
+// where there is one) that says what was wrong: no estimate, only an
+// estimate, an interval or an SE given twice, a part that is none of these.
+func ParseReported(text string) (Reported, error) {
+	s := strings.TrimSpace(text)
+	r := Reported{Text: s, Level: extract.DefaultCILevel}
+	fail := func(format string, a ...any) (Reported, error) {
+		return Reported{}, fmt.Errorf("%q: %s: %w", s, fmt.Sprintf(format, a...), ErrReported)
+	}
+	if s == "" {
+		return fail("empty; give an estimate with its interval, SE or p, e.g. \"0.41 [0.30, 0.52]\"")
+	}
+	if strings.ContainsRune(s, '±') {
+		return fail("\"±\" may be an SE, an SD or a margin of error; write \"0.41, SE 0.05\" or the interval \"0.41 [0.31, 0.51]\"")
+	}
+	estText := s[:estimateEnd(s)]
+	rest := s[len(estText):]
+	est, err := extract.ParseNumber(estText)
+	if err != nil {
+		return Reported{}, fmt.Errorf("%q: the estimate: %w (%w)", s, err, ErrReported)
+	}
+	if !est.Present() {
+		return fail("no estimate before the interval, SE or p")
+	}
+	r.Estimate = est
+	if err := r.readPart(rest); err != nil {
+		return Reported{}, fmt.Errorf("%q: %w", s, err)
+	}
+	if !r.CI.Present() && !r.SE.Present() && !r.P.Present() {
+		return fail("only an estimate; add its interval (\"%s [lo, hi]\"), its SE (\"%s, SE 0.05\") or its p (\"%s, p = .03\")", estText, estText, estText)
+	}
+	return r, nil
+}
+
+// estimateEnd finds where the leading estimate ends: at a space, a
+// bracket, a semicolon, or a comma that is not a decimal comma (one not
+// followed by a digit).
+func estimateEnd(s string) int {
+	for i, r := range s {
+		switch {
+		case unicode.IsSpace(r) || strings.ContainsRune("([{;", r):
+			return i
+		case r == ',':
+			next, _ := utf8.DecodeRuneInString(s[i+1:])
+			if !unicode.IsDigit(next) {
+				return i
+			}
+		}
+	}
+	return len(s)
+}
+
+// readPart reads what follows the estimate: one part, or several separated
+// at the top level by commas, semicolons or brackets.
+func (r *Reported) readPart(t string) error {
+	t = strings.TrimFunc(t, func(c rune) bool { return unicode.IsSpace(c) || c == ',' || c == ';' })
+	if t == "" {
+		return nil
+	}
+	if inner, ok := enclosed(t); ok {
+		return r.readPart(inner)
+	}
+	iv, level, ivErr := extract.ParseIntervalLevel(t)
+	if ivErr == nil {
+		if r.CI.Present() {
+			return fmt.Errorf("two intervals are given: %w", ErrReported)
+		}
+		r.CI = iv
+		if level > 0 {
+			r.Level = level
+		}
+		return nil
+	}
+	if parts := splitTopLevel(t); len(parts) > 1 && anyLabelled(parts) {
+		for _, p := range parts {
+			if err := r.readPart(p); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
+	if v, ok := afterKeyword(t, "se"); ok {
+		if r.SE.Present() {
+			return fmt.Errorf("the SE is given twice: %w", ErrReported)
+		}
+		se, err := extract.ParseNumber(v)
+		if err != nil {
+			return fmt.Errorf("the SE: %w (%w)", err, ErrReported)
+		}
+		if !se.Present() || se.Value <= 0 {
+			return fmt.Errorf("the SE %q must be a positive number: %w", v, ErrReported)
+		}
+		r.SE = se
+		return nil
+	}
+	if isPPart(t) {
+		if r.P.Present() {
+			return fmt.Errorf("the p-value is given twice: %w", ErrReported)
+		}
+		p, err := extract.ParseP(t)
+		if err != nil {
+			return fmt.Errorf("the p-value: %w (%w)", err, ErrReported)
+		}
+		r.P = p
+		return nil
+	}
+	return fmt.Errorf("%q is not an interval, an SE (\"SE 0.05\") or a p (\"p = .03\"): %w (%w)", t, ivErr, ErrReported)
+}
+
+// enclosed reports whether t is one bracketed group, and returns its inside.
+func enclosed(t string) (string, bool) {
+	if t == "" || !strings.ContainsRune("([{", rune(t[0])) {
+		return "", false
+	}
+	depth := 0
+	for i, c := range t {
+		switch c {
+		case '(', '[', '{':
+			depth++
+		case ')', ']', '}':
+			depth--
+			if depth == 0 {
+				return t[1:i], i == len(t)-1
+			}
+		}
+	}
+	return "", false
+}
+
+// splitTopLevel cuts t at commas and semicolons outside brackets and before
+// a bracket that opens after other text. A comma between digits is a
+// decimal comma, not a separator.
+func splitTopLevel(t string) []string {
+	var parts []string
+	depth, start := 0, 0
+	cut := func(i int) {
+		if p := strings.TrimSpace(t[start:i]); p != "" {
+			parts = append(parts, p)
+		}
+		start = i
+	}
+	for i, c := range t {
+		switch {
+		case c == '(' || c == '[' || c == '{':
+			if depth == 0 {
+				cut(i)
+			}
+			depth++
+		case c == ')' || c == ']' || c == '}':
+			depth--
+			if depth == 0 {
+				cut(i + 1)
+			}
+		case depth == 0 && (c == ';' || c == ',' && !decimalComma(t, i)):
+			cut(i)
+			start = i + 1
+		}
+	}
+	cut(len(t))
+	return parts
+}
+
+// anyLabelled reports whether a part is bracketed or names an SE or a p,
+// so that the text is several parts rather than one bad interval.
+func anyLabelled(parts []string) bool {
+	for _, p := range parts {
+		if _, ok := afterKeyword(p, "se"); ok || isPPart(p) || strings.ContainsRune("([{", rune(p[0])) {
+			return true
+		}
+	}
+	return false
+}
+
+func decimalComma(t string, i int) bool {
+	prev, _ := utf8.DecodeLastRuneInString(t[:i])
+	next, _ := utf8.DecodeRuneInString(t[i+1:])
+	return unicode.IsDigit(prev) && unicode.IsDigit(next)
+}
+
+// afterKeyword returns the text after a leading keyword (case-insensitive)
+// followed by a space, "=" or ":".
+func afterKeyword(t, kw string) (string, bool) {
+	if len(t) <= len(kw) || !strings.EqualFold(t[:len(kw)], kw) {
+		return "", false
+	}
+	rest := t[len(kw):]
+	r, _ := utf8.DecodeRuneInString(rest)
+	if !unicode.IsSpace(r) && r != '=' && r != ':' {
+		return "", false
+	}
+	return strings.TrimLeftFunc(strings.TrimLeft(strings.TrimSpace(rest), "=:"), unicode.IsSpace), true
+}
+
+// isPPart reports whether t is a p-value statement ("p = .03", "p<.001", "ns").
+func isPPart(t string) bool {
+	if strings.EqualFold(strings.ReplaceAll(strings.ReplaceAll(t, ".", ""), " ", ""), "ns") {
+		return true
+	}
+	if len(t) < 2 || (t[0] != 'p' && t[0] != 'P') {
+		return false
+	}
+	r, _ := utf8.DecodeRuneInString(strings.TrimLeftFunc(t[1:], unicode.IsSpace))
+	return strings.ContainsRune("=<>≤≥⩽⩾", r)
+}
+
+// Comparison is one claim typed in by hand: two reported estimates, how
+// they are related and what the paper concluded.
+type Comparison struct {
+	First, Second Reported
+	// Relation is Independent, SameModel or SameSample.
+	Relation string
+	// EstimateCorr is the sampling correlation of the two estimates, as
+	// printed (Absent when unknown); only for SameModel and SameSample.
+	EstimateCorr extract.Printed
+	// Published is one of extract.Verdicts; Measure one of
+	// extract.Measures; Alpha in (0, 1).
+	Published, Measure string
+	Alpha              float64
+	// N1, N2 are the samples' sizes, DF the residual df, as printed
+	// (Absent when not known).
+	N1, N2, DF extract.Printed
+}
+
+// CompareReported audits one comparison exactly as a claims row of a
+// workbook is audited: it builds an input holding the two coefficients and
+// one claim (study "compare"; the two in separate groups when independent,
+// in one group and one model for SameModel, one group and two models for
+// SameSample) and runs Audit on it. The report holds one claim.
+//
+// The test is the one the design calls for, as in a workbook: for
+// independent estimates [1]
+//
+//	z = (b₁ − b₂) / √(SE₁² + SE₂²)
+//
+// (on the log scale for ratio measures; Fisher's z for correlations with
+// n); for two estimates of one model or sample with a printed sampling
+// correlation ρ [2]
+//
+//	z = (b₁ − b₂) / √(SE₁² + SE₂² − 2ρ·SE₁·SE₂)
+//
+// (a t test on DF when it is given); and without ρ the range of p over
+// every admissible ρ in [−1, 1].
+//
+// It fails with an error wrapping ErrComparison for a relation, measure or
+// published verdict not in its list, an alpha outside (0, 1), a sampling
+// correlation outside [−1, 1] or given for independent estimates, or an n
+// or df that is not positive.
+//
+// [1] Altman DG, Bland JM (2003). Interaction revisited: the difference
+// between two estimates. BMJ 326:219.
+// [2] Clogg CC, Petkova E, Haritou A (1995). Statistical methods for
+// comparing regression coefficients between models. American Journal of
+// Sociology 100(5):1261–1293.
+func CompareReported(c Comparison, opts Options) (*Report, error) {
+	bad := func(format string, a ...any) (*Report, error) {
+		return nil, fmt.Errorf("%s: %w", fmt.Sprintf(format, a...), ErrComparison)
+	}
+	if c.Measure == "" {
+		c.Measure = extract.MeasureOther
+	}
+	if c.Published == "" {
+		c.Published = extract.PublishedDiffer
+	}
+	if c.Alpha == 0 {
+		c.Alpha = extract.DefaultAlpha
+	}
+	switch {
+	case !oneOf(c.Relation, Independent, SameModel, SameSample):
+		return bad("relation %q: want %s, %s or %s", c.Relation, Independent, SameModel, SameSample)
+	case !oneOf(c.Measure, extract.Measures...):
+		return bad("measure %q: want one of %s", c.Measure, strings.Join(extract.Measures, ", "))
+	case !oneOf(c.Published, extract.Verdicts...):
+		return bad("published %q: want one of %s", c.Published, strings.Join(extract.Verdicts, ", "))
+	case !(c.Alpha > 0 && c.Alpha < 1):
+		return bad("alpha %g: want a level between 0 and 1, e.g. 0.05", c.Alpha)
+	case c.EstimateCorr.Present() && c.Relation == Independent:
+		return bad("a sampling correlation of the estimates is given, but independent estimates have none")
+	case c.EstimateCorr.Present() && (!c.EstimateCorr.IsExact() || math.Abs(c.EstimateCorr.Value) > 1):
+		return bad("the sampling correlation %q must lie between −1 and 1", c.EstimateCorr.Text)
+	}
+	for _, p := range []struct {
+		name string
+		v    extract.Printed
+	}{{"n of the first", c.N1}, {"n of the second", c.N2}, {"df", c.DF}} {
+		if p.v.Present() && (!p.v.IsExact() || p.v.Value <= 0) {
+			return bad("%s %q must be a positive number", p.name, p.v.Text)
+		}
+	}
+	groups, models := [2]string{"first", "second"}, [2]string{"model", "model"}
+	switch c.Relation {
+	case SameModel:
+		groups = [2]string{"sample", "sample"}
+	case SameSample:
+		groups, models = [2]string{"sample", "sample"}, [2]string{"first model", "second model"}
+	}
+	in := &extract.Input{Source: "compare"}
+	for i, r := range []Reported{c.First, c.Second} {
+		label := [2]string{"first", "second"}[i]
+		n := [2]extract.Printed{c.N1, c.N2}[i]
+		in.Coefficients = append(in.Coefficients, extract.Coefficient{
+			Position: extract.Position{Sheet: "compare", Row: i + 2, Column: ""},
+			Study:    "compare", Label: label, Measure: c.Measure, Group: groups[i], Model: models[i],
+			Estimate: r.Estimate, CI: r.CI, CILevel: r.Level, SE: r.SE, P: r.P, DF: c.DF, N: n,
+		})
+	}
+	in.Claims = []extract.Claim{{Position: extract.Position{Sheet: "compare", Row: 2},
+		Study: "compare", Claim: "1", First: "first", Second: "second", Published: c.Published,
+		Basis: extract.BasisUnstated, Alpha: c.Alpha, EstimateCorr: c.EstimateCorr}}
+	return Audit(in, opts), nil
+}
+
+// ComparisonText is a comparison as typed on a command line: the two
+// estimates as ParseReported reads them and the design's numbers as
+// printed.
+type ComparisonText struct {
+	First, Second string
+	// Relation is Independent, SameModel or SameSample.
+	Relation string
+	// Corr is the printed sampling correlation of the two estimates ("" when
+	// unknown).
+	Corr               string
+	Published, Measure string
+	Alpha              float64
+	// N1 and N2 are the samples' sizes; N is one size for both, for one
+	// sample; DF the residual df. "" when not known.
+	N1, N2, N, DF string
+}
+
+// FieldError is a problem with one field of a ComparisonText. Field is the
+// field's name in lower case (first, second, corr, n1, n2, n, df).
+type FieldError struct {
+	Field string
+	Err   error
+}
+
+// Error implements error.
+func (e *FieldError) Error() string { return e.Field + ": " + e.Err.Error() }
+
+// Unwrap returns the underlying error.
+func (e *FieldError) Unwrap() error { return e.Err }
+
+// ParseComparison reads a ComparisonText into a Comparison: the estimates
+// with ParseReported, the correlation with ParseCorrelation, n and df with
+// extract.ParseCount. Errors are *FieldError naming the field; N given
+// together with N1 or N2 is an error of the field n. The design itself is
+// checked by CompareReported.
+func ParseComparison(t ComparisonText) (Comparison, error) {
+	c := Comparison{Relation: t.Relation, Published: t.Published, Measure: t.Measure, Alpha: t.Alpha}
+	var err error
+	if c.First, err = ParseReported(t.First); err != nil {
+		return Comparison{}, &FieldError{"first", err}
+	}
+	if c.Second, err = ParseReported(t.Second); err != nil {
+		return Comparison{}, &FieldError{"second", err}
+	}
+	if c.EstimateCorr, err = ParseCorrelation(t.Corr); err != nil {
+		return Comparison{}, &FieldError{"corr", err}
+	}
+	if t.N != "" && (t.N1 != "" || t.N2 != "") {
+		return Comparison{}, &FieldError{"n", fmt.Errorf("give n for one sample, or n1 and n2 for two, not both: %w", ErrComparison)}
+	}
+	if t.N != "" {
+		t.N1, t.N2 = t.N, t.N
+	}
+	for _, f := range []struct {
+		name string
+		text string
+		to   *extract.Printed
+	}{{"n1", t.N1, &c.N1}, {"n2", t.N2, &c.N2}, {"df", t.DF, &c.DF}} {
+		p, err := extract.ParseCount(f.text)
+		if err != nil {
+			return Comparison{}, &FieldError{f.name, err}
+		}
+		*f.to = p
+	}
+	return c, nil
+}
+
+func oneOf(s string, list ...string) bool {
+	for _, l := range list {
+		if s == l {
+			return true
+		}
+	}
+	return false
+}
+
+// WriteComparison writes the audit of one comparison for the terminal: the
+// two estimates as given and as read, the test, the verdict, the notes,
+// the methods paragraph and the cautions.
+func WriteComparison(w io.Writer, rep *Report, c Comparison) error {
+	if len(rep.Claims) != 1 {
+		return fmt.Errorf("a comparison report holds %d claims, want 1", len(rep.Claims))
+	}
+	r := rep.Claims[0]
+	bw := bufio.NewWriter(w)
+	for i, s := range []Side{r.First, r.Second} {
+		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", []Reported{c.First, c.Second}[i].Text)
+		if s.Estimate.Known() {
+			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", formatNum(float64(s.Estimate)), numberOrDash(s.SE))
+			if s.SEFrom != "" {
+				fmt.Fprintf(bw, " (from %s)", s.SEFrom)
+			}
+			if r.Scale != "" && r.Scale != extract.ScaleAsPrinted && r.Scale != "correlation" {
+				fmt.Fprintf(bw, ", on the %s scale", r.Scale)
+			}
+			fmt.Fprintln(bw)
+		}
+	}
+	fmt.Fprintf(bw, "%-10s %s\n", "Design:", designWords(r.Relation))
+	if r.Method != "" {
+		fmt.Fprintf(bw, "%-10s %s: difference %s", "Test:", r.Method, differenceCell(r))
+		if r.Statistic.Known() {
+			fmt.Fprintf(bw, ", statistic %s", formatNum(float64(r.Statistic)))
+		}
+		if r.DF.Known() {
+			fmt.Fprintf(bw, ", df %s", formatNum(float64(r.DF)))
+		}
+		if r.P.Known() {
+			fmt.Fprintf(bw, ", p %s", pCell(r.P))
+		}
+		if pr := pRangeCell(r.PRange); pr != "-" {
+			fmt.Fprintf(bw, ", p range %s", pr)
+		}
+		fmt.Fprintln(bw)
+	}
+	fmt.Fprintf(bw, "%-10s %s; recomputed: %s; α = %s\n", "Published:", dash(r.Published), dash(r.Recomputed), formatAlpha(r.Alpha))
+	fmt.Fprintf(bw, "%-10s %s\n", "Verdict:", strings.ToUpper(r.Outcome))
+	if len(r.Notes) > 0 {
+		fmt.Fprintln(bw, "\nNotes")
+		for _, n := range r.Notes {
+			fmt.Fprintf(bw, "  - %s\n", n)
+		}
+	}
+	if m := strings.TrimSpace(r.Methods); m != "" {
+		fmt.Fprintln(bw, "\nMethods")
+		writeWrapped(bw, m, "  ", 78)
+	}
+	if len(rep.Problems) > 0 {
+		fmt.Fprintln(bw, "\nProblems")
+		for _, p := range rep.Problems {
+			fmt.Fprintf(bw, "  - %s\n", p.Message)
+		}
+	}
+	fmt.Fprintln(bw, "\nCautions")
+	for _, c := range cautionsOf(rep) {
+		fmt.Fprintf(bw, "  - %s\n", c)
+	}
+	return bw.Flush()
+}
+
+func designWords(relation string) string {
+	switch relation {
+	case Independent:
+		return "independent samples"
+	case SameModel:
+		return "one fitted model"
+	case SameSample:
+		return "one sample, two models"
+	}
+	return "-"
+}
+
+// writeWrapped writes a paragraph wrapped at width runes, each line indented.
+func writeWrapped(w io.Writer, text, indent string, width int) {
+	line := indent
+	for _, word := range strings.Fields(text) {
+		if utf8.RuneCountInString(line)+1+utf8.RuneCountInString(word) > width && line != indent {
+			fmt.Fprintln(w, line)
+			line = indent
+		}
+		if line != indent {
+			line += " "
+		}
+		line += word
+	}
+	if line != indent {
+		fmt.Fprintln(w, line)
+	}
+}
+
+// ParseCorrelation reads the printed sampling correlation of two estimates
+// for Comparison.EstimateCorr: a number as printed, blank for none.
+func ParseCorrelation(text string) (extract.Printed, error) {
+	p, err := extract.ParseNumber(text)
+	if err != nil {
+		return extract.Printed{}, fmt.Errorf("the sampling correlation: %w", err)
+	}
+	if p.Present() && math.Abs(p.Value) > 1 {
+		return extract.Printed{}, fmt.Errorf("the sampling correlation %s must lie between −1 and 1: %w", strconv.Quote(p.Text), ErrComparison)
+	}
+	return p, nil
+}

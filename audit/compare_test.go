@@ -1,0 +1,264 @@
+package audit
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"coefaudit/extract"
+)
+
+func TestParseReported(t *testing.T) {
+	const none = -1.0 // a field not given
+	tests := []struct {
+		name           string
+		in             string
+		est, lo, hi    float64
+		level, se, p   float64
+		pBound         extract.Bound
+		estimateDigits int
+	}{
+		{"square brackets", "0.41 [0.30, 0.52]", 0.41, 0.30, 0.52, 95, none, none, extract.Absent, 2},
+		{"round brackets with to", "0.18 (0.05 to 0.31)", 0.18, 0.05, 0.31, 95, none, none, extract.Absent, 2},
+		{"level in the interval", "0.41 (90% CI 0.30–0.52)", 0.41, 0.30, 0.52, 90, none, none, extract.Absent, 2},
+		{"no space before bracket", "0.41(0.30-0.52)", 0.41, 0.30, 0.52, 95, none, none, extract.Absent, 2},
+		{"SE after a comma", "0.41, SE 0.05", 0.41, none, none, 95, 0.05, none, extract.Absent, 2},
+		{"SE in brackets", "0.41 (SE = 0.05)", 0.41, none, none, 95, 0.05, none, extract.Absent, 2},
+		{"SE with a colon", "0.410 (se: 0.050)", 0.41, none, none, 95, 0.05, none, extract.Absent, 3},
+		{"p after a comma", "0.41, p = .003", 0.41, none, none, 95, none, 0.003, extract.Exact, 2},
+		{"p bound without spaces", "0.41,p<.001", 0.41, none, none, 95, none, 0.001, extract.Below, 2},
+		{"interval and p", "0.41 [0.30, 0.52], p = .001", 0.41, 0.30, 0.52, 95, none, 0.001, extract.Exact, 2},
+		{"SE and p in one bracket", "0.41 (SE 0.05; p = .003)", 0.41, none, none, 95, 0.05, 0.003, extract.Exact, 2},
+		{"decimal commas", "−0,41 (−0,52; −0,30)", -0.41, -0.52, -0.30, 95, none, none, extract.Absent, 2},
+		{"decimal comma SE", "0,41, SE 0,05", 0.41, none, none, 95, 0.05, none, extract.Absent, 2},
+		{"leading point and stars", ".41** [.30, .52]", 0.41, 0.30, 0.52, 95, none, none, extract.Absent, 2},
+		{"ratio", "1.85 (1.20 to 2.85)", 1.85, 1.20, 2.85, 95, none, none, extract.Absent, 2},
+		{"ns", "0.12 (ns)", 0.12, none, none, 95, none, none, extract.NotSignificant, 2},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r, err := ParseReported(tt.in)
+			if err != nil {
+				t.Fatalf("ParseReported(%q) error %v", tt.in, err)
+			}
+			check := func(what string, p extract.Printed, want float64) {
+				t.Helper()
+				switch {
+				case want == none && p.Present():
+					t.Errorf("ParseReported(%q) %s = %v, want none", tt.in, what, p.Value)
+				case want != none && (!p.IsExact() || math.Abs(p.Value-want) > 1e-12):
+					t.Errorf("ParseReported(%q) %s = %v (%v), want %v", tt.in, what, p.Value, p.Bound, want)
+				}
+			}
+			check("estimate", r.Estimate, tt.est)
+			check("ci low", r.CI.Low, tt.lo)
+			check("ci high", r.CI.High, tt.hi)
+			check("se", r.SE, tt.se)
+			if r.Level != tt.level {
+				t.Errorf("ParseReported(%q) level = %v, want %v", tt.in, r.Level, tt.level)
+			}
+			if r.P.Bound != tt.pBound || (tt.p != none && math.Abs(r.P.Value-tt.p) > 1e-12) {
+				t.Errorf("ParseReported(%q) p = %v (%v), want %v (%v)", tt.in, r.P.Value, r.P.Bound, tt.p, tt.pBound)
+			}
+			if r.Estimate.Decimals != tt.estimateDigits {
+				t.Errorf("ParseReported(%q) estimate decimals = %d, want %d", tt.in, r.Estimate.Decimals, tt.estimateDigits)
+			}
+		})
+	}
+}
+
+func TestParseReportedErrors(t *testing.T) {
+	tests := []struct{ name, in, want string }{
+		{"empty", "  ", "empty"},
+		{"estimate only", "0.41", "only an estimate"},
+		{"not a number", "abc [0.1, 0.2]", "the estimate"},
+		{"plus-minus", "0.41 ± 0.05", "±"},
+		{"two intervals", "0.41 [0.30, 0.52] (0.1 to 0.2)", "two intervals"},
+		{"two SEs", "0.41, SE 0.05, SE 0.06", "SE is given twice"},
+		{"unknown part", "0.41 foo", `"foo" is not an interval`},
+		{"half an interval", "0.41 (0.30 to)", "not a confidence interval"},
+		{"reversed interval", "0.41 [0.52, 0.30]", "reversed"},
+		{"p above 1", "0.41, p = 1.3", "cannot exceed 1"},
+		{"SE zero", "0.41, SE 0", "positive"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := ParseReported(tt.in)
+			if err == nil || !errors.Is(err, ErrReported) || !strings.Contains(err.Error(), tt.want) {
+				t.Errorf("ParseReported(%q) error = %v, want ErrReported saying %q", tt.in, err, tt.want)
+			}
+		})
+	}
+}
+
+func mustReported(t *testing.T, s string) Reported {
+	t.Helper()
+	r, err := ParseReported(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// TestCompareReportedPublished runs published worked examples through the
+// check pipeline.
+func TestCompareReportedPublished(t *testing.T) {
+	tests := []struct {
+		name                string
+		c                   Comparison
+		wantD, wantSE, tolD float64
+		wantCI              [2]float64
+		tolCI               float64
+		wantP, tolP         float64
+		wantSE1, tolSE1     float64
+		wantMethod, outcome string
+	}{
+		// Altman & Bland (2003) BMJ 326:219, HRT and fractures (PUBLISHED-VALUES.md
+		// §2.1): d −0.2726, SE 0.2206 (SECONDARY); P 0.2165 and ratio CI 0.494 to
+		// 1.173, i.e. log −0.7052 to 0.1596 (DERIVED).
+		{name: "Altman Bland 2003",
+			c: Comparison{First: mustReported(t, "0.67 (0.46 to 0.98)"), Second: mustReported(t, "0.88 (0.71 to 1.08)"),
+				Relation: Independent, Measure: extract.MeasureRR, Published: extract.PublishedNoDifference},
+			wantD: -0.2726, wantSE: 0.2206, tolD: 1e-4, wantCI: [2]float64{-0.7052, 0.1596}, tolCI: 2e-3,
+			wantP: 0.2165, tolP: 1e-3, wantSE1: 0.1929, tolSE1: 1e-4, wantMethod: "independent-z", outcome: Consistent},
+		// Woodward (2019) Heart 105:1701, Table 4 (VERIFIED in PUBLISHED-VALUES.md
+		// §2.2): women RR 2.15 (1.33 to 3.47), SE 0.244637 from the mean of the two
+		// half-widths; men ln RR 0.746688 (printed here as the ratio 2.10997), SE
+		// 0.324736; ln RRR 0.01878, variance 0.165301 (SE 0.406572), CI −0.778101
+		// to 0.815661. The interval includes no difference.
+		{name: "Woodward 2019 Table 4",
+			c: Comparison{First: mustReported(t, "2.15 (1.33 to 3.47)"), Second: mustReported(t, "2.10997, SE 0.324736"),
+				Relation: Independent, Measure: extract.MeasureRR, Published: extract.PublishedNoDifference},
+			wantD: 0.01878, wantSE: 0.406572, tolD: 2e-5, wantCI: [2]float64{-0.778101, 0.815661}, tolCI: 2e-4,
+			wantP: math.NaN(), wantSE1: 0.244637, tolSE1: 1e-5, wantMethod: "independent-z", outcome: Consistent},
+		// Altman & Bland (2011) BMJ 343:d2090, zinc trial: 17 points, P = 0.032;
+		// the exact normal quantile is z = 2.1444 (PUBLISHED-VALUES.md §1.1,
+		// DERIVED), so SE = 17/2.1444 = 7.9276 (the note's approximation gives
+		// 7.940).
+		{name: "Altman Bland 2011 SE from p",
+			c: Comparison{First: mustReported(t, "17, p = 0.032"), Second: mustReported(t, "0.0, SE 0.001"),
+				Relation: Independent, Published: extract.PublishedDiffer},
+			wantD: 17, wantSE: 7.9276, tolD: 1e-3, wantCI: [2]float64{math.NaN(), math.NaN()}, wantP: 0.032, tolP: 2e-4,
+			wantSE1: 7.9276, tolSE1: 1e-3, wantMethod: "independent-z", outcome: Consistent},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			rep, err := CompareReported(tt.c, DefaultOptions)
+			if err != nil {
+				t.Fatalf("CompareReported: %v", err)
+			}
+			if len(rep.Claims) != 1 {
+				t.Fatalf("CompareReported gave %d claims, want 1", len(rep.Claims))
+			}
+			r := rep.Claims[0]
+			if r.Method != tt.wantMethod || r.Outcome != tt.outcome || r.Relation != tt.c.Relation {
+				t.Errorf("CompareReported() = %s/%s/%s, want %s/%s/%s", r.Method, r.Outcome, r.Relation, tt.wantMethod, tt.outcome, tt.c.Relation)
+			}
+			near := func(what string, got Number, want, tol float64) {
+				t.Helper()
+				if !math.IsNaN(want) && math.Abs(float64(got)-want) > tol {
+					t.Errorf("CompareReported() %s = %.6g, want %.6g ± %g", what, float64(got), want, tol)
+				}
+			}
+			near("difference", r.Difference, tt.wantD, tt.tolD)
+			near("difference SE", r.DifferenceSE, tt.wantSE, tt.tolD*10)
+			near("CI low", r.DifferenceCI[0], tt.wantCI[0], tt.tolCI)
+			near("CI high", r.DifferenceCI[1], tt.wantCI[1], tt.tolCI)
+			near("p", r.P, tt.wantP, tt.tolP)
+			near("first SE", r.First.SE, tt.wantSE1, tt.tolSE1)
+		})
+	}
+}
+
+// TestCompareReportedDependent checks the designs with one sample.
+func TestCompareReportedDependent(t *testing.T) {
+	first, second := mustReported(t, "0.41, SE 0.05"), mustReported(t, "0.18, SE 0.06")
+	rho, err := ParseCorrelation("0.35")
+	if err != nil {
+		t.Fatal(err)
+	}
+	df, _ := extract.ParseCount("120")
+	tests := []struct {
+		name       string
+		c          Comparison
+		wantMethod string
+		wantSE     float64
+	}{
+		// Var(b1 − b2) = SE1² + SE2² − 2ρ·SE1·SE2 = 0.0025 + 0.0036 − 2·0.35·0.003
+		// = 0.004, SE 0.0632456 (the variance of a difference; derived).
+		{"same model, printed correlation", Comparison{First: first, Second: second, Relation: SameModel, EstimateCorr: rho},
+			"z-with-estimate-corr", 0.0632456},
+		{"same model, correlation and df", Comparison{First: first, Second: second, Relation: SameModel, EstimateCorr: rho, DF: df},
+			"t-with-estimate-corr", 0.0632456},
+		{"same sample, nothing on the covariance", Comparison{First: first, Second: second, Relation: SameSample},
+			"admissible-range", math.NaN()},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			rep, err := CompareReported(tt.c, DefaultOptions)
+			if err != nil {
+				t.Fatal(err)
+			}
+			r := rep.Claims[0]
+			if r.Method != tt.wantMethod || r.Relation != tt.c.Relation {
+				t.Errorf("CompareReported() method %s, relation %s, want %s, %s", r.Method, r.Relation, tt.wantMethod, tt.c.Relation)
+			}
+			if !math.IsNaN(tt.wantSE) && math.Abs(float64(r.DifferenceSE)-tt.wantSE) > 1e-6 {
+				t.Errorf("CompareReported() SE = %.7g, want %.7g", float64(r.DifferenceSE), tt.wantSE)
+			}
+		})
+	}
+}
+
+func TestCompareReportedErrors(t *testing.T) {
+	first, second := mustReported(t, "0.41, SE 0.05"), mustReported(t, "0.18, SE 0.06")
+	rho := extract.Printed{Value: 0.35, Decimals: 2, Bound: extract.Exact, Text: "0.35"}
+	tooBig := extract.Printed{Value: 1.5, Decimals: 1, Bound: extract.Exact, Text: "1.5"}
+	negN := extract.Printed{Value: -3, Decimals: 0, Bound: extract.Exact, Text: "-3"}
+	tests := []struct {
+		name string
+		c    Comparison
+		want string
+	}{
+		{"relation", Comparison{First: first, Second: second, Relation: "paired"}, "relation"},
+		{"measure", Comparison{First: first, Second: second, Relation: Independent, Measure: "d"}, "measure"},
+		{"published", Comparison{First: first, Second: second, Relation: Independent, Published: "bigger"}, "published"},
+		{"alpha", Comparison{First: first, Second: second, Relation: Independent, Alpha: 1.5}, "alpha"},
+		{"correlation for independent", Comparison{First: first, Second: second, Relation: Independent, EstimateCorr: rho}, "independent estimates have none"},
+		{"correlation out of range", Comparison{First: first, Second: second, Relation: SameModel, EstimateCorr: tooBig}, "between −1 and 1"},
+		{"negative n", Comparison{First: first, Second: second, Relation: Independent, N1: negN}, "positive"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := CompareReported(tt.c, DefaultOptions)
+			if err == nil || !errors.Is(err, ErrComparison) || !strings.Contains(err.Error(), tt.want) {
+				t.Errorf("CompareReported(%s) error = %v, want ErrComparison saying %q", tt.name, err, tt.want)
+			}
+		})
+	}
+}
+
+func TestWriteComparison(t *testing.T) {
+	c := Comparison{First: mustReported(t, "0.41 [0.30, 0.52]"), Second: mustReported(t, "0.18 (0.05 to 0.31)"),
+		Relation: Independent, Published: extract.PublishedDiffer}
+	rep, err := CompareReported(c, DefaultOptions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WriteComparison(&buf, rep, c); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, want := range []string{"0.41 [0.30, 0.52]", "0.18 (0.05 to 0.31)", "independent samples", "independent-z",
+		"Verdict:", strings.ToUpper(rep.Claims[0].Outcome), "Cautions", Cautions[0]} {
+		if !strings.Contains(out, want) {
+			t.Errorf("WriteComparison() lacks %q:\n%s", want, out)
+		}
+	}
+	if m := rep.Claims[0].Methods; m != "" && !strings.Contains(out, "Methods") {
+		t.Errorf("WriteComparison() leaves out the methods paragraph:\n%s", out)
+	}
+}
