@@ -170,7 +170,7 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	r.Relation = relationOf(c1, c2)
 	r.Measure = c1.Measure
 	if c1.Measure != c2.Measure {
-		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a %q coefficient with a %q one; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
+		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
 		return r.finish(Incomplete)
 	}
 	rc1, e1 := extract.Reconstruct(*c1, a.modelSize[[3]string{c1.Study, c1.Group, c1.Model}])

@@ -54,6 +54,9 @@ func (r *ClaimResult) settle(adjust string) {
 	}
 	if r.conflict {
 		r.Outcome = Conflict
+		if dc := r.dec; dc != nil {
+			r.Notes[dc.verdictNote] = r.outcomeNote(dc.dir, dc.used)
+		}
 	}
 }
 

@@ -94,8 +94,11 @@ type decision struct {
 	e1, e2 float64
 	dr, pr infer.Range
 	how    rangeKind
-	// verdictNote is the index in Notes of the sentence giving the verdict.
+	// verdictNote is the index in Notes of the sentence giving the verdict,
+	// written for direction dir and p range used.
 	verdictNote int
+	dir         int
+	used        infer.Range
 }
 
 // classify records the test's result for the claim; decide turns it into
@@ -144,7 +147,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 		r.Recomputed = recomputedVerdict(sig, dir)
 		r.Outcome = outcomeAt(r.Published, sig, dir)
 	}
-	dc.verdictNote = len(r.Notes)
+	dc.verdictNote, dc.dir, dc.used = len(r.Notes), dir, pr
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
 	if len(seen) > 1 && seen[Consistent] {
 		r.Outcome = Indeterminate
@@ -174,6 +177,8 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 		return fmt.Sprintf("The paper says the %s estimate is the larger, but the estimates point the other way: %s.", larger(r.Published), test)
 	case Indeterminate:
 		return "The verdict cannot be decided: " + test + "."
+	case Conflict:
+		return "Taking the printed numbers at face value, " + test + "; but they contradict each other, so the verdict cannot be checked as printed."
 	}
 	return test + "."
 }
