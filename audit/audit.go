@@ -55,11 +55,7 @@ func Audit(in *extract.Input, opts Options) *Report {
 	for _, cl := range in.Claims {
 		rep.Claims = append(rep.Claims, a.claim(cl))
 	}
-	adjustWithinStudies(rep.Claims)
-	for i := range rep.Claims {
-		rep.Claims[i].settle(opts.Adjust)
-		rep.Claims[i].Methods = methodsText(&rep.Claims[i])
-	}
+	finishClaims(rep.Claims, opts, true)
 	rep.Problems = collectProblems(in)
 	rep.Problems = append(rep.Problems, tableProblems(in)...)
 	for i := range in.Coefficients {
@@ -67,6 +63,19 @@ func Audit(in *extract.Input, opts Options) *Report {
 	}
 	rep.Summary = summarize(rep.Claims)
 	return rep
+}
+
+// finishClaims adjusts the claims' p within each study, decides their
+// outcomes and, when asked, writes their methods paragraphs (which the CSV
+// and JSON reports do not carry).
+func finishClaims(claims []ClaimResult, opts Options, methods bool) {
+	adjustWithinStudies(claims)
+	for i := range claims {
+		claims[i].settle(opts.Adjust)
+		if methods {
+			claims[i].Methods = methodsText(&claims[i])
+		}
+	}
 }
 
 func newAuditor(in *extract.Input, opts Options) *auditor {

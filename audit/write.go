@@ -144,33 +144,39 @@ func WriteCSV(w io.Writer, rep *Report) error {
 	if err := cw.Write(header); err != nil {
 		return err
 	}
-	for _, c := range rep.Claims {
-		op, oip := nan, nan
-		if c.Overlap != nil {
-			op, oip = c.Overlap.Proportion, c.Overlap.ImpliedP
-		}
-		rec := []string{strconv.Itoa(c.Row), safeText(c.Study), safeText(c.Claim),
-			safeText(c.First.Label), num(c.First.Estimate), num(c.First.SE), safeText(c.First.SEFrom),
-			safeText(c.Second.Label), num(c.Second.Estimate), num(c.Second.SE), safeText(c.Second.SEFrom),
-			c.Relation, c.Method, c.Scale, num(c.Difference), num(c.DifferenceSE), num(c.DifferenceCI[0]),
-			num(c.DifferenceCI[1]), num(c.Statistic), num(c.DF), num(c.P), num(c.PRange[0]), num(c.PRange[1]),
-			strconv.FormatFloat(c.Alpha, 'g', -1, 64), c.Basis, c.Published, c.Recomputed, c.Outcome,
-			num(op), num(oip), safeText(strings.Join(c.Notes, " | "))}
-		for _, name := range extra {
-			v := ""
-			for i, n := range c.ExtraNames {
-				if n == name {
-					v = c.ExtraValues[i]
-				}
-			}
-			rec = append(rec, safeText(v))
-		}
-		if err := cw.Write(rec); err != nil {
+	for i := range rep.Claims {
+		if err := cw.Write(csvRecord(&rep.Claims[i], extra)); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvRecord is one claim's CSV row, with the claims row's own unknown
+// columns named in extra after the result columns.
+func csvRecord(c *ClaimResult, extra []string) []string {
+	op, oip := nan, nan
+	if c.Overlap != nil {
+		op, oip = c.Overlap.Proportion, c.Overlap.ImpliedP
+	}
+	rec := []string{strconv.Itoa(c.Row), safeText(c.Study), safeText(c.Claim),
+		safeText(c.First.Label), num(c.First.Estimate), num(c.First.SE), safeText(c.First.SEFrom),
+		safeText(c.Second.Label), num(c.Second.Estimate), num(c.Second.SE), safeText(c.Second.SEFrom),
+		c.Relation, c.Method, c.Scale, num(c.Difference), num(c.DifferenceSE), num(c.DifferenceCI[0]),
+		num(c.DifferenceCI[1]), num(c.Statistic), num(c.DF), num(c.P), num(c.PRange[0]), num(c.PRange[1]),
+		strconv.FormatFloat(c.Alpha, 'g', -1, 64), c.Basis, c.Published, c.Recomputed, c.Outcome,
+		num(op), num(oip), safeText(strings.Join(c.Notes, " | "))}
+	for _, name := range extra {
+		v := ""
+		for i, n := range c.ExtraNames {
+			if n == name {
+				v = c.ExtraValues[i]
+			}
+		}
+		rec = append(rec, safeText(v))
+	}
+	return rec
 }
 
 // extraColumns lists the claims rows' unknown columns in first-seen order.
