@@ -61,15 +61,29 @@ func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2
 		r.Method = "t-with-estimate-corr"
 	}
 	r.setDifference(d)
-	// A safe outer bound over the rounding box: Var = (s1 − s2)² + 2(1 − ρ) s1 s2.
 	rlo, rhi := rho.RoundingInterval()
 	rlo, rhi = math.Max(rlo, -1), math.Min(rhi, 1)
-	gap := seGap(rc1.SERange, rc2.SERange)
-	vLo := gap*gap + 2*(1-rhi)*rc1.SERange.Lo*rc2.SERange.Lo
-	spread := math.Max(rc1.SERange.Hi-rc2.SERange.Lo, rc2.SERange.Hi-rc1.SERange.Lo)
-	vHi := spread*spread + 2*(1-rlo)*rc1.SERange.Hi*rc2.SERange.Hi
+	s1, s2 := rc1.SERange, rc2.SERange
+	var vLo, vHi float64
+	how := rangeSafe
+	if s1.Lo > rhi*s2.Hi && s2.Lo > rhi*s1.Hi {
+		// Var = s1² + s2² − 2ρ s1 s2 rises with s1 (∂/∂s1 = 2(s1 − ρ s2) > 0)
+		// and with s2 throughout the box, and falls with ρ: its extremes are
+		// at the corners.
+		vLo = s1.Lo*s1.Lo + s2.Lo*s2.Lo - 2*rhi*s1.Lo*s2.Lo
+		vHi = s1.Hi*s1.Hi + s2.Hi*s2.Hi - 2*rlo*s1.Hi*s2.Hi
+		if rc1.SEExactRange && rc2.SEExactRange {
+			how = rangeExact
+		}
+	} else {
+		// Otherwise a safe outer bound: Var = (s1 − s2)² + 2(1 − ρ) s1 s2.
+		gap := seGap(s1, s2)
+		vLo = gap*gap + 2*(1-rhi)*s1.Lo*s2.Lo
+		spread := math.Max(s1.Hi-s2.Lo, s2.Hi-s1.Lo)
+		vHi = spread*spread + 2*(1-rlo)*s1.Hi*s2.Hi
+	}
 	r.Notes = append(r.Notes, fmt.Sprintf("The two estimates' sampling correlation %s, as printed, enters the SE of the difference.", rho.Text))
-	a.finishRange(r, rc1, rc2, infer.Range{Lo: math.Sqrt(vLo), Hi: math.Sqrt(vHi)}, df, rangeSafe)
+	a.finishRange(r, rc1, rc2, infer.Range{Lo: math.Sqrt(math.Max(vLo, 0)), Hi: math.Sqrt(vHi)}, df, how)
 }
 
 // seGap is the smallest |s1 − s2| over the two SE ranges.

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"coefaudit/extract"
+	"coefaudit/infer"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
@@ -199,8 +200,16 @@ func TestEstimateCorrAndAdmissible(t *testing.T) {
 		math.Abs(float64(got.P)-0.00509) > 5e-5 || got.Outcome != Consistent {
 		t.Errorf("estimate_corr: %s SE %v p %v outcome %s", got.Method, got.DifferenceSE, got.P, got.Outcome)
 	}
-	if lo, hi := float64(got.PRange[0]), float64(got.PRange[1]); !(lo <= float64(got.P) && float64(got.P) <= hi) {
-		t.Errorf("p %v outside its range [%v, %v]", got.P, lo, hi)
+	// The range over rounding is exact here (Var rises with each SE, as
+	// 0.065 > 0.405·0.055 and 0.045 > 0.405·0.075): its ends are the corners
+	// SE₁ 0.065, SE₂ 0.045, ρ 0.405 with d 0.18, and SE₁ 0.075, SE₂ 0.055,
+	// ρ 0.395 with d 0.20 — hand computation below.
+	vLo := 0.065*0.065 + 0.045*0.045 - 2*0.405*0.065*0.045
+	vHi := 0.075*0.075 + 0.055*0.055 - 2*0.395*0.075*0.055
+	wantLo := infer.NormalTwoSidedP(0.20 / math.Sqrt(vLo))
+	wantHi := infer.NormalTwoSidedP(0.18 / math.Sqrt(vHi))
+	if relDiff(float64(got.PRange[0]), wantLo) > 1e-9 || relDiff(float64(got.PRange[1]), wantHi) > 1e-9 {
+		t.Errorf("p range %v, want [%v, %v]", got.PRange, wantLo, wantHi)
 	}
 }
 

@@ -15,7 +15,8 @@
 // statistic is monotone in each printed number and the SEs come from
 // printed SEs or intervals; as a safe outer bound (interval arithmetic on the
 // difference and its SE) when an SE was taken from the estimate's own p or
-// statistic, or from a printed sampling correlation; and, for dependent
+// statistic, or with a printed sampling correlation where the variance of
+// the difference is not monotone over the box; and, for dependent
 // correlations and regressions rebuilt from a correlation table, by
 // evaluating a grid (every rounding limit and midpoint for correlations, 256
 // corners drawn with a fixed seed for a table), which is not a proven bound.
