@@ -1,0 +1,177 @@
+package audit
+
+import (
+	"strconv"
+	"strings"
+
+	"coefaudit/extract"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// writeCoefficientsSheet writes the first of the xlsx report's input
+// sheets: the coefficients as they were read, beside the audit's sheets
+// (the correlations and correlation tables follow below).
+func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extract.Input) error {
+	var extra []string
+	seen := nameSet(coefficientInputColumns, rowResultColumns)
+	for _, c := range in.Coefficients {
+		for _, n := range c.Extra.Names {
+			if !seen[strings.ToLower(n)] {
+				seen[strings.ToLower(n)] = true
+				extra = append(extra, n)
+			}
+		}
+	}
+	names := append(append(append([]string{}, coefficientInputColumns...), extra...), rowResultColumns...)
+	widths := []float64{16, 16, 9, 14, 14, 12, 10, 10, 10, 10, 9, 9, 9, 10, 8, 8}
+	for range extra {
+		widths = append(widths, 14)
+	}
+	if err := s.columns(append(widths, 60, 11), true); err != nil {
+		return err
+	}
+	if err := s.header(st, names, len(coefficientInputColumns)+len(extra)); err != nil {
+		return err
+	}
+	probs := problemsByRow(rep)
+	for i := range in.Coefficients {
+		c := &in.Coefficients[i]
+		level := ""
+		if c.CILevel > 0 && (c.CI.Low.Present() || c.CI.High.Present()) {
+			level = strconv.FormatFloat(c.CILevel, 'g', -1, 64)
+		}
+		row := []any{st.textCell(c.Study), st.textCell(c.Label), st.textCell(c.Measure), st.textCell(c.Outcome),
+			st.textCell(c.Predictor), st.textCell(c.Group), st.textCell(c.Model), st.textCell(c.Estimate.Text),
+			st.textCell(c.CI.Low.Text), st.textCell(c.CI.High.Text), st.textCell(level), st.textCell(c.SE.Text),
+			st.textCell(c.Stat.Text), st.textCell(c.P.Text), st.textCell(c.DF.Text), st.textCell(c.N.Text)}
+		row = append(row, extraCells(st, c.Extra.Names, c.Extra.Values, extra)...)
+		row = append(row, st.textCell(rowProblems(probs, c.Position)), excelize.Cell{StyleID: st.count, Value: c.Row})
+		if err := s.add(row...); err != nil {
+			return err
+		}
+	}
+	return s.filter(len(names))
+}
+
+func writeCorrelationsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extract.Input) error {
+	names := []string{"study", "group", "var_a", "var_b", "r", "n", "sd", "mean", "problems", "source_row"}
+	if err := s.columns([]float64{16, 12, 16, 16, 9, 8, 9, 9, 60, 11}, true); err != nil {
+		return err
+	}
+	if err := s.header(st, names, 8); err != nil {
+		return err
+	}
+	probs := problemsByRow(rep)
+	for _, c := range in.Correlations {
+		if err := s.add(st.textCell(c.Study), st.textCell(c.Group), st.textCell(c.VarA), st.textCell(c.VarB),
+			st.textCell(c.R.Text), st.textCell(c.N.Text), st.textCell(c.SD.Text), st.textCell(c.Mean.Text),
+			st.textCell(rowProblems(probs, c.Position)), excelize.Cell{StyleID: st.count, Value: c.Row}); err != nil {
+			return err
+		}
+	}
+	return s.filter(len(names))
+}
+
+// writeTableSheet lays a correlation table out as the reader takes it: key
+// rows, a header naming the variables, the lower triangle, then its
+// problems as notes below a blank row (the reader stops at the blank row).
+func writeTableSheet(s *xlsxSheet, st *xlsxStyles, t *extract.CorrelationTable) error {
+	widths := []float64{22}
+	for range t.Variables {
+		widths = append(widths, 10)
+	}
+	if err := s.columns(append(widths, 9, 9, 9), false); err != nil {
+		return err
+	}
+	if err := s.add(excelize.Cell{StyleID: st.label, Value: "study"}, st.textCell(t.Study)); err != nil {
+		return err
+	}
+	if t.Group != "" {
+		if err := s.add(excelize.Cell{StyleID: st.label, Value: "group"}, st.textCell(t.Group)); err != nil {
+			return err
+		}
+	}
+	stats := []struct {
+		name string
+		vals []extract.Printed
+	}{{"n", t.N}, {"mean", t.Mean}, {"sd", t.SD}}
+	head := []any{excelize.Cell{StyleID: st.header, Value: "variable"}}
+	var shown []int
+	for k, sv := range stats {
+		for _, p := range sv.vals {
+			if p.Present() {
+				shown = append(shown, k)
+				head = append(head, excelize.Cell{StyleID: st.header, Value: sv.name})
+				break
+			}
+		}
+	}
+	for _, v := range t.Variables {
+		head = append(head, excelize.Cell{StyleID: st.header, Value: v})
+	}
+	if err := s.add(head...); err != nil {
+		return err
+	}
+	for i, v := range t.Variables {
+		row := []any{excelize.Cell{StyleID: st.label, Value: v}}
+		for _, k := range shown {
+			var cell any
+			if i < len(stats[k].vals) {
+				cell = st.textCell(stats[k].vals[i].Text)
+			}
+			row = append(row, cell)
+		}
+		for j := range t.Variables {
+			switch {
+			case j == i:
+				row = append(row, st.textCell("—"))
+			case j < i && i < len(t.R) && j < len(t.R[i]):
+				row = append(row, st.textCell(t.R[i][j].Text))
+			default:
+				row = append(row, nil)
+			}
+		}
+		if err := s.add(row...); err != nil {
+			return err
+		}
+	}
+	if len(t.Problems) > 0 {
+		if err := s.add(); err != nil {
+			return err
+		}
+		for _, p := range t.Problems {
+			if err := s.add(excelize.Cell{StyleID: st.note, Value: "Note: " + p.Error()}); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// tableSheetName makes a valid, unused sheet name for a correlation table:
+// "table " and the table's name, without the characters a sheet name may
+// not hold, cut to Excel's 31 characters.
+func tableSheetName(name string, used map[string]bool) string {
+	clean := strings.Map(func(r rune) rune {
+		if strings.ContainsRune(`[]:*?/\`, r) {
+			return '_'
+		}
+		return r
+	}, name)
+	base := []rune("table " + clean)
+	if len(base) > 31 {
+		base = base[:31]
+	}
+	cand := strings.TrimRight(string(base), "' ")
+	for k := 2; used[strings.ToLower(cand)]; k++ {
+		suffix := " " + strconv.Itoa(k)
+		b := base
+		if len(b)+len(suffix) > 31 {
+			b = b[:31-len(suffix)]
+		}
+		cand = string(b) + suffix
+	}
+	used[strings.ToLower(cand)] = true
+	return cand
+}
