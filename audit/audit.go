@@ -3,6 +3,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"coefaudit/extract"
@@ -169,7 +170,7 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	bad := false
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range c.Problems {
-			r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s (%s row %d) has a problem: %s.", c.Label, c.Sheet, c.Row, cellMessage(p)))
+			r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s (%s) has a problem: %s.", c.Label, extract.Position{File: baseName(c.File), Sheet: c.Sheet, Row: c.Row}, cellMessage(p)))
 			bad = true
 		}
 	}
@@ -209,7 +210,7 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range a.conflicts[c] {
-			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s row %d, column %q): %s.", p.Sheet, p.Row, p.Column, p.Message))
+			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s): %s.", extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}, p.Message))
 		}
 	}
 
@@ -332,6 +333,15 @@ func cellMessage(e *extract.CellError) string {
 		return fmt.Sprintf("column %q: %v", e.Column, e.Err)
 	}
 	return e.Err.Error()
+}
+
+// baseName is a file's name without its folder, for notes: the reader
+// knows which input it gave, and a temporary folder says nothing.
+func baseName(path string) string {
+	if path == "" {
+		return ""
+	}
+	return filepath.Base(path)
 }
 
 func capitalize(s string) string {

@@ -1,6 +1,7 @@
 package extract
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -91,6 +92,11 @@ type columns struct {
 func newColumns(row *sheetRow, pos Position, known map[string]bool) *columns {
 	pos.Row = row.Row
 	c := &columns{pos: pos, index: make(map[string]int), width: len(row.Cells)}
+	if row.Problem != nil {
+		// A header the reader had trouble with (a stray quote, too many
+		// columns) is a problem of the sheet: no data row would show it.
+		c.problems = append(c.problems, &CellError{Position: pos, Err: fmt.Errorf("the header row: %w", row.Problem)})
+	}
 	c.names = make([]string, len(row.Cells))
 	for i, cell := range row.Cells {
 		name := trimSpace(cell.shown())
@@ -150,7 +156,12 @@ func (r *rowReading) start(cols *columns, row *sheetRow, pos Position) {
 	pos.Row = row.Row
 	r.pos, r.cols, r.cells, r.problems = pos, cols, row.Cells, nil
 	if row.Problem != nil {
-		r.problems = append(r.problems, &CellError{Position: pos, Err: row.Problem})
+		var fe *fieldError
+		if errors.As(row.Problem, &fe) {
+			r.fail(fe.field, row.Problem)
+		} else {
+			r.problems = append(r.problems, &CellError{Position: pos, Err: row.Problem})
+		}
 	}
 	if row.Fields > 0 && row.Fields != cols.width {
 		r.problems = append(r.problems, &CellError{Position: pos,

@@ -19,10 +19,19 @@ import (
 // ErrInputTooLarge, since nothing after it can be trusted to line up. The
 // reader never holds more than about MaxRecordBytes of a file at once. The
 // sizes are far above any table a paper prints (common practice, no source).
+//
+// MaxColumns bounds the width of a row, in a CSV file and in a workbook:
+// the row gets a problem and the cells beyond it are dropped (in a
+// workbook, a row with a value beyond it is not read at all, since excelize
+// would build its whole width first). A header beyond it is a problem of
+// the sheet. It keeps what one row costs downstream (its unknown columns, a
+// raw-data row's missing values) within what a person could read, whatever
+// the header holds (common practice, no source).
 const (
 	MaxFieldBytes  = 1 << 20
 	MaxLineBytes   = 4 << 20
 	MaxRecordBytes = 16 << 20
+	MaxColumns     = 1024
 )
 
 // csvBufferSize is the read-ahead of the CSV reader, the slack of the
@@ -81,6 +90,56 @@ func (l *limitReader) Read(p []byte) (int, error) {
 	return n, err
 }
 
+// lineEndReader turns every line end into \n: \r\n and a lone \r (the line
+// end of old Mac files, which encoding/csv would keep inside a field and so
+// merge lines into one record). A \r inside a quoted field becomes \n too.
+type lineEndReader struct {
+	r      io.Reader
+	skipLF bool // the last byte delivered was a \r turned into \n
+}
+
+func (l *lineEndReader) Read(p []byte) (int, error) {
+	for {
+		n, err := l.r.Read(p)
+		if n == 0 {
+			return 0, err
+		}
+		if l.skipLF && p[0] != '\n' {
+			l.skipLF = false
+		}
+		if !l.skipLF && bytes.IndexByte(p[:n], '\r') < 0 {
+			return n, err
+		}
+		w := 0
+		for _, b := range p[:n] {
+			switch {
+			case b == '\n' && l.skipLF:
+				l.skipLF = false
+				continue
+			case b == '\r':
+				b, l.skipLF = '\n', true
+			default:
+				l.skipLF = false
+			}
+			p[w] = b
+			w++
+		}
+		if w > 0 || err != nil {
+			return w, err
+		}
+	}
+}
+
+// fieldError is a problem of a row that one of its fields causes; field is
+// 0-based, so that the sheet readers can name the column.
+type fieldError struct {
+	field int
+	err   error
+}
+
+func (e *fieldError) Error() string { return e.err.Error() }
+func (e *fieldError) Unwrap() error { return e.err }
+
 // csvSource streams the rows of one CSV file.
 type csvSource struct {
 	file     string
@@ -91,12 +150,14 @@ type csvSource struct {
 }
 
 // newCSVSource prepares a CSV stream: a UTF-8 byte order mark is dropped, a
-// UTF-16 file is refused, CRLF line ends are read as LF, and the delimiter
-// is the one of comma, semicolon or tab that the header line uses most (a
-// semicolon for the CSV that spreadsheets write where the decimal mark is a
-// comma). Quotes are strict and rows may be ragged.
+// UTF-16 file (with or without its byte order mark) and a file that is not
+// text are refused, CRLF and lone CR line ends are read as LF, and the
+// delimiter is the one of comma, semicolon or tab that the first line with
+// any content uses most (a semicolon for the CSV that spreadsheets write
+// where the decimal mark is a comma). Quotes are strict and rows may be
+// ragged.
 func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error) {
-	lim := &limitReader{r: r, line: 1}
+	lim := &limitReader{r: &lineEndReader{r: r}, line: 1}
 	br := bufio.NewReaderSize(lim, csvBufferSize)
 	head, err := br.Peek(csvBufferSize)
 	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
@@ -113,6 +174,9 @@ func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error
 		_, _ = br.Discard(3)
 		head = head[3:]
 	}
+	if why := notText(head); why != "" {
+		return nil, fmt.Errorf("%s %s; save it as CSV UTF-8: %w", file, why, ErrUnsupportedInput)
+	}
 	cr := csv.NewReader(br)
 	cr.Comma = sniffDelimiter(head)
 	cr.FieldsPerRecord = -1
@@ -121,10 +185,50 @@ func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error
 	return &csvSource{file: file, lim: lim, r: cr, closer: closer}, nil
 }
 
-// sniffDelimiter picks the delimiter of the first line.
+// notText says why the first bytes of a file are not text, or returns "".
+// Text in any 8-bit encoding or in UTF-8 has no NUL and almost no other
+// control bytes; UTF-16 text of Latin letters and digits has a NUL in every
+// other byte, and random binary data a control byte in about one byte of
+// nine. Over 1 in 20 is read as not text (common practice, no source).
+func notText(head []byte) string {
+	if len(head) > 4096 {
+		head = head[:4096]
+	}
+	var nul [2]int
+	control := 0
+	for i, b := range head {
+		switch {
+		case b == 0:
+			nul[i%2]++
+			control++
+		case b < ' ' && b != '\t' && b != '\n' && b != '\f' && b != '\v' && b != 0x1a:
+			control++
+		}
+	}
+	half := len(head) / 2
+	switch {
+	case len(head) >= 4 && (nul[1] >= half*9/10 || nul[0] >= half*9/10):
+		return "is UTF-16 text without a byte order mark"
+	case control > 0 && control*20 > len(head):
+		return fmt.Sprintf("is not a text file (%d of its first %d bytes are control bytes)", control, len(head))
+	}
+	return ""
+}
+
+// sniffDelimiter picks the delimiter of the first line with any content,
+// skipping lines of spaces and separators only; comma when no line has any.
 func sniffDelimiter(head []byte) rune {
-	if i := bytes.IndexByte(head, '\n'); i >= 0 {
-		head = head[:i]
+	for {
+		line, rest, found := bytes.Cut(head, []byte{'\n'})
+		if len(bytes.TrimFunc(line, func(r rune) bool { return isSpace(r) || r == ',' || r == ';' })) > 0 {
+			head = line
+			break
+		}
+		if !found {
+			head = nil
+			break
+		}
+		head = rest
 	}
 	counts := map[byte]int{}
 	quoted := false
@@ -196,10 +300,22 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 		row.Fields = 1
 	}
 	row.Cells = row.Cells[:0]
+	if len(rec) > MaxColumns {
+		if row.Problem == nil {
+			row.Problem = fmt.Errorf("the row has %d fields; only the first %d are read: %w", len(rec), MaxColumns, ErrInputTooLarge)
+		}
+		rec = rec[:MaxColumns]
+	}
 	for i, f := range rec {
-		if len(f) > MaxFieldBytes {
+		switch {
+		case len(f) > MaxFieldBytes:
 			if row.Problem == nil {
-				row.Problem = fmt.Errorf("field %d is longer than %d MiB and is read as blank: %w", i+1, MaxFieldBytes>>20, ErrInputTooLarge)
+				row.Problem = &fieldError{i, fmt.Errorf("field %d is longer than %d MiB and is read as blank: %w", i+1, MaxFieldBytes>>20, ErrInputTooLarge)}
+			}
+			f = ""
+		case strings.IndexByte(f, 0) >= 0:
+			if row.Problem == nil {
+				row.Problem = &fieldError{i, fmt.Errorf("field %d holds a NUL byte, which no text has (is the file damaged?); it is read as blank: %w", i+1, ErrUnsupportedInput)}
 			}
 			f = ""
 		}

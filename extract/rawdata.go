@@ -224,6 +224,11 @@ func readData(src rowSource, pos Position) (*DataTable, error) {
 			continue
 		}
 		if header == nil {
+			if row.Problem != nil {
+				p := pos
+				p.Row = row.Row
+				extraErrs = append(extraErrs, &CellError{Position: p, Err: fmt.Errorf("the header row: %w", row.Problem)})
+			}
 			header = make([]string, len(row.Cells))
 			seen := map[string]int{}
 			for j, c := range row.Cells {
@@ -245,7 +250,12 @@ func readData(src rowSource, pos Position) (*DataTable, error) {
 		rowPos := pos
 		rowPos.Row = row.Row
 		if row.Problem != nil {
-			extraErrs = append(extraErrs, &CellError{Position: rowPos, Err: row.Problem})
+			p := rowPos
+			var fe *fieldError
+			if errors.As(row.Problem, &fe) && fe.field < len(header) {
+				p.Column = header[fe.field]
+			}
+			extraErrs = append(extraErrs, &CellError{Position: p, Err: row.Problem})
 		}
 		for j := len(cols); j < len(row.Cells); j++ {
 			if c := row.Cells[j]; c.Numeric || trimSpace(c.Text) != "" {

@@ -18,8 +18,10 @@ import (
 //     (see PairedReader for its columns and how labels are made).
 //
 // Every record keeps its file, sheet and row. Read fails only when nothing
-// can be read: a missing file, a file that is not a workbook or a CSV, no
-// claims sheet (ErrMissingSheet), or an input beyond the size limits
+// can be read: a missing file, a file that is not a workbook or a CSV (a
+// 0-byte workbook, a UTF-16 or binary CSV, a sheet whose XML is damaged,
+// which would lose the rows after the damage: ErrUnsupportedInput), no claims
+// sheet (ErrMissingSheet), or an input beyond the size limits
 // (ErrInputTooLarge; see MaxUnzippedBytes and MaxLineBytes). Everything else
 // is a problem: of a row, in that record's Problems, or of a sheet (a
 // missing coefficients sheet, a missing column, an empty claims sheet), in

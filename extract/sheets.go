@@ -199,8 +199,15 @@ func checkSampleSize(p Printed) (Printed, error) {
 	return p, nil
 }
 
+// minCorrelationN is the smallest n of a correlation: the SE of Fisher's z,
+// 1/√(n − 3), needs n ≥ 4 [1].
+//
+//	[1] Fisher RA (1921). On the "probable error" of a coefficient of
+//	    correlation deduced from a small sample. Metron 1:3–32 (from memory).
+const minCorrelationN = 4
+
 // checkMeasureRange checks what the measure implies: a ratio and its limits
-// are positive, a correlation lies in [−1, 1].
+// are positive, a correlation lies in [−1, 1] and has n ≥ 4.
 func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
 	ciCol := cc.ci
 	if r.text(cc.ciLow) != "" {
@@ -220,6 +227,9 @@ func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
 		}
 		if c.CI.Present() && (c.CI.Low.Value < -1 || c.CI.High.Value > 1) {
 			r.fail(ciCol, fmt.Errorf("the interval of a correlation lies within [−1, 1]: %w", ErrOutOfRange))
+		}
+		if c.N.Present() && c.N.Value < minCorrelationN {
+			r.fail(cc.n, fmt.Errorf("a correlation needs n of at least %d, since the SE of Fisher's z is 1/√(n − 3) (n is %s): %w", minCorrelationN, c.N.Text, ErrOutOfRange))
 		}
 	}
 }

@@ -4,9 +4,11 @@ import (
 	"archive/zip"
 	"bytes"
 	"compress/flate"
+	"encoding/xml"
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"strconv"
 
@@ -35,6 +37,13 @@ const (
 
 // ratioFloor is the unpacked size under which the ratio is not checked.
 const ratioFloor = 1 << 20
+
+// maxSheetCells bounds the cells (blank ones within a row included) that
+// excelize is asked to return for one sheet: about a million rows of 32
+// columns. A sheet whose rows reach far to the right costs excelize the
+// whole width of every row, so a small file of rows ending in column XFD
+// would otherwise take minutes (common practice, no source).
+const maxSheetCells = 32 << 20
 
 var (
 	zipMagic = []byte("PK\x03\x04")
@@ -144,6 +153,9 @@ func openWorkbook(path string) (*workbook, error) {
 	n, _ := io.ReadFull(fh, head)
 	fh.Close()
 	head = head[:n]
+	if n == 0 {
+		return nil, fmt.Errorf("%s is empty (0 bytes), not an .xlsx workbook: %w", path, ErrUnsupportedInput)
+	}
 	if bytes.Equal(head, oleMagic) {
 		return nil, fmt.Errorf("%s is an old-format (.xls) or password-protected workbook; save it as an unprotected .xlsx: %w", path, ErrUnsupportedInput)
 	}
@@ -180,14 +192,14 @@ func (w *workbook) sheets() []string { return w.f.GetSheetList() }
 func (w *workbook) source(sheet string) (*xlsxSource, error) {
 	raw, err := w.f.Rows(sheet)
 	if err != nil {
-		return nil, fmt.Errorf("%s, sheet %q: %w", w.path, sheet, err)
+		return nil, fmt.Errorf("%s, sheet %q cannot be read (%v): %w", w.path, sheet, err, ErrUnsupportedInput)
 	}
 	disp, err := w.f.Rows(sheet)
 	if err != nil {
 		raw.Close()
-		return nil, fmt.Errorf("%s, sheet %q: %w", w.path, sheet, err)
+		return nil, fmt.Errorf("%s, sheet %q cannot be read (%v): %w", w.path, sheet, err, ErrUnsupportedInput)
 	}
-	s := &xlsxSource{raw: raw, disp: disp, file: w.path, sheet: sheet}
+	s := &xlsxSource{raw: raw, disp: disp, file: w.path, sheet: sheet, cellBudget: maxSheetCells}
 	if part, ok := w.parts[sheet]; ok {
 		s.types = newCellTypes(&w.zr.Reader, part)
 	}
@@ -201,17 +213,32 @@ type xlsxSource struct {
 	types       *cellTypes
 	file, sheet string
 	n           int
+	cells       int // the widths of the rows read so far, summed
+	cellBudget  int // the most cells read before the sheet is refused
 	rawOpts     excelize.Options
 }
 
 // Next reads the next row, blank rows included (a blank row ends a
 // correlation table). A numeric cell carries its stored value and displayed
 // text; a boolean, error or date cell its displayed text; a text cell what
-// was typed.
+// was typed. A row with content beyond MaxColumns gets a problem: when the
+// cell types are known it is not read at all, since excelize would build
+// the whole width (a row ending in column XFD costs a megabyte); otherwise
+// its first MaxColumns cells are kept. Damaged sheet XML, which excelize
+// reads as the end of the sheet, is an error, and so is a sheet whose rows
+// add up to more than maxSheetCells cells.
 func (s *xlsxSource) Next(row *sheetRow) error {
 	if !s.raw.Next() {
 		if err := s.raw.Error(); err != nil {
-			return fmt.Errorf("%s, sheet %q: %w", s.file, s.sheet, err)
+			return fmt.Errorf("%s, sheet %q cannot be read after row %d (%v): %w", s.file, s.sheet, s.n, err, ErrUnsupportedInput)
+		}
+		if s.types != nil && s.types.dec != nil {
+			s.types.row(math.MaxInt) // read to the end, to see whether the XML is whole
+			var se *xml.SyntaxError
+			if errors.As(s.types.err, &se) {
+				return fmt.Errorf("%s, sheet %q: the sheet's XML is damaged (%v), so the rows after row %d cannot be read: %w",
+					s.file, s.sheet, se, s.n, ErrUnsupportedInput)
+			}
 		}
 		return io.EOF
 	}
@@ -219,6 +246,16 @@ func (s *xlsxSource) Next(row *sheetRow) error {
 	s.n++
 	row.Row, row.Fields, row.Problem = s.n, 0, nil
 	row.Cells = row.Cells[:0]
+	var kinds []byte
+	known := s.types != nil && s.types.err == nil
+	if known {
+		kinds = s.types.row(s.n)
+		if w := s.types.valueWidth(s.n); w > MaxColumns {
+			last, _ := excelize.ColumnNumberToName(w)
+			row.Problem = fmt.Errorf("the row has a value in column %s, beyond the first %d columns that are read; the row is not read: %w", last, MaxColumns, ErrInputTooLarge)
+			return nil
+		}
+	}
 	s.rawOpts.RawCellValue = true
 	rawCols, err := s.raw.Columns(s.rawOpts)
 	if err != nil {
@@ -228,12 +265,19 @@ func (s *xlsxSource) Next(row *sheetRow) error {
 	if err != nil && row.Problem == nil {
 		row.Problem = fmt.Errorf("the row cannot be read (%v)", err)
 	}
-	var kinds []byte
-	known := s.types != nil && s.types.err == nil
-	if known {
-		kinds = s.types.row(s.n)
-	}
 	width := max(len(rawCols), len(dispCols))
+	s.cells += width
+	if s.cells > s.cellBudget {
+		return &CellError{Position: Position{File: s.file, Sheet: s.sheet, Row: s.n},
+			Err: fmt.Errorf("the sheet holds more than %d cells up to this row; its rows reach too far to the right or are too many: %w", s.cellBudget, ErrInputTooLarge)}
+	}
+	if width > MaxColumns {
+		if row.Problem == nil {
+			last, _ := excelize.ColumnNumberToName(width)
+			row.Problem = fmt.Errorf("the row has cells up to column %s; only the first %d columns are read: %w", last, MaxColumns, ErrInputTooLarge)
+		}
+		width = MaxColumns
+	}
 	for i := 0; i < width; i++ {
 		raw, disp := "", ""
 		if i < len(rawCols) {

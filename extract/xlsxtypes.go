@@ -29,6 +29,7 @@ type cellTypes struct {
 	dec     *xml.Decoder
 	ahead   int    // the row number read ahead, 0 for none
 	kinds   []byte // the kinds of row ahead, by column
+	width   int    // the last column of row ahead whose cell has content
 	lastRow int
 	done    bool
 	err     error
@@ -59,9 +60,19 @@ func (t *cellTypes) row(n int) []byte {
 	return nil
 }
 
+// valueWidth returns the last column of row n (asked after row(n)) whose
+// cell has content (a value, an inline string or a formula), 0 for none:
+// the width excelize will return for the row.
+func (t *cellTypes) valueWidth(n int) int {
+	if t.ahead == n {
+		return t.width
+	}
+	return 0
+}
+
 // readRow reads the next row element.
 func (t *cellTypes) readRow() {
-	t.kinds = t.kinds[:0]
+	t.kinds, t.width = t.kinds[:0], 0
 	for {
 		tok, err := t.dec.Token()
 		if err != nil {
@@ -133,9 +144,13 @@ func (t *cellTypes) readCells() {
 				}
 				t.kinds[col-1] = kind
 			}
-			if err := t.dec.Skip(); err != nil {
+			content, err := skipCell(t.dec)
+			if err != nil {
 				t.err, t.done = err, true
 				return
+			}
+			if content {
+				t.width = max(t.width, col)
 			}
 		case xml.EndElement:
 			if el.Name.Local == "row" {
@@ -143,6 +158,27 @@ func (t *cellTypes) readCells() {
 			}
 		}
 	}
+}
+
+// skipCell skips the rest of a c element and reports whether it had a
+// child element (v, is or f), which is what makes excelize return it; a
+// cell with a style and nothing else does not widen the row.
+func skipCell(dec *xml.Decoder) (bool, error) {
+	content := false
+	for depth := 1; depth > 0; {
+		tok, err := dec.Token()
+		if err != nil {
+			return content, err
+		}
+		switch tok.(type) {
+		case xml.StartElement:
+			depth++
+			content = true
+		case xml.EndElement:
+			depth--
+		}
+	}
+	return content, nil
 }
 
 // Close closes the stream.
