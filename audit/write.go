@@ -116,7 +116,11 @@ func pRangeCell(r [2]Number) string {
 	if !r[0].Known() || !r[1].Known() {
 		return "-"
 	}
-	return formatP(float64(r[0])) + "–" + formatP(float64(r[1]))
+	lo, hi := formatP(float64(r[0])), formatP(float64(r[1]))
+	if lo == hi {
+		return lo
+	}
+	return lo + "–" + hi
 }
 
 // WriteJSON writes the report in the JSON form of the output contract.
