@@ -30,22 +30,6 @@ var injectionTexts = []string{
 	"\r=1+1",
 }
 
-// reportPrinted is a number as printed, for these tests: "" is blank.
-func reportPrinted(s string) extract.Printed {
-	if s == "" {
-		return extract.Printed{}
-	}
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		panic(err)
-	}
-	dec := 0
-	if i := strings.IndexByte(s, '.'); i >= 0 {
-		dec = len(s) - i - 1
-	}
-	return extract.Printed{Value: v, Decimals: dec, Bound: extract.Exact, Text: s}
-}
-
 // reportInput is an invented input: one study per injection text, each with
 // two independent coefficients and one claim whose study, claim id, first
 // label and extra column carry the text. The second estimates vary so
@@ -63,7 +47,7 @@ func reportInput() *extract.Input {
 			in.Coefficients = append(in.Coefficients, extract.Coefficient{
 				Position: extract.Position{Sheet: "coefficients", Row: row + i},
 				Study:    text, Label: label, Measure: extract.MeasureB, Group: []string{"women", "men"}[i], Model: "m",
-				Estimate: reportPrinted(est), SE: reportPrinted(strconv.FormatFloat(se, 'f', 2, 64)), CILevel: 95,
+				Estimate: printed(est), SE: printed(strconv.FormatFloat(se, 'f', 2, 64)), CILevel: 95,
 				Extra: extract.Extra{Names: []string{"comment"}, Values: []string{text}},
 			})
 		}
