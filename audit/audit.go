@@ -32,8 +32,6 @@ type coefKey struct{ study, label string }
 
 // auditor holds what every claim's audit looks up.
 type auditor struct {
-	in         *extract.Input
-	opts       Options
 	coef       map[coefKey]*extract.Coefficient
 	duplicated map[coefKey]bool
 	modelSize  map[[3]string]int
@@ -50,7 +48,7 @@ type auditor struct {
 // of the input. It never fails: a claim that cannot be tested gets the
 // outcome incomplete with notes saying why.
 func Audit(in *extract.Input, opts Options) *Report {
-	a := newAuditor(in, opts)
+	a := newAuditor(in)
 	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions,
 		Claims: make([]ClaimResult, 0, len(in.Claims))}
 	for _, cl := range in.Claims {
@@ -79,8 +77,8 @@ func finishClaims(claims []ClaimResult, opts Options, methods bool) {
 	}
 }
 
-func newAuditor(in *extract.Input, opts Options) *auditor {
-	a := &auditor{in: in, opts: opts, coef: map[coefKey]*extract.Coefficient{},
+func newAuditor(in *extract.Input) *auditor {
+	a := &auditor{coef: map[coefKey]*extract.Coefficient{},
 		duplicated: map[coefKey]bool{}, modelSize: map[[3]string]int{},
 		conflicts: map[*extract.Coefficient][]Problem{}, corr: correlationSources(in),
 		modelPredictors: map[modelKey][]string{}}
