@@ -4,10 +4,10 @@
 //
 // It provides accurate distribution tails (distributions.go), standard errors
 // reconstructed from what a paper printed (standarderror.go), the test of the
-// difference between two independent estimates (difference.go), the
-// confidence-interval overlap rule of Cumming & Finch (overlap.go), the range
-// of p over every admissible correlation of two estimates (admissible.go) and
-// multiplicity adjustments (multiplicity.go). Comparisons of correlations,
+// difference between two estimates, independent or correlated, with the
+// range of p over rounding and over every admissible correlation of the two
+// (difference.go), the confidence-interval overlap rule of Cumming & Finch
+// (overlap.go) and multiplicity adjustments (multiplicity.go). Comparisons of correlations,
 // regression from summary statistics, the bootstrap and meta-analysis live in
 // the subpackages correlation, regress, bootstrap and meta.
 //
