@@ -89,6 +89,9 @@ func (p Printed) RoundingInterval() (lo, hi float64) {
 // Interval is a confidence interval as printed, both limits kept as printed.
 type Interval struct {
 	Low, High Printed
+	// OneCell is true when the interval was printed in one cell (the ci
+	// column) rather than as ci_low and ci_high.
+	OneCell bool
 }
 
 // Present reports whether both limits were printed.

@@ -202,7 +202,11 @@ func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, 
 	}
 	rc.SE = (hi - lo) / (2 * crit)
 	rc.SERange = infer.Range{Lo: math.Max(hiR.Lo-loR.Hi, 1e-3*(hi-lo)) / (2 * crit), Hi: (hiR.Hi - loR.Lo) / (2 * crit)}
-	rc.SEFrom = fmt.Sprintf("ci_low, ci_high (%s)", tName)
+	from := "ci_low, ci_high"
+	if c.CI.OneCell {
+		from = "ci"
+	}
+	rc.SEFrom = fmt.Sprintf("%s (%s)", from, tName)
 	rc.SEExactRange = true
 	// An asymmetric interval is no error (bootstrap and profile intervals are
 	// asymmetric): the range always covers the SE read from either half, and
@@ -218,7 +222,7 @@ func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, 
 		if rc.Scale != ScaleAsPrinted {
 			scale = " on the " + rc.Scale + " scale"
 		}
-		rc.SEFrom = fmt.Sprintf("ci_low, ci_high, mean of the two half-widths (%s)", tName)
+		rc.SEFrom = fmt.Sprintf("%s, mean of the two half-widths (%s)", from, tName)
 		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: asymmetric interval%s (SE %.4g from the lower half, %.4g from the upper); the SE is their mean and the p range covers both",
 			c.Label, scale, seLo, seHi))
 	}

@@ -41,12 +41,12 @@ func TestReconstructSources(t *testing.T) {
 		// 0.244637" (computed there with 1.96; we use 1.959964). The two halves differ by
 		// less than the rounding of 2.15 and 1.33 explains, so no asymmetry is noted.
 		{"Woodward 2019 ratio interval",
-			Coefficient{Label: "women", Measure: MeasureRR, Estimate: num("2.15"), CI: Interval{num("1.33"), num("3.47")}},
+			Coefficient{Label: "women", Measure: MeasureRR, Estimate: num("2.15"), CI: Interval{Low: num("1.33"), High: num("3.47")}},
 			0, 0.244637, 3e-5, "ci_low, ci_high (normal)", ScaleLog, math.NaN(), ""},
 		// Constructed: 0.30 (0.05, 0.45) has halves 0.25 and 0.15, beyond any rounding;
 		// the SE is the mean, 0.40/3.919928.
 		{"asymmetric interval",
-			Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{num("0.05"), num("0.45")}},
+			Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}},
 			0, 0.40 / 3.919928, 1e-6, "ci_low, ci_high, mean of the two half-widths (normal)", ScaleAsPrinted, math.NaN(), "asymmetric"},
 		// Altman & Bland (2011) BMJ 343:d2090: "P=0.032", Est 17, SE 7.940 via the note's
 		// polynomial; the exact normal quantile gives 17/2.1444 (PUBLISHED-VALUES §1.1).
@@ -62,12 +62,16 @@ func TestReconstructSources(t *testing.T) {
 		// the t interval DERIVED in PUBLISHED-VALUES §1.4 gives back the SE when df is derived
 		// from n = 16 and the 6 listed coefficients of the model.
 		{"Longley df from n and model size",
-			Coefficient{Label: "B6", Measure: MeasureB, Estimate: num("1829.15146461355"), CI: Interval{num("798.7875153"), num("2859.515414")}, N: num("16")},
+			Coefficient{Label: "B6", Measure: MeasureB, Estimate: num("1829.15146461355"), CI: Interval{Low: num("798.7875153"), High: num("2859.515414")}, N: num("16")},
 			6, 455.478499142212, 1e-8, "ci_low, ci_high (t, df 9)", ScaleAsPrinted, 9, "n − k − 1"},
 		// Fisher (1921): the SE of atanh(r) is 1/√(n − 3): n = 103 gives 0.1.
 		{"correlation on the Fisher z scale",
 			Coefficient{Label: "r", Measure: MeasureR, Estimate: num("0.40"), N: num("103")},
 			0, 0.1, 1e-15, "n (Fisher z)", ScaleFisherZ, math.NaN(), ""},
+		// The same interval printed in one ci cell names that cell.
+		{"interval in one cell",
+			Coefficient{Label: "b", Measure: MeasureB, Estimate: num("0.42"), CI: Interval{Low: num("0.30"), High: num("0.54"), OneCell: true}},
+			0, 0.24 / 3.919928, 1e-6, "ci (normal)", ScaleAsPrinted, math.NaN(), ""},
 		{"printed SE",
 			Coefficient{Label: "b", Measure: MeasureB, Estimate: num("0.31"), SE: num("0.07")},
 			0, 0.07, 0, "se", ScaleAsPrinted, math.NaN(), ""},
@@ -111,7 +115,7 @@ func TestReconstructRoundingRanges(t *testing.T) {
 	// [0.25, 0.35] and [0.65, 0.75], so the width lies in [0.30, 0.50] and the SE in
 	// [0.30, 0.50]/3.919928 = [0.07653, 0.12755]; the estimate in [0.45, 0.55]. The
 	// half-widths at the printed values (0.2/1.96 each) lie inside.
-	c := Coefficient{Label: "x", Measure: MeasureBeta, Estimate: num("0.5"), CI: Interval{num("0.3"), num("0.7")}, CILevel: 95}
+	c := Coefficient{Label: "x", Measure: MeasureBeta, Estimate: num("0.5"), CI: Interval{Low: num("0.3"), High: num("0.7")}, CILevel: 95}
 	rc, err := Reconstruct(c, 0)
 	if err != nil {
 		t.Fatal(err)
@@ -124,7 +128,7 @@ func TestReconstructRoundingRanges(t *testing.T) {
 	}
 	// The asymmetric 0.30 (0.05, 0.45): halves 0.25/1.959964 = 0.12755 and
 	// 0.15/1.959964 = 0.07653 widen the range beyond the rounding of the width.
-	c = Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{num("0.05"), num("0.45")}, CILevel: 95}
+	c = Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}, CILevel: 95}
 	rc, _ = Reconstruct(c, 0)
 	if rc.SERange.Lo > 0.15/1.959964+1e-9 || rc.SERange.Hi < 0.25/1.959964-1e-9 {
 		t.Errorf("asymmetric SE range %v does not cover both half-widths [0.07653, 0.12755]", rc.SERange)

@@ -252,6 +252,7 @@ func readInterval(r *rowReading, cc *coefficientColumns) (Interval, float64) {
 			r.fail(cc.ci, err)
 		} else {
 			iv, printedLevel = v, lv
+			iv.OneCell = true
 		}
 	}
 	low, high := r.number(cc.ciLow, kindLimit), r.number(cc.ciHigh, kindLimit)
