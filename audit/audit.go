@@ -195,8 +195,12 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	if e1 != nil || e2 != nil {
 		return r.finish(Incomplete)
 	}
+	// How each SE was taken from the printed numbers, unless the model is
+	// rebuilt from the correlation table, which then gives the SEs.
+	readNotes := len(r.Notes)
 	r.Notes = append(r.Notes, rc1.Notes...)
 	r.Notes = append(r.Notes, rc2.Notes...)
+	readEnd := len(r.Notes)
 	switch rc1.Scale {
 	case extract.ScaleAsPrinted:
 	case extract.ScaleFisherZ:
@@ -216,6 +220,13 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 		a.independent(&r, c1, c2, rc1, rc2)
 	} else {
 		a.dependent(&r, cl, c1, c2, rc1, rc2)
+		if strings.HasSuffix(r.Method, "from-correlation-table") {
+			r.Notes = append(r.Notes[:readNotes], r.Notes[readEnd:]...)
+			// The basis notes speak of the rebuilt estimates too.
+			rc1.Estimate, rc1.SE = float64(r.First.Estimate), float64(r.First.SE)
+			rc2.Estimate, rc2.SE = float64(r.Second.Estimate), float64(r.Second.SE)
+			rc1.DF, rc2.DF = float64(r.DF), float64(r.DF)
+		}
 	}
 	basisNotes(&r, cl, c1, c2, rc1, rc2)
 	if len(conflicts) > 0 {
