@@ -115,6 +115,9 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 e
 	}
 	r.Notes = append(r.Notes, fmt.Sprintf("Both estimates come from one sample (study %q, group %q) and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need %s from the authors.",
 		c1.Study, c1.Group, what))
+	if c1.Group == "" {
+		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
+	}
 	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
 }
 
