@@ -55,11 +55,7 @@ func Audit(in *extract.Input, opts Options) *Report {
 		rep.Claims = append(rep.Claims, a.claim(cl))
 	}
 	finishClaims(rep.Claims, opts, true)
-	rep.Problems = collectProblems(in)
-	rep.Problems = append(rep.Problems, tableProblems(in)...)
-	for i := range in.Coefficients {
-		rep.Problems = append(rep.Problems, a.conflicts[&in.Coefficients[i]]...)
-	}
+	rep.Problems = a.problems(in)
 	rep.Summary = summarize(rep.Claims)
 	return rep
 }
@@ -267,18 +263,12 @@ func (a *auditor) independent(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, 
 	if r.Measure == extract.MeasureR {
 		a.independentCorrelations(r, c1, c2, rc1, rc2)
 	}
-	dr := infer.Range{Lo: rc1.EstimateRange.Lo - rc2.EstimateRange.Hi, Hi: rc1.EstimateRange.Hi - rc2.EstimateRange.Lo}
 	ser := infer.Range{Lo: math.Hypot(rc1.SERange.Lo, rc2.SERange.Lo), Hi: math.Hypot(rc1.SERange.Hi, rc2.SERange.Hi)}
-	pr, err := infer.DifferencePRange(dr, ser, math.NaN())
-	if err != nil {
-		pr = infer.Point(d.P)
-	}
-	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
 	how := rangeSafe
 	if rc1.SEExactRange && rc2.SEExactRange {
 		how = rangeExact
 	}
-	r.classify(rc1.Estimate, rc2.Estimate, dr, pr, how)
+	a.finishRange(r, rc1, rc2, ser, math.NaN(), how)
 }
 
 func (r *ClaimResult) setDifference(d infer.Difference) {
@@ -304,6 +294,18 @@ func overlapOf(rc1, rc2 extract.Reconstructed, r *ClaimResult) *OverlapResult {
 		return nil
 	}
 	return &OverlapResult{Proportion: Number(o.Proportion), ImpliedP: Number(o.ImpliedP), marginRatio: o.MarginRatio}
+}
+
+// problems gathers every problem of the input: those the reader found, the
+// correlation tables no sample can have, and the coefficients whose printed
+// numbers contradict each other, in input order.
+func (a *auditor) problems(in *extract.Input) []Problem {
+	ps := collectProblems(in)
+	ps = append(ps, tableProblems(in)...)
+	for i := range in.Coefficients {
+		ps = append(ps, a.conflicts[&in.Coefficients[i]]...)
+	}
+	return ps
 }
 
 func collectProblems(in *extract.Input) []Problem {

@@ -8,8 +8,6 @@ import (
 
 	"coefaudit/extract"
 	"coefaudit/infer/regress"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // corrSource is what an input printed about the correlations of one
@@ -129,25 +127,16 @@ func tableProblems(in *extract.Input) []Problem {
 		if len(t.Problems) > 0 || len(t.R) < 2 {
 			continue
 		}
-		q := len(t.R)
-		m := mat.NewSymDense(q, nil)
 		complete := true
-		for i := 0; i < q; i++ {
-			for j := i; j < q; j++ {
-				v := t.R[i][j]
-				if i == j {
-					m.SetSym(i, i, 1)
-					continue
-				}
-				if !v.IsExact() {
-					complete = false
-				}
-				m.SetSym(i, j, v.Value)
+		for i, row := range t.R {
+			for j, v := range row {
+				complete = complete && (i == j || v.IsExact())
 			}
 		}
 		if !complete {
 			continue
 		}
+		m := (&modelTable{r: t.R}).point().r
 		var npd *regress.NotPositiveDefiniteError
 		if err := regress.CheckCorrelationMatrix(m); errors.As(err, &npd) {
 			out = append(out, Problem{Sheet: t.Sheet, Message: fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)})

@@ -105,9 +105,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 		in.Coefficients[0], in.Coefficients[1], in.Claims[0] = pc.First, pc.Second, pc.Claim
 		a := newAuditor(in)
 		block = append(block, a.claim(pc.Claim))
-		keep(collectProblems(in))
-		keep(a.conflicts[&in.Coefficients[0]])
-		keep(a.conflicts[&in.Coefficients[1]])
+		keep(a.problems(in))
 	}
 	if err := flush(); err != nil {
 		return summary, err

@@ -13,7 +13,6 @@ import (
 	"testing"
 
 	"coefaudit/extract"
-	"coefaudit/fixtures"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -252,16 +251,7 @@ func TestWriteXLSXFormulaLikeText(t *testing.T) {
 // text of a malformed cell, so the workbook leaves it blank with the
 // problem beside it, and the row reads back as a claim of its own.
 func TestWriteXLSXReadsBack(t *testing.T) {
-	path, cleanup, err := fixtures.DemoFile()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer cleanup()
-	in, err := extract.Read(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	rep := Audit(in, DefaultOptions)
+	rep, in := demoReport(t)
 	out := filepath.Join(t.TempDir(), "audit.xlsx")
 	if err := os.WriteFile(out, writeXLSXForTest(t, rep, in), 0o600); err != nil {
 		t.Fatal(err)
