@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -95,8 +96,11 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 			return math.Exp(a*2*math.Log(u) - math.Log(a) - (lb + lh - lab)), nil
 		}
 		x := u * u / (1 + u*u)
-		if x > 0.5 {
-			// Near p = 1 the complement keeps its digits.
+		if x > df/(df+1) {
+			// Beyond the mean of the beta distribution, df/(df + 1), p is
+			// above about one half, and the complement, with 1 − x formed
+			// from u, keeps its digits. Below it p may be tiny even with
+			// x near 1 (large df), so it is computed directly.
 			return 1 - mathext.RegIncBeta(0.5, df/2, 1/(1+u*u)), nil
 		}
 		return mathext.RegIncBeta(df/2, 0.5, x), nil
@@ -104,7 +108,12 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 }
 
 // StudentTFromTwoSidedP returns the |t| with df degrees of freedom whose
-// two-sided p-value is p.
+// two-sided p-value is p: the root of StudentTTwoSidedP, found by Newton's
+// method in log coordinates (see studentTQuantile), so that the two
+// functions invert each other to the tail function's own accuracy, down to
+// p = 1e-300. gonum's StudentsT.Quantile is used only if that iteration
+// fails to settle: in the far tail it is wrong (at df = 1000 and p = 1e-20
+// it gives 3.0e9 for 9.546).
 func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if !(p > 0 && p <= 1) {
 		return math.NaN(), fmt.Errorf("two-sided p %v: %w", p, ErrProbability)
@@ -115,9 +124,40 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if math.IsInf(df, 1) {
 		return NormalZFromTwoSidedP(p)
 	}
-	st := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}
-	return -st.Quantile(p / 2), nil
+	key := quantileKey{p, df}
+	tQuantiles.RLock()
+	q, ok := tQuantiles.m[key]
+	tQuantiles.RUnlock()
+	if ok {
+		return q, nil
+	}
+	q, ok = studentTQuantile(p, df)
+	if !ok {
+		st := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}
+		q = -st.Quantile(p / 2)
+	}
+	tQuantiles.Lock()
+	if len(tQuantiles.m) < maxCachedQuantiles {
+		tQuantiles.m[key] = q
+	}
+	tQuantiles.Unlock()
+	return q, nil
 }
+
+// The t quantile costs tens of microseconds (an inverse incomplete beta),
+// and an audit asks for the same few (level, df) pairs over and over: a
+// literature of claims has 95% intervals and a few hundred distinct df. So
+// quantiles are remembered, up to a bound that keeps hostile input (every
+// row a new df) from growing memory; past it they are computed each time.
+// A remembered value is the computed one, bit for bit.
+type quantileKey struct{ p, df float64 }
+
+const maxCachedQuantiles = 1 << 14
+
+var tQuantiles = struct {
+	sync.RWMutex
+	m map[quantileKey]float64
+}{m: map[quantileKey]float64{}}
 
 // StudentTCriticalValue returns t_(1−α/2, df) for a two-sided confidence
 // level given as a proportion.
