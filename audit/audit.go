@@ -42,6 +42,16 @@ type auditor struct {
 	modelPredictors map[modelKey][]string
 	// corr holds the correlation tables by sample.
 	corr map[[2]string]*corrSource
+
+	// pair, when set, holds the only two coefficients (loadPair), and the
+	// maps above are not used.
+	pair           []*extract.Coefficient
+	pairBuf        [2]*extract.Coefficient
+	pairDuplicated bool
+	pairConflicts  [2][]Problem
+	// pairModelSize, when set, counts the regression coefficients of each
+	// model beyond the pair (over the study's rows of a paired CSV).
+	pairModelSize map[[3]string]int
 }
 
 // Audit audits every claims row of in, in order, and collects every problem
@@ -51,8 +61,8 @@ func Audit(in *extract.Input, opts Options) *Report {
 	a := newAuditor(in)
 	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions,
 		Claims: make([]ClaimResult, 0, len(in.Claims))}
-	for _, cl := range in.Claims {
-		rep.Claims = append(rep.Claims, a.claim(cl))
+	for i := range in.Claims {
+		rep.Claims = append(rep.Claims, a.claim(&in.Claims[i]))
 	}
 	finishClaims(rep.Claims, opts, true)
 	rep.Problems = a.problems(in)
@@ -74,10 +84,29 @@ func finishClaims(claims []ClaimResult, opts Options, methods bool) {
 }
 
 func newAuditor(in *extract.Input) *auditor {
-	a := &auditor{coef: map[coefKey]*extract.Coefficient{},
-		duplicated: map[coefKey]bool{}, modelSize: map[[3]string]int{},
-		conflicts: map[*extract.Coefficient][]Problem{}, corr: correlationSources(in),
-		modelPredictors: map[modelKey][]string{}}
+	a := &auditor{}
+	a.load(in)
+	return a
+}
+
+// load makes the auditor look up in's coefficients, emptying and reusing
+// its maps.
+func (a *auditor) load(in *extract.Input) {
+	a.pair = nil
+	if a.coef == nil {
+		a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[[3]string]int{}
+		a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
+	} else {
+		clear(a.coef)
+		clear(a.duplicated)
+		clear(a.modelSize)
+		clear(a.conflicts)
+		clear(a.modelPredictors)
+	}
+	a.corr = nil
+	if len(in.Correlations) > 0 || len(in.Tables) > 0 {
+		a.corr = correlationSources(in)
+	}
 	for i := range in.Coefficients {
 		c := &in.Coefficients[i]
 		if len(c.Problems) == 0 {
@@ -91,7 +120,7 @@ func newAuditor(in *extract.Input) *auditor {
 			continue
 		}
 		a.coef[k] = c
-		if c.Measure == extract.MeasureB || c.Measure == extract.MeasureBeta {
+		if isRegression(c) {
 			a.modelSize[[3]string{c.Study, c.Group, c.Model}]++
 			mk := modelKey{c.Study, c.Group, c.Model}
 			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
@@ -99,7 +128,103 @@ func newAuditor(in *extract.Input) *auditor {
 			}
 		}
 	}
-	return a
+}
+
+// loadPair makes the auditor look up the two coefficients of one paired
+// claim, first and second, without its maps: a streamed audit does this a
+// million times. It answers every lookup as load would.
+func (a *auditor) loadPair(first, second *extract.Coefficient) {
+	a.pair = a.pairBuf[:0]
+	a.pair = append(a.pair, first, second)
+	a.pairDuplicated = coefKey{first.Study, first.Label} == coefKey{second.Study, second.Label}
+	a.corr = nil
+	for i, c := range a.pair {
+		a.pairConflicts[i] = nil
+		if len(c.Problems) == 0 {
+			a.pairConflicts[i] = consistencyProblems(c)
+		}
+	}
+}
+
+func isRegression(c *extract.Coefficient) bool {
+	return c.Measure == extract.MeasureB || c.Measure == extract.MeasureBeta
+}
+
+// kept lists the coefficients lookups can return: every one but the
+// repeats of a label.
+func (a *auditor) keptPair() []*extract.Coefficient {
+	if a.pairDuplicated {
+		return a.pair[:1]
+	}
+	return a.pair
+}
+
+// find returns the coefficient with key k, the first when it repeats.
+func (a *auditor) find(k coefKey) (*extract.Coefficient, bool) {
+	if a.pair == nil {
+		c, ok := a.coef[k]
+		return c, ok
+	}
+	for _, c := range a.keptPair() {
+		if (coefKey{c.Study, c.Label}) == k {
+			return c, true
+		}
+	}
+	return nil, false
+}
+
+func (a *auditor) isDuplicated(k coefKey) bool {
+	if a.pair == nil {
+		return a.duplicated[k]
+	}
+	return a.pairDuplicated && (coefKey{a.pair[0].Study, a.pair[0].Label}) == k
+}
+
+// modelSizeOf is the number of regression coefficients listed for c's
+// model.
+func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
+	k := [3]string{c.Study, c.Group, c.Model}
+	if a.pair == nil {
+		return a.modelSize[k]
+	}
+	if a.pairModelSize != nil {
+		return a.pairModelSize[k]
+	}
+	n := 0
+	for _, o := range a.keptPair() {
+		if isRegression(o) && [3]string{o.Study, o.Group, o.Model} == k {
+			n++
+		}
+	}
+	return n
+}
+
+// conflictsOf lists the problems of c's printed numbers that contradict
+// each other.
+func (a *auditor) conflictsOf(c *extract.Coefficient) []Problem {
+	if a.pair == nil {
+		return a.conflicts[c]
+	}
+	for i, o := range a.pair {
+		if o == c {
+			return a.pairConflicts[i]
+		}
+	}
+	return nil
+}
+
+// predictorsOf lists a model's predictors in input order.
+func (a *auditor) predictorsOf(k modelKey) []string {
+	if a.pair == nil {
+		return a.modelPredictors[k]
+	}
+	var out []string
+	for _, c := range a.keptPair() {
+		if isRegression(c) && (modelKey{c.Study, c.Group, c.Model}) == k && c.Predictor != "" && indexOf(out, c.Predictor) < 0 {
+			out = append(out, c.Predictor)
+		}
+	}
+	return out
 }
 
 // lookup finds a claim's coefficient by label in the claim's study, or in
@@ -107,17 +232,17 @@ func newAuditor(in *extract.Input) *auditor {
 // claim's own study.
 func (a *auditor) lookup(study, label string) (*extract.Coefficient, error) {
 	k := coefKey{study, label}
-	c, ok := a.coef[k]
+	c, ok := a.find(k)
 	if !ok {
 		if s, l, found := strings.Cut(label, ":"); found {
 			k = coefKey{strings.TrimSpace(s), strings.TrimSpace(l)}
-			c, ok = a.coef[k]
+			c, ok = a.find(k)
 		}
 	}
 	if !ok {
 		return nil, fmt.Errorf("no coefficient labelled %q in study %q", label, study)
 	}
-	if a.duplicated[k] {
+	if a.isDuplicated(k) {
 		return nil, fmt.Errorf("the label %q appears more than once in study %q, so the claim is ambiguous", k.label, k.study)
 	}
 	return c, nil
@@ -135,12 +260,12 @@ func relationOf(c1, c2 *extract.Coefficient) string {
 }
 
 // claim audits one claims row.
-func (a *auditor) claim(cl extract.Claim) ClaimResult {
+func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 	r := ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
 		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
 		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
-		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: []string{},
+		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: make([]string, 0, 6),
 		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
 	if r.Alpha == 0 {
 		r.Alpha = extract.DefaultAlpha
@@ -177,8 +302,8 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
 		return r.finish(Incomplete)
 	}
-	rc1, e1 := extract.Reconstruct(*c1, a.modelSize[[3]string{c1.Study, c1.Group, c1.Model}])
-	rc2, e2 := extract.Reconstruct(*c2, a.modelSize[[3]string{c2.Study, c2.Group, c2.Model}])
+	rc1, e1 := extract.Reconstruct(*c1, a.modelSizeOf(c1))
+	rc2, e2 := extract.Reconstruct(*c2, a.modelSizeOf(c2))
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale
@@ -202,20 +327,20 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 	case extract.ScaleFisherZ:
 		r.Notes = append(r.Notes, "The two estimates and their SEs are shown on the Fisher z scale.")
 	default:
-		r.Notes = append(r.Notes, fmt.Sprintf("Estimates, SEs and the difference are on the %s scale.", rc1.Scale))
+		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
-	r.Overlap = overlapOf(rc1, rc2, &r)
+	r.Overlap = overlapOf(&rc1, &rc2, &r)
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
-		for _, p := range a.conflicts[c] {
+		for _, p := range a.conflictsOf(c) {
 			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s): %s.", extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}, p.Message))
 		}
 	}
 
 	if r.Relation == Independent {
-		a.independent(&r, c1, c2, rc1, rc2)
+		a.independent(&r, c1, c2, &rc1, &rc2)
 	} else {
-		a.dependent(&r, cl, c1, c2, rc1, rc2)
+		a.dependent(&r, cl, c1, c2, &rc1, &rc2)
 		if strings.HasSuffix(r.Method, "from-correlation-table") {
 			r.Notes = append(r.Notes[:readNotes], r.Notes[readEnd:]...)
 			// The basis notes speak of the rebuilt estimates too.
@@ -224,7 +349,7 @@ func (a *auditor) claim(cl extract.Claim) ClaimResult {
 			rc1.DF, rc2.DF = float64(r.DF), float64(r.DF)
 		}
 	}
-	basisNotes(&r, cl, c1, c2, rc1, rc2)
+	basisNotes(&r, cl, c1, c2, &rc1, &rc2)
 	if len(conflicts) > 0 {
 		r.Notes = append(r.Notes, conflicts...)
 		r.conflict = true
@@ -251,7 +376,7 @@ func sideOf(label string, rc extract.Reconstructed, err error) Side {
 
 // independent runs the z test of two estimates from independent samples
 // and classifies the claim.
-func (a *auditor) independent(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+func (a *auditor) independent(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	d, err := infer.IndependentDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, 1-r.Alpha)
 	if err != nil {
 		r.Notes = append(r.Notes, "The difference could not be tested: "+err.Error()+".")
@@ -281,7 +406,7 @@ func (r *ClaimResult) setDifference(d infer.Difference) {
 	r.P = Number(d.P)
 }
 
-func overlapOf(rc1, rc2 extract.Reconstructed, r *ClaimResult) *OverlapResult {
+func overlapOf(rc1, rc2 *extract.Reconstructed, r *ClaimResult) *OverlapResult {
 	if math.IsNaN(rc1.CI[0]) || math.IsNaN(rc2.CI[0]) {
 		return nil
 	}
@@ -303,18 +428,14 @@ func (a *auditor) problems(in *extract.Input) []Problem {
 	ps := collectProblems(in)
 	ps = append(ps, tableProblems(in)...)
 	for i := range in.Coefficients {
-		ps = append(ps, a.conflicts[&in.Coefficients[i]]...)
+		ps = append(ps, a.conflictsOf(&in.Coefficients[i])...)
 	}
 	return ps
 }
 
 func collectProblems(in *extract.Input) []Problem {
 	ps := []Problem{}
-	add := func(errs []*extract.CellError) {
-		for _, e := range errs {
-			ps = append(ps, Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()})
-		}
-	}
+	add := func(errs []*extract.CellError) { ps = append(ps, cellProblems(errs)...) }
 	add(in.Problems)
 	for _, c := range in.Coefficients {
 		add(c.Problems)
@@ -327,6 +448,18 @@ func collectProblems(in *extract.Input) []Problem {
 	}
 	for _, t := range in.Tables {
 		add(t.Problems)
+	}
+	return ps
+}
+
+// cellProblems turns the reader's cell errors into problems.
+func cellProblems(errs []*extract.CellError) []Problem {
+	if len(errs) == 0 {
+		return nil
+	}
+	ps := make([]Problem, len(errs))
+	for i, e := range errs {
+		ps[i] = Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()}
 	}
 	return ps
 }

@@ -3,6 +3,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -11,7 +12,7 @@ import (
 // basisNotes explains the claim the way the paper reached it: the overlap
 // rule read properly, the significance split named for what it is, and a
 // printed p for the difference set beside the recomputed one.
-func basisNotes(r *ClaimResult, cl extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+func basisNotes(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	switch cl.Basis {
 	case extract.BasisSignificanceSplit:
 		r.Notes = append(r.Notes, significanceSplitNote(r, rc1, rc2))
@@ -26,7 +27,7 @@ func basisNotes(r *ClaimResult, cl extract.Claim, c1, c2 *extract.Coefficient, r
 }
 
 // ownP is an estimate's own two-sided p against 0.
-func ownP(rc extract.Reconstructed) float64 {
+func ownP(rc *extract.Reconstructed) float64 {
 	p, err := infer.StudentTTwoSidedP(rc.Estimate/rc.SE, dfOrInf(rc.DF))
 	if err != nil {
 		return math.NaN()
@@ -41,7 +42,7 @@ func dfOrInf(df float64) float64 {
 	return df
 }
 
-func significanceSplitNote(r *ClaimResult, rc1, rc2 extract.Reconstructed) string {
+func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 	p1, p2 := ownP(rc1), ownP(rc2)
 	sig := func(p float64) string {
 		if p < r.Alpha {
@@ -49,14 +50,15 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 extract.Reconstructed) strin
 		}
 		return "not significant"
 	}
-	return fmt.Sprintf("The paper's verdict rests on one estimate being significant and the other not (here %s: %s, %s; %s: %s, %s). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead.",
-		rc1.Label, pStatement(p1), sig(p1), rc2.Label, pStatement(p2), sig(p2))
+	return "The paper's verdict rests on one estimate being significant and the other not (here " +
+		rc1.Label + ": " + pStatement(p1) + ", " + sig(p1) + "; " + rc2.Label + ": " + pStatement(p2) + ", " + sig(p2) +
+		"). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says
 // whether the rule's conditions held: independent estimates, n of at least
 // 10 in each, and margins of error within a factor of 2.
-func overlapNote(r *ClaimResult, rc1, rc2 extract.Reconstructed) string {
+func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 	if r.Overlap == nil {
 		return "The paper read the overlap of the two intervals, but both intervals (at one level) are not in the input, so the overlap cannot be shown."
 	}
@@ -72,7 +74,7 @@ func overlapNote(r *ClaimResult, rc1, rc2 extract.Reconstructed) string {
 	if r.Relation != Independent {
 		unmet = append(unmet, "the estimates come from one sample, so the rule does not apply at all")
 	}
-	for _, rc := range []extract.Reconstructed{rc1, rc2} {
+	for _, rc := range []*extract.Reconstructed{rc1, rc2} {
 		switch {
 		case math.IsNaN(rc.N):
 			unmet = append(unmet, fmt.Sprintf("n of %s is not printed, so n ≥ 10 cannot be checked", rc.Label))
@@ -87,8 +89,10 @@ func overlapNote(r *ClaimResult, rc1, rc2 extract.Reconstructed) string {
 	if len(unmet) > 0 {
 		cond = "The rule's conditions do not all hold: " + joinSemicolon(unmet) + "."
 	}
-	return fmt.Sprintf("The paper read the overlap of the two intervals. The proportion overlap is %.2f of the mean margin of error, which implies p ≈ %s for independent estimates; the rule of eye (Cumming & Finch 2005) says %s. %s The proper test of the difference decides the outcome.",
-		float64(o.Proportion), formatP(float64(o.ImpliedP)), rule, cond)
+	return "The paper read the overlap of the two intervals. The proportion overlap is " +
+		strconv.FormatFloat(float64(o.Proportion), 'f', 2, 64) + " of the mean margin of error, which implies p ≈ " +
+		formatP(float64(o.ImpliedP)) + " for independent estimates; the rule of eye (Cumming & Finch 2005) says " +
+		rule + ". " + cond + " The proper test of the difference decides the outcome."
 }
 
 // publishedPNote compares the paper's p for the difference with the
@@ -100,10 +104,10 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 		pr = infer.Point(float64(r.P))
 	}
 	if hi >= pr.Lo && lo <= pr.Hi {
-		return fmt.Sprintf("The paper's p for the difference (%s) agrees with the recomputed one.", pp.Text)
+		return "The paper's p for the difference (" + pp.Text + ") agrees with the recomputed one."
 	}
-	msg := fmt.Sprintf("The paper's p for the difference (%s) disagrees with the recomputed %s (from %s to %s within rounding)",
-		pp.Text, formatP(float64(r.P)), formatP(pr.Lo), formatP(pr.Hi))
+	msg := "The paper's p for the difference (" + pp.Text + ") disagrees with the recomputed " + formatP(float64(r.P)) +
+		" (from " + formatP(pr.Lo) + " to " + formatP(pr.Hi) + " within rounding)"
 	if hi >= pr.Lo/2 && lo <= pr.Hi/2 {
 		msg += "; it matches a one-sided p, half the two-sided one"
 	}

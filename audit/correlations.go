@@ -13,7 +13,7 @@ import (
 // independentCorrelations replaces the generic difference of a claim
 // comparing two correlations from independent samples by the Fisher z test
 // with Zou's (2007) interval for ρ1 − ρ2 on the correlation scale.
-func (a *auditor) independentCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+func (a *auditor) independentCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	if math.IsNaN(rc1.N) || math.IsNaN(rc2.N) {
 		r.Notes = append(r.Notes, "Without both n the correlations are compared on Fisher's z scale with SEs taken from their intervals, and no interval for ρ1 − ρ2 is given.")
 		return
@@ -51,7 +51,7 @@ func setCorrelationComparison(r *ClaimResult, cmp correlation.Comparison) {
 	for _, alt := range cmp.Alternatives {
 		r.Alternatives = append(r.Alternatives, Alternative{Method: alt.Method, Statistic: Number(alt.Stat), P: Number(alt.P)})
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("The test (%s) is built on the correlations as printed; the difference r1 − r2 and its interval (Zou 2007) are on the correlation scale.", cmp.Primary.Method))
+	r.Notes = append(r.Notes, "The test ("+cmp.Primary.Method+") is built on the correlations as printed; the difference r1 − r2 and its interval (Zou 2007) are on the correlation scale.")
 	for _, w := range cmp.Primary.Warnings {
 		r.Notes = append(r.Notes, capitalize(w)+".")
 	}

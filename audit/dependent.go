@@ -1,8 +1,8 @@
 package audit
 
 import (
-	"fmt"
 	"math"
+	"strconv"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -18,7 +18,7 @@ const undetermined = "undetermined"
 // paper's correlation table; the printed sampling correlation of the two
 // estimates (estimate_corr); and otherwise the range over every admissible
 // correlation.
-func (a *auditor) dependent(r *ClaimResult, cl extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	src := a.corr[sampleKey(c1.Study, c1.Group)]
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
@@ -39,7 +39,7 @@ func (a *auditor) dependent(r *ClaimResult, cl extract.Claim, c1, c2 *extract.Co
 
 // commonDF returns the residual df two coefficients of one model share, or
 // NaN when they do not share one.
-func commonDF(r *ClaimResult, rc1, rc2 extract.Reconstructed) float64 {
+func commonDF(r *ClaimResult, rc1, rc2 *extract.Reconstructed) float64 {
 	if r.Relation == SameModel && rc1.DF == rc2.DF {
 		return rc1.DF
 	}
@@ -48,7 +48,7 @@ func commonDF(r *ClaimResult, rc1, rc2 extract.Reconstructed) float64 {
 
 // withEstimateCorr tests the difference with the printed sampling
 // correlation ρ of the two estimates: Var(d) = SE1² + SE2² − 2ρ SE1 SE2.
-func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2 extract.Reconstructed) {
+func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
 	d, err := infer.CorrelatedDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, rho.Value, df, 1-r.Alpha)
 	if err != nil {
@@ -82,7 +82,7 @@ func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2
 		spread := math.Max(s1.Hi-s2.Lo, s2.Hi-s1.Lo)
 		vHi = spread*spread + 2*(1-rlo)*s1.Hi*s2.Hi
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("The two estimates' sampling correlation %s, as printed, enters the SE of the difference.", rho.Text))
+	r.Notes = append(r.Notes, "The two estimates' sampling correlation "+rho.Text+", as printed, enters the SE of the difference.")
 	a.finishRange(r, rc1, rc2, infer.Range{Lo: math.Sqrt(math.Max(vLo, 0)), Hi: math.Sqrt(vHi)}, df, how)
 }
 
@@ -100,7 +100,7 @@ func seGap(a, b infer.Range) float64 {
 // admissible gives the range of p over every admissible sampling
 // correlation of the two estimates, −1 to 1: Var(d) runs from (SE1 − SE2)²
 // to (SE1 + SE2)².
-func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 extract.Reconstructed) {
+func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
 	r.Method = "admissible-range"
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
@@ -113,21 +113,22 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 e
 	case r.Relation == SameModel:
 		what += ", or the correlation table of the model's outcome and predictors with their SDs and n"
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("Both estimates come from one sample (study %q, group %q) and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need %s from the authors.",
-		c1.Study, c1.Group, what))
+	r.Notes = append(r.Notes, "Both estimates come from one sample (study "+strconv.Quote(c1.Study)+", group "+strconv.Quote(c1.Group)+
+		") and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need "+
+		what+" from the authors.")
 	if c1.Group == "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}
 	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
 }
 
-func diffRange(rc1, rc2 extract.Reconstructed) infer.Range {
+func diffRange(rc1, rc2 *extract.Reconstructed) infer.Range {
 	return infer.Range{Lo: rc1.EstimateRange.Lo - rc2.EstimateRange.Hi, Hi: rc1.EstimateRange.Hi - rc2.EstimateRange.Lo}
 }
 
 // finishRange sets p_range from the range of the difference's SE and
 // classifies the claim.
-func (a *auditor) finishRange(r *ClaimResult, rc1, rc2 extract.Reconstructed, ser infer.Range, df float64, how rangeKind) {
+func (a *auditor) finishRange(r *ClaimResult, rc1, rc2 *extract.Reconstructed, ser infer.Range, df float64, how rangeKind) {
 	dr := diffRange(rc1, rc2)
 	pr, err := infer.DifferencePRange(dr, ser, df)
 	if err != nil {

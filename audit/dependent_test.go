@@ -230,7 +230,7 @@ func TestMultiplicityDecidesWhenAsked(t *testing.T) {
 		t.Errorf("claim 0: raw %s (p %v), Holm %s (adjusted %v)", raw.Claims[0].Outcome, raw.Claims[0].P,
 			holm.Claims[0].Outcome, holm.Claims[0].AdjustedP)
 	}
-	if q := float64(holm.Claims[0].AdjustedP[AdjustHolm]); math.Abs(q-3*float64(raw.Claims[0].P)) > 1e-12 {
+	if q := float64(holm.Claims[0].AdjustedP.Holm); math.Abs(q-3*float64(raw.Claims[0].P)) > 1e-12 {
 		t.Errorf("Holm-adjusted p %v, want 3 × %v", q, raw.Claims[0].P)
 	}
 }

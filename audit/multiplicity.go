@@ -30,7 +30,7 @@ func adjustWithinStudies(claims []ClaimResult) {
 		holm := infer.HolmAdjust(p)
 		bh := infer.BenjaminiHochbergAdjust(p)
 		for k, i := range idx {
-			claims[i].AdjustedP = map[string]Number{AdjustHolm: Number(holm[k]), AdjustBH: Number(bh[k])}
+			claims[i].AdjustedP = &AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
 			claims[i].family = len(idx)
 		}
 	}
@@ -43,7 +43,7 @@ func adjustWithinStudies(claims []ClaimResult) {
 func (r *ClaimResult) settle(adjust string) {
 	if r.dec != nil {
 		p, pr := float64(r.P), r.dec.pr
-		if q, ok := r.AdjustedP[adjust]; ok && adjust != AdjustNone && p > 0 {
+		if q, ok := r.AdjustedP.By(adjust); ok && p > 0 {
 			f := float64(q) / p
 			r.Notes = append(r.Notes, fmt.Sprintf("The outcome uses the %s-adjusted p = %s, adjusted over the %d claims of the study that have a p (the raw p is %s).",
 				adjustName(adjust), formatP(float64(q)), r.family, formatP(p)))

@@ -31,7 +31,7 @@ type modelKey [3]string
 // standardized ones. It reports false when the table lacks what is needed.
 func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource) bool {
 	key := modelKey{c1.Study, c1.Group, c1.Model}
-	preds := a.modelPredictors[key]
+	preds := a.predictorsOf(key)
 	outcome := c1.Outcome
 	if outcome == "" || c1.Predictor == "" || c2.Predictor == "" || outcome != c2.Outcome {
 		r.Notes = append(r.Notes, "To rebuild the model from the correlation table, both coefficients need the same outcome and their predictors named.")

@@ -107,9 +107,9 @@ type ClaimResult struct {
 	// Methods is a paragraph a reviewer can paste into a report: the
 	// method, the numbers, the verdict and its caveats.
 	Methods string `json:"-"`
-	// AdjustedP holds the claim's p adjusted within its study, by method
-	// ("holm", "bh"); absent when the claim has no p.
-	AdjustedP map[string]Number `json:"p_adjusted,omitempty"`
+	// AdjustedP holds the claim's p adjusted within its study; nil when the
+	// claim has no p.
+	AdjustedP *AdjustedPValues `json:"p_adjusted,omitempty"`
 	// Topic is the claim's topic; claims sharing one are pooled.
 	Topic string `json:"-"`
 	// ExtraNames and ExtraValues are the claims row's unknown columns,
@@ -123,6 +123,27 @@ type ClaimResult struct {
 	conflict bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
+}
+
+// AdjustedPValues are a claim's p adjusted for multiplicity over the claims
+// of its study: Holm's step-down (Holm 1979) and Benjamini–Hochberg's
+// step-up (Benjamini & Hochberg 1995).
+type AdjustedPValues struct {
+	BH   Number `json:"bh"`
+	Holm Number `json:"holm"`
+}
+
+// By returns the p adjusted by method (AdjustHolm or AdjustBH).
+func (a *AdjustedPValues) By(method string) (Number, bool) {
+	switch {
+	case a == nil:
+		return nan, false
+	case method == AdjustHolm:
+		return a.Holm, true
+	case method == AdjustBH:
+		return a.BH, true
+	}
+	return nan, false
 }
 
 // Problem is a problem with the input, placed by sheet, row and column.

@@ -2,12 +2,14 @@ package audit
 
 import (
 	"bufio"
-	"encoding/csv"
+	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"runtime"
+	"sync"
 
 	"coefaudit/extract"
 )
@@ -17,10 +19,31 @@ import (
 // exhaust memory.
 const MaxStreamProblems = 10000
 
-// ClaimSink receives a streamed audit: each claim once, in input order, then
-// the summary and the input's problems.
+// MaxStreamFamily is the most claims of one study a streamed audit holds
+// together for the multiplicity adjustment. A longer contiguous run of one
+// study (no paper prints that many comparisons; a file whose study column
+// was left constant does) is adjusted in blocks of this many claims, and a
+// problem says so: holding it whole would make memory grow with the file.
+const MaxStreamFamily = 5000
+
+// streamBatchClaims is how many claims a streamed audit hands a worker at
+// once (whole runs of a study, so a batch may hold more).
+const streamBatchClaims = 256
+
+// ClaimSink receives a streamed audit. Begin is called once, then the
+// encoded claims are written in input order, then Finish.
 type ClaimSink interface {
-	Claim(c *ClaimResult) error
+	// Begin is called before any claim with the input's unknown columns,
+	// which follow the report's own columns.
+	Begin(extra []string) error
+	// AppendClaim appends the encoding of claim c, the index-th of the
+	// stream counting from 0, to dst. It is called from several goroutines
+	// at once and must not change the sink.
+	AppendClaim(dst []byte, c *ClaimResult, index int) []byte
+	// Write writes encoded claims.
+	Write(p []byte) (int, error)
+	// Finish is called after the last claim with the summary, the
+	// input's problems and how many further problems were not kept.
 	Finish(s Summary, problems []Problem, omitted int) error
 }
 
@@ -40,14 +63,45 @@ func IsPairedCSV(path string) bool {
 	return err == nil
 }
 
-// StreamPaired audits a paired CSV as a stream: one row is read, audited and
-// handed to sink before the next, so memory does not grow with the number
-// of claims. A study's claims are held together while they are contiguous,
-// so that the multiplicity adjustment can run over them. The claims carry no
-// methods paragraph: the streamed reports (CSV, JSON) do not show it. A
-// study whose rows
-// are not contiguous is adjusted per run of rows (documented in the help).
-// It returns the summary of outcomes.
+// streamBatch is a run of consecutive claims on its way through a streamed
+// audit: read, audited and encoded by a worker, written in order.
+type streamBatch struct {
+	seq   int // order of the batch
+	first int // stream index of its first claim
+	rows  []extract.PairedClaim
+	// runs holds the offsets in rows where a family of the multiplicity
+	// adjustment starts; the first is 0.
+	runs   []int
+	claims []ClaimResult
+	out    []byte
+	counts map[string]int
+	kept   []Problem
+	// omitted counts the problems beyond what the batch keeps.
+	omitted int
+	// err is a read error after the batch's rows; it ends the stream.
+	err error
+}
+
+func (b *streamBatch) keep(ps []Problem) {
+	for _, p := range ps {
+		if len(b.kept) < MaxStreamProblems {
+			b.kept = append(b.kept, p)
+		} else {
+			b.omitted++
+		}
+	}
+}
+
+// StreamPaired audits a paired CSV as a stream and writes it to sink, in
+// memory that does not grow with the number of claims. One goroutine reads
+// the rows; as many workers as there are CPUs audit and encode batches of
+// them; the calling goroutine writes the batches in input order, so the
+// output is what a one-by-one audit writes. A study's claims are held
+// together while they are contiguous (up to MaxStreamFamily), so that the
+// multiplicity adjustment can run over them; a study whose rows are not
+// contiguous is adjusted per run of rows (documented in the help). The
+// claims carry no methods paragraph: the streamed reports (CSV, JSON) do
+// not show it. It returns the summary of outcomes.
 func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	f, err := os.Open(path)
 	if err != nil {
@@ -58,102 +112,281 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	if err != nil {
 		return Summary{}, err
 	}
+	// The first row names the unknown columns, which the sink needs before
+	// any claim is encoded.
+	first, err := pr.Next()
+	atEnd := errors.Is(err, io.EOF)
+	if err != nil && !atEnd {
+		return Summary{}, err
+	}
+	var extra []string
+	if !atEnd {
+		seen := map[string]bool{}
+		for _, c := range csvColumns {
+			seen[c] = true
+		}
+		extra = appendUnseen(nil, first.Claim.Extra.Names, seen)
+	}
+	if err := sink.Begin(extra); err != nil {
+		return Summary{}, err
+	}
+	workers := runtime.GOMAXPROCS(0)
 	var (
-		problems []Problem
-		omitted  int
-		summary  = Summary{Counts: map[string]int{}}
-		block    []ClaimResult
+		todo   = make(chan *streamBatch, workers)
+		done   = make(chan *streamBatch, workers)
+		tokens = make(chan struct{}, 3*workers+1) // batches in flight
+		quit   = make(chan struct{})
+		free   = sync.Pool{New: func() any { return new(streamBatch) }}
+		wg     sync.WaitGroup
 	)
-	keep := func(ps []Problem) {
-		for _, p := range ps {
-			if len(problems) < MaxStreamProblems {
-				problems = append(problems, p)
-			} else {
-				omitted++
+	go readBatches(pr, &first, atEnd, todo, tokens, quit, &free)
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w := &streamWorker{auditor: &auditor{}}
+			for b := range todo {
+				w.audit(b, opts, sink)
+				select {
+				case done <- b:
+				case <-quit:
+				}
 			}
-		}
+		}()
 	}
+	go func() { wg.Wait(); close(done) }()
+
+	summary := Summary{Counts: map[string]int{}}
+	var problems []Problem
+	omitted := 0
 	for _, e := range pr.Problems() {
-		keep([]Problem{{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()}})
+		problems = append(problems, Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()})
 	}
-	flush := func() error {
-		finishClaims(block, opts, false)
-		for i := range block {
-			summary.Claims++
-			summary.Counts[block[i].Outcome]++
-			if err := sink.Claim(&block[i]); err != nil {
-				return err
+	pending := map[int]*streamBatch{}
+	next := 0
+	var failure error
+	for b := range done {
+		if failure != nil {
+			continue // draining, so that every goroutine ends
+		}
+		pending[b.seq] = b
+		for b := pending[next]; b != nil; b = pending[next] {
+			delete(pending, next)
+			next++
+			_, failure = sink.Write(b.out)
+			summary.Claims += len(b.rows)
+			for o, n := range b.counts {
+				summary.Counts[o] += n
+			}
+			for _, p := range b.kept {
+				if len(problems) < MaxStreamProblems {
+					problems = append(problems, p)
+				} else {
+					omitted++
+				}
+			}
+			omitted += b.omitted
+			if failure == nil && b.err != nil {
+				failure = b.err
+			}
+			b.recycle()
+			free.Put(b)
+			<-tokens
+			if failure != nil {
+				close(quit)
+				break
 			}
 		}
-		block = block[:0]
-		return nil
 	}
-	in := &extract.Input{Source: path, Coefficients: make([]extract.Coefficient, 2), Claims: make([]extract.Claim, 1)}
-	for {
-		pc, err := pr.Next()
-		if errors.Is(err, io.EOF) {
-			break
-		}
-		if err != nil {
-			return summary, err
-		}
-		if len(block) > 0 && block[0].Study != pc.Claim.Study {
-			if err := flush(); err != nil {
-				return summary, err
-			}
-		}
-		in.Coefficients[0], in.Coefficients[1], in.Claims[0] = pc.First, pc.Second, pc.Claim
-		a := newAuditor(in)
-		block = append(block, a.claim(pc.Claim))
-		keep(a.problems(in))
-	}
-	if err := flush(); err != nil {
-		return summary, err
+	if failure != nil {
+		return summary, failure
 	}
 	return summary, sink.Finish(summary, problems, omitted)
 }
 
+// readBatches reads the paired rows into batches of whole study runs and
+// sends them to todo, taking a token for each so that only so many are in
+// flight; it closes todo after the last or when quit is closed.
+func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd bool, todo chan<- *streamBatch,
+	tokens chan struct{}, quit <-chan struct{}, free *sync.Pool) {
+	defer close(todo)
+	var (
+		seq, index, runLen int
+		lastStudy          string
+		b                  *streamBatch
+	)
+	send := func() bool {
+		select {
+		case todo <- b:
+			b = nil
+			return true
+		case <-quit:
+			return false
+		}
+	}
+	start := func() bool {
+		select {
+		case tokens <- struct{}{}:
+		case <-quit:
+			return false
+		}
+		b = free.Get().(*streamBatch)
+		b.seq, b.first = seq, index
+		seq++
+		return true
+	}
+	if !start() {
+		return
+	}
+	for !atEnd {
+		pc := *first
+		if index > 0 {
+			var err error
+			pc, err = pr.Next()
+			if errors.Is(err, io.EOF) {
+				break
+			}
+			if err != nil {
+				b.err = err
+				break
+			}
+		}
+		split := runLen == MaxStreamFamily && pc.Claim.Study == lastStudy
+		if len(b.rows) == 0 || pc.Claim.Study != lastStudy || split {
+			if len(b.rows) >= streamBatchClaims || split {
+				if !send() || !start() {
+					return
+				}
+			}
+			if split {
+				b.keep([]Problem{{Row: pc.Claim.Row, Column: "study", Message: fmt.Sprintf(
+					"study %q has more than %d claims in a row; a streamed audit adjusts for multiplicity over blocks of %d claims, and a new block starts here",
+					pc.Claim.Study, MaxStreamFamily, MaxStreamFamily)}})
+			}
+			b.runs = append(b.runs, len(b.rows))
+			runLen = 0
+		}
+		b.rows = append(b.rows, pc)
+		lastStudy = pc.Claim.Study
+		runLen++
+		index++
+	}
+	send()
+}
+
+// streamWorker audits batches, one claim's pair at a time.
+type streamWorker struct {
+	auditor   *auditor
+	modelSize map[[3]string]int
+}
+
+// countModelSizes counts the regression coefficients of each model in
+// rows, as auditor.load counts them: a coefficient repeating its row's
+// other label is not counted again.
+func countModelSizes(sizes map[[3]string]int, rows []extract.PairedClaim) {
+	clear(sizes)
+	for i := range rows {
+		pc := &rows[i]
+		for k, c := range []*extract.Coefficient{&pc.First, &pc.Second} {
+			if k == 1 && c.Study == pc.First.Study && c.Label == pc.First.Label {
+				continue
+			}
+			if isRegression(c) {
+				sizes[[3]string{c.Study, c.Group, c.Model}]++
+			}
+		}
+	}
+}
+
+func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
+	a := w.auditor
+	if w.modelSize == nil {
+		w.modelSize = map[[3]string]int{}
+	}
+	a.pairModelSize = w.modelSize
+	run := 0
+	for i := range b.rows {
+		if run < len(b.runs) && b.runs[run] == i {
+			// A derived df counts the regression coefficients listed for
+			// the model over the study's rows, as the whole-file audit
+			// does.
+			end := len(b.rows)
+			if run+1 < len(b.runs) {
+				end = b.runs[run+1]
+			}
+			countModelSizes(w.modelSize, b.rows[i:end])
+			run++
+		}
+		pc := &b.rows[i]
+		a.loadPair(&pc.First, &pc.Second)
+		b.claims = append(b.claims, a.claim(&pc.Claim))
+		// The problems in the order auditor.problems gives them.
+		b.keep(cellProblems(pc.First.Problems))
+		b.keep(cellProblems(pc.Second.Problems))
+		b.keep(cellProblems(pc.Claim.Problems))
+		b.keep(a.pairConflicts[0])
+		b.keep(a.pairConflicts[1])
+	}
+	for i, s := range b.runs {
+		e := len(b.claims)
+		if i+1 < len(b.runs) {
+			e = b.runs[i+1]
+		}
+		finishClaims(b.claims[s:e], opts, false)
+	}
+	if b.counts == nil {
+		b.counts = map[string]int{}
+	}
+	for i := range b.claims {
+		b.counts[b.claims[i].Outcome]++
+		b.out = sink.AppendClaim(b.out, &b.claims[i], b.first+i)
+	}
+}
+
+// recycle empties the batch for reuse, keeping its buffers but none of the
+// claims' memory.
+func (b *streamBatch) recycle() {
+	clear(b.rows)
+	clear(b.claims)
+	clear(b.counts)
+	clear(b.kept)
+	b.rows, b.claims, b.runs, b.out, b.kept = b.rows[:0], b.claims[:0], b.runs[:0], b.out[:0], b.kept[:0]
+	b.omitted, b.err = 0, nil
+}
+
 // CSVSink writes a streamed audit as the CSV report, one row per claim.
 type CSVSink struct {
-	cw     *csv.Writer
-	extra  []string
-	header bool
+	w     *bufio.Writer
+	extra []string
 }
 
 // NewCSVSink returns a sink writing CSV to w.
-func NewCSVSink(w io.Writer) *CSVSink { return &CSVSink{cw: csv.NewWriter(w)} }
+func NewCSVSink(w io.Writer) *CSVSink { return &CSVSink{w: bufio.NewWriterSize(w, 1<<16)} }
 
-// Claim writes one claim, the header before the first; a paired CSV's
-// unknown columns are those of its header, so the first row names them.
-func (s *CSVSink) Claim(c *ClaimResult) error {
-	if !s.header {
-		s.extra = c.ExtraNames
-		if err := s.cw.Write(append(append([]string{}, csvColumns...), s.extra...)); err != nil {
-			return err
-		}
-		s.header = true
-	}
-	return s.cw.Write(csvRecord(c, s.extra))
+// Begin writes the header.
+func (s *CSVSink) Begin(extra []string) error {
+	s.extra = extra
+	_, err := s.w.Write(appendCSVHeader(nil, extra))
+	return err
 }
+
+// AppendClaim appends one claim's row.
+func (s *CSVSink) AppendClaim(dst []byte, c *ClaimResult, _ int) []byte {
+	return appendCSVClaim(dst, c, s.extra)
+}
+
+// Write writes encoded rows.
+func (s *CSVSink) Write(p []byte) (int, error) { return s.w.Write(p) }
 
 // Finish flushes the CSV; problems go to the JSON and table reports, not
 // into the rows.
-func (s *CSVSink) Finish(Summary, []Problem, int) error {
-	if !s.header {
-		if err := s.cw.Write(csvColumns); err != nil {
-			return err
-		}
-	}
-	s.cw.Flush()
-	return s.cw.Error()
-}
+func (s *CSVSink) Finish(Summary, []Problem, int) error { return s.w.Flush() }
 
 // JSONSink writes a streamed audit in the JSON form of the output contract:
-// the same keys, with "claims" written as they come and "summary" and
-// "problems" after them.
+// the same keys and values as WriteJSON, with "claims" written as they come
+// and "summary" and "problems" after them.
 type JSONSink struct {
 	w     *bufio.Writer
-	n     int
 	alpha float64
 }
 
@@ -162,29 +395,29 @@ func NewJSONSink(w io.Writer) *JSONSink {
 	return &JSONSink{w: bufio.NewWriterSize(w, 1<<16), alpha: extract.DefaultAlpha}
 }
 
-// Claim writes one claim.
-func (s *JSONSink) Claim(c *ClaimResult) error {
-	if s.n == 0 {
-		fmt.Fprintf(s.w, "{\n  \"alpha\": %s,\n  \"claims\": [\n", formatAlpha(s.alpha))
-	} else {
-		s.w.WriteString(",\n")
-	}
-	s.n++
-	b, err := json.MarshalIndent(c, "    ", "  ")
-	if err != nil {
-		return err
-	}
-	s.w.WriteString("    ")
-	_, err = s.w.Write(b)
+// Begin opens the report and its claims array.
+func (s *JSONSink) Begin([]string) error {
+	_, err := fmt.Fprintf(s.w, "{\n  \"alpha\": %s,\n  \"claims\": [", formatAlpha(s.alpha))
 	return err
 }
 
+// AppendClaim appends one claim, after a comma unless it is the first.
+func (s *JSONSink) AppendClaim(dst []byte, c *ClaimResult, index int) []byte {
+	if index > 0 {
+		dst = append(dst, ',')
+	}
+	return appendClaimJSON(append(dst, "\n    "...), c, "    ")
+}
+
+// Write writes encoded claims.
+func (s *JSONSink) Write(p []byte) (int, error) { return s.w.Write(p) }
+
 // Finish writes the summary and the problems and flushes.
 func (s *JSONSink) Finish(sum Summary, problems []Problem, omitted int) error {
-	if s.n == 0 {
-		fmt.Fprintf(s.w, "{\n  \"alpha\": %s,\n  \"claims\": [", formatAlpha(s.alpha))
+	if sum.Claims > 0 {
+		s.w.WriteString("\n  ")
 	}
-	s.w.WriteString("\n  ],\n  \"summary\": ")
+	s.w.WriteString("],\n  \"summary\": ")
 	b, err := json.Marshal(sum)
 	if err != nil {
 		return err
@@ -196,12 +429,15 @@ func (s *JSONSink) Finish(sum Summary, problems []Problem, omitted int) error {
 	if omitted > 0 {
 		problems = append(problems, Problem{Message: fmt.Sprintf("%d further problems were found and not listed", omitted)})
 	}
-	b, err = json.MarshalIndent(problems, "  ", "  ")
-	if err != nil {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("  ", "  ")
+	if err := enc.Encode(problems); err != nil {
 		return err
 	}
 	s.w.WriteString(",\n  \"problems\": ")
-	s.w.Write(b)
+	s.w.Write(bytes.TrimSuffix(buf.Bytes(), []byte("\n")))
 	s.w.WriteString("\n}\n")
 	return s.w.Flush()
 }

@@ -3,40 +3,35 @@ package audit
 import (
 	"bytes"
 	"encoding/csv"
+	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"reflect"
+	"runtime"
+	"slices"
+	"strings"
 	"testing"
+	"time"
 
 	"coefaudit/extract"
+	"coefaudit/fixtures"
 )
 
-// writePaired writes n invented paired claims, four per study, to a file
-// in dir: estimates and 95% intervals printed to two decimals.
-func writePaired(tb testing.TB, dir string, n int) string {
+// writeLiterature writes n invented paired claims (every measure, design
+// and way of printing an SE, with broken rows among them) to a file in dir.
+func writeLiterature(tb testing.TB, dir string, n int, seed uint64) string {
 	tb.Helper()
-	rng := rand.New(rand.NewPCG(8, 13))
-	path := filepath.Join(dir, "paired.csv")
+	path := filepath.Join(dir, fmt.Sprintf("paired-%d-%d.csv", n, seed))
 	f, err := os.Create(path)
 	if err != nil {
 		tb.Fatal(err)
 	}
-	w := csv.NewWriter(f)
-	w.Write([]string{"study", "claim", "published", "basis", "first_label", "first_measure", "first_group",
-		"first_estimate", "first_ci_low", "first_ci_high", "first_n", "second_label", "second_measure", "second_group",
-		"second_estimate", "second_ci_low", "second_ci_high", "second_n", "page"})
-	pubs := []string{"differ", "no-difference", "first-larger", "second-larger"}
-	f2 := func(x float64) string { return fmt.Sprintf("%.2f", x) }
-	for i := range n {
-		e1, s1 := 0.3+0.2*rng.NormFloat64(), 0.03+0.12*rng.Float64()
-		e2, s2 := 0.2+0.2*rng.NormFloat64(), 0.03+0.12*rng.Float64()
-		w.Write([]string{fmt.Sprintf("S%d", i/4), fmt.Sprintf("c%d", i), pubs[i%4], "test", "a", "or", "g1",
-			f2(1 + e1*e1), f2((1 + e1*e1) * 0.7), f2((1 + e1*e1) * 1.4), fmt.Sprint(50 + rng.IntN(900)), "b", "or", "g2",
-			f2(1 + e2*e2), f2((1 + e2*e2) * (1 - s2)), f2((1 + e2*e2) * (1 + 2*s1)), fmt.Sprint(50 + rng.IntN(900)), "p. 3"})
+	if err := fixtures.WritePairedClaims(f, n, seed); err != nil {
+		tb.Fatal(err)
 	}
-	w.Flush()
 	if err := f.Close(); err != nil {
 		tb.Fatal(err)
 	}
@@ -44,57 +39,317 @@ func writePaired(tb testing.TB, dir string, n int) string {
 }
 
 // TestStreamMatchesWholeAudit checks that a streamed audit of a paired CSV
-// writes exactly what the audit of the whole file writes, with and without
-// the multiplicity adjustment (whose family, a study, is contiguous here).
+// writes exactly what the audit of the whole file writes, as CSV byte for
+// byte and as JSON value for value (the stream writes "summary" after
+// "claims" and the problems in row order), with and without the
+// multiplicity adjustment, on several worker counts.
 func TestStreamMatchesWholeAudit(t *testing.T) {
-	path := writePaired(t, t.TempDir(), 400)
-	for _, adj := range []string{AdjustNone, AdjustHolm} {
+	path := writeLiterature(t, t.TempDir(), 3000, 5)
+	in, err := extract.Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	for _, adj := range []string{AdjustNone, AdjustHolm, AdjustBH} {
 		opts := Options{Adjust: adj}
-		var streamed, whole bytes.Buffer
-		if _, err := StreamPaired(path, opts, NewCSVSink(&streamed)); err != nil {
+		rep := Audit(in, opts)
+		var wholeCSV, wholeJSON bytes.Buffer
+		if err := WriteCSV(&wholeCSV, rep); err != nil {
 			t.Fatal(err)
 		}
-		in, err := extract.Read(path)
-		if err != nil {
+		if err := WriteJSON(&wholeJSON, rep); err != nil {
 			t.Fatal(err)
 		}
-		if err := WriteCSV(&whole, Audit(in, opts)); err != nil {
-			t.Fatal(err)
+		for _, procs := range []int{1, 3} {
+			runtime.GOMAXPROCS(procs)
+			var streamed bytes.Buffer
+			sum, err := StreamPaired(path, opts, NewCSVSink(&streamed))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !bytes.Equal(streamed.Bytes(), wholeCSV.Bytes()) {
+				t.Errorf("adjust %s, %d workers: the streamed CSV differs from the whole-file CSV at byte %d",
+					adj, procs, firstDifference(streamed.Bytes(), wholeCSV.Bytes()))
+			}
+			if !reflect.DeepEqual(sum, rep.Summary) {
+				t.Errorf("adjust %s: streamed summary %v, whole-file %v", adj, sum, rep.Summary)
+			}
+			streamed.Reset()
+			if _, err := StreamPaired(path, opts, NewJSONSink(&streamed)); err != nil {
+				t.Fatal(err)
+			}
+			var got, want map[string]any
+			if err := json.Unmarshal(streamed.Bytes(), &got); err != nil {
+				t.Fatalf("adjust %s: the streamed JSON does not parse: %v", adj, err)
+			}
+			if err := json.Unmarshal(wholeJSON.Bytes(), &want); err != nil {
+				t.Fatal(err)
+			}
+			for _, m := range []map[string]any{got, want} {
+				ps := m["problems"].([]any)
+				slices.SortStableFunc(ps, func(a, b any) int { return strings.Compare(fmt.Sprint(a), fmt.Sprint(b)) })
+			}
+			if !reflect.DeepEqual(got, want) {
+				t.Errorf("adjust %s, %d workers: the streamed JSON differs from the whole-file JSON", adj, procs)
+			}
 		}
-		if !bytes.Equal(streamed.Bytes(), whole.Bytes()) {
-			t.Errorf("adjust %s: the streamed CSV differs from the whole-file CSV", adj)
-		}
+	}
+	if len(Audit(in, DefaultOptions).Problems) == 0 {
+		t.Error("the invented literature has no broken rows; the test needs some")
 	}
 	if !IsPairedCSV(path) || IsPairedCSV(filepath.Dir(path)) {
 		t.Error("IsPairedCSV misjudges a paired CSV or a folder")
 	}
 }
 
-// BenchmarkStreamPaired audits 100,000 paired claims to CSV as a stream;
-// BenchmarkReadSplitPaired only reads and splits the same file with
-// encoding/csv, the baseline of the speed target.
-func BenchmarkStreamPaired(b *testing.B) {
-	path := writePaired(b, b.TempDir(), 100000)
+func firstDifference(a, b []byte) int {
+	for i := range min(len(a), len(b)) {
+		if a[i] != b[i] {
+			return i
+		}
+	}
+	return min(len(a), len(b))
+}
+
+// TestClaimJSONMatchesEncodingJSON checks the hand-written claim encoder
+// against encoding/json (the reference it stands in for) on every claim of
+// the demo and of an invented literature, and on text with every character
+// JSON must escape.
+func TestClaimJSONMatchesEncodingJSON(t *testing.T) {
+	rep, _ := demoReport(t)
+	in, err := extract.Read(writeLiterature(t, t.TempDir(), 500, 9))
+	if err != nil {
+		t.Fatal(err)
+	}
+	claims := append(rep.Claims, Audit(in, Options{Adjust: AdjustHolm}).Claims...)
+	odd := claims[0]
+	odd.Study = "a\"b\\c\x00\x1f\t\n\r\b\f<>&\u2028\u2029\xff\xfe é 😀"
+	odd.Notes = []string{"", "=1+1", odd.Study}
+	odd.Alternatives = []Alternative{{Method: "x", Statistic: 1.5, P: nan}, {Method: "y"}}
+	claims = append(claims, odd)
+	for i := range claims {
+		c := &claims[i]
+		var want bytes.Buffer
+		enc := json.NewEncoder(&want)
+		enc.SetEscapeHTML(false)
+		enc.SetIndent("    ", "  ")
+		if err := enc.Encode(c); err != nil {
+			t.Fatal(err)
+		}
+		got := appendClaimJSON(nil, c, "    ")
+		if w := bytes.TrimSuffix(want.Bytes(), []byte("\n")); !bytes.Equal(got, w) {
+			t.Fatalf("claim %d (%s): appendClaimJSON differs from encoding/json at byte %d:\n%s\nwant\n%s",
+				i, c.Claim, firstDifference(got, w), got, w)
+		}
+	}
+}
+
+// TestCSVEncoderMatchesEncodingCSV checks the CSV field writer against
+// encoding/csv on text that needs quoting, guarding or neither.
+func TestCSVEncoderMatchesEncodingCSV(t *testing.T) {
+	texts := []string{"", "plain", "a,b", `say "x"`, "line\nbreak", "cr\rhere", " lead", "\u00a0nbsp", `\.`,
+		"=SUM(A1)", "+1", "-2", "@x", "\tt", "\rr", "'q", "é", "\xff"}
+	for _, s := range texts {
+		var want bytes.Buffer
+		w := csv.NewWriter(&want)
+		w.Write([]string{safeText(s), s})
+		w.Flush()
+		got := appendCSVField(append(appendSafeText(nil, s), ','), s)
+		if g := string(append(got, '\n')); g != want.String() {
+			t.Errorf("text %q: wrote %q, encoding/csv writes %q", s, g, want.String())
+		}
+	}
+	for _, notes := range [][]string{nil, {}, {""}, {"", "b"}, {"a", ""}, {"=x", "y"}, {" x", "y"}, {"a,b", "c"},
+		{"a", `"q"`}, {"\u00a0a", "b"}, {"-1", "2,3"}, {"\tx", "y"}} {
+		var want bytes.Buffer
+		w := csv.NewWriter(&want)
+		w.Write([]string{safeText(strings.Join(notes, " | "))})
+		w.Flush()
+		if got := string(appendNotesCell(nil, notes)) + "\n"; got != want.String() {
+			t.Errorf("notes %q: wrote %q, encoding/csv writes %q", notes, got, want.String())
+		}
+	}
+}
+
+// TestStreamLongStudy checks that a study longer than MaxStreamFamily
+// claims in a row is adjusted in blocks, with a problem saying where each
+// new block starts, and that every claim is still written once.
+func TestStreamLongStudy(t *testing.T) {
+	n := MaxStreamFamily + 7
+	var b strings.Builder
+	b.WriteString("study,claim,published,first_measure,first_estimate,first_se,second_measure,second_group,second_estimate,second_se\n")
+	for i := range n {
+		fmt.Fprintf(&b, "One,c%d,differ,md,0.%02d,0.10,md,other,0.10,0.10\n", i, i%100)
+	}
+	path := filepath.Join(t.TempDir(), "long.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	sum, err := StreamPaired(path, Options{Adjust: AdjustHolm}, NewJSONSink(&out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		Claims []struct {
+			Claim     string             `json:"claim"`
+			PAdjusted map[string]float64 `json:"p_adjusted"`
+		} `json:"claims"`
+		Problems []Problem `json:"problems"`
+	}
+	if err := json.Unmarshal(out.Bytes(), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Claims != n || len(rep.Claims) != n {
+		t.Fatalf("%d claims in the summary and %d written, want %d", sum.Claims, len(rep.Claims), n)
+	}
+	for i, c := range rep.Claims {
+		if c.Claim != fmt.Sprintf("c%d", i) {
+			t.Fatalf("claim %d is %s", i, c.Claim)
+		}
+	}
+	if len(rep.Problems) != 1 || rep.Problems[0].Row != MaxStreamFamily+2 || rep.Problems[0].Column != "study" {
+		t.Errorf("problems %+v, want one at row %d, column study", rep.Problems, MaxStreamFamily+2)
+	}
+}
+
+// failingWriter fails after a few writes.
+type failingWriter struct{ left int }
+
+var errDiskFull = errors.New("disk full")
+
+func (w *failingWriter) Write(p []byte) (int, error) {
+	if w.left--; w.left < 0 {
+		return 0, errDiskFull
+	}
+	return len(p), nil
+}
+
+// TestStreamStopsOnWriteError checks that a failing output stops the
+// stream with that error, and that every goroutine of the stream ends.
+func TestStreamStopsOnWriteError(t *testing.T) {
+	path := writeLiterature(t, t.TempDir(), 20000, 2)
+	before := runtime.NumGoroutine()
+	for _, sink := range []ClaimSink{NewCSVSink(&failingWriter{left: 3}), NewJSONSink(&failingWriter{left: 3})} {
+		if _, err := StreamPaired(path, DefaultOptions, sink); !errors.Is(err, errDiskFull) {
+			t.Errorf("StreamPaired to a failing writer: error %v, want %v", err, errDiskFull)
+		}
+	}
+	for range 100 {
+		if runtime.NumGoroutine() <= before {
+			return
+		}
+		runtime.Gosched()
+	}
+	if n := runtime.NumGoroutine(); n > before {
+		t.Errorf("%d goroutines left running after the failed streams (%d before)", n-before, before)
+	}
+}
+
+// TestStreamReadError checks that a file that turns unreadable part way
+// (a line beyond the reader's limit) fails the stream with the reader's
+// error after the rows before it.
+func TestStreamReadError(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("study,claim,published,first_estimate,first_se,second_group,second_estimate,second_se\n")
+	for i := range 2000 {
+		fmt.Fprintf(&b, "S%d,c%d,differ,0.5,0.1,g,0.1,0.1\n", i/3, i)
+	}
+	b.WriteString("S,x,differ,0.5,0.1,g," + strings.Repeat("9", extract.MaxLineBytes+10) + ",0.1\n")
+	path := filepath.Join(t.TempDir(), "long-line.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	_, err := StreamPaired(path, DefaultOptions, NewCSVSink(io.Discard))
+	if err == nil || !strings.Contains(err.Error(), "long-line.csv") {
+		t.Errorf("StreamPaired of a file with an overlong line: error %v, want one naming the file", err)
+	}
+}
+
+// The speed target: a million paired claims audited to CSV in at most 3×
+// the time encoding/csv takes merely to read and split the file.
+// BenchmarkStreamMillion reports both, and their ratio as "x-read"; run it
+// with -benchtime 1x. The file (140 MB, fixtures.WritePairedClaims) is
+// written once per run of the benchmarks.
+var millionFile struct {
+	path string
+	dir  string
+}
+
+func millionClaims(b *testing.B) string {
+	if millionFile.path == "" {
+		dir, err := os.MkdirTemp("", "coefaudit-bench-")
+		if err != nil {
+			b.Fatal(err)
+		}
+		millionFile.dir = dir
+		millionFile.path = writeLiterature(b, dir, 1000000, 1)
+	}
+	return millionFile.path
+}
+
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if millionFile.dir != "" {
+		os.RemoveAll(millionFile.dir)
+	}
+	os.Exit(code)
+}
+
+func BenchmarkStreamMillion(b *testing.B) {
+	path := millionClaims(b)
+	read := readAndSplit(b, path) // warms the page cache too
 	b.ResetTimer()
 	for range b.N {
 		if _, err := StreamPaired(path, DefaultOptions, NewCSVSink(io.Discard)); err != nil {
 			b.Fatal(err)
 		}
 	}
+	b.StopTimer()
+	per := b.Elapsed().Seconds() / float64(b.N)
+	b.ReportMetric(per*1e9/1e6, "ns/claim")
+	b.ReportMetric(read, "read-s")
+	b.ReportMetric(per/read, "x-read")
 }
 
-func BenchmarkReadSplitPaired(b *testing.B) {
-	path := writePaired(b, b.TempDir(), 100000)
+func BenchmarkStreamMillionJSON(b *testing.B) {
+	path := millionClaims(b)
 	b.ResetTimer()
 	for range b.N {
-		f, _ := os.Open(path)
-		r := csv.NewReader(f)
-		r.ReuseRecord = true
-		for {
-			if _, err := r.Read(); err != nil {
-				break
-			}
+		if _, err := StreamPaired(path, DefaultOptions, NewJSONSink(io.Discard)); err != nil {
+			b.Fatal(err)
 		}
-		f.Close()
 	}
+	b.ReportMetric(b.Elapsed().Seconds()/float64(b.N)*1e9/1e6, "ns/claim")
+}
+
+// BenchmarkReadSplitMillion only reads and splits the file with
+// encoding/csv, the baseline of the speed target.
+func BenchmarkReadSplitMillion(b *testing.B) {
+	path := millionClaims(b)
+	b.ResetTimer()
+	for range b.N {
+		readAndSplit(b, path)
+	}
+}
+
+// readAndSplit reads path with encoding/csv (records reused, as fast as
+// it goes) and returns the seconds it took.
+func readAndSplit(b *testing.B, path string) float64 {
+	f, err := os.Open(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer f.Close()
+	start := time.Now()
+	r := csv.NewReader(f)
+	r.ReuseRecord = true
+	for {
+		if _, err := r.Read(); err == io.EOF {
+			break
+		} else if err != nil {
+			b.Fatal(err)
+		}
+	}
+	return time.Now().Sub(start).Seconds()
 }

@@ -116,14 +116,15 @@ func (r *ClaimResult) classify(e1, e2 float64, dr, pr infer.Range, how rangeKind
 func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	dc := r.dec
 	dir := direction(dc.e1, dc.e2, float64(r.Difference))
-	dirs := []int{dir}
+	dirs := [2]int{dir, dir}
 	if dc.dr.Contains(0) {
-		dirs = []int{1, -1}
+		dirs = [2]int{1, -1}
 	}
-	seen := map[string]bool{}
-	for _, s := range []bool{pr.Lo < r.Alpha, pr.Hi < r.Alpha} {
+	// The outcomes the verdict could take, at most four.
+	var seen outcomeSet
+	for _, s := range [2]bool{pr.Lo < r.Alpha, pr.Hi < r.Alpha} {
 		for _, dd := range dirs {
-			seen[outcomeAt(r.Published, s, dd)] = true
+			seen.add(outcomeAt(r.Published, s, dd))
 		}
 	}
 	if math.IsNaN(p) {
@@ -137,10 +138,8 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	if math.IsNaN(p) {
 		r.Recomputed = undetermined
 		r.Outcome = Indeterminate
-		if len(seen) == 1 {
-			for o := range seen {
-				r.Outcome = o
-			}
+		if seen.n == 1 {
+			r.Outcome = seen.o[0]
 		}
 	} else {
 		sig := p < r.Alpha
@@ -149,38 +148,98 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	dc.verdictNote, dc.dir, dc.used = len(r.Notes), dir, pr
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
-	if len(seen) > 1 && seen[Consistent] {
+	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
 		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
 			dc.how.phrase(), formatP(pr.Lo), formatP(pr.Hi), formatAlpha(r.Alpha)))
 	}
 }
 
-func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
-	var test string
-	if r.P.Known() {
-		test = fmt.Sprintf("the test of the difference gives %s (difference %s, %g%% CI %s to %s)",
-			pStatement(float64(r.P)), formatNum(float64(r.Difference)), 100*(1-r.Alpha),
-			formatNum(float64(r.DifferenceCI[0])), formatNum(float64(r.DifferenceCI[1])))
-	} else {
-		test = fmt.Sprintf("the difference %s has p from %s to %s", formatNum(float64(r.Difference)), formatP(pr.Lo), formatP(pr.Hi))
+// outcomeSet is a set of outcomes small enough to need no map.
+type outcomeSet struct {
+	o [4]string
+	n int
+}
+
+func (s *outcomeSet) has(o string) bool {
+	for _, x := range s.o[:s.n] {
+		if x == o {
+			return true
+		}
 	}
-	alpha := formatAlpha(r.Alpha)
+	return false
+}
+
+func (s *outcomeSet) add(o string) {
+	if !s.has(o) {
+		s.o[s.n] = o
+		s.n++
+	}
+}
+
+func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
+	// Built by appending: the note is written for every claim, and a
+	// million claims make fmt's cost visible.
+	b := make([]byte, 0, 256)
+	test := func() {
+		if r.P.Known() {
+			b = append(b, "the test of the difference gives "...)
+			b = appendPStatement(b, float64(r.P))
+			b = append(b, " (difference "...)
+			b = appendNum(b, float64(r.Difference))
+			b = append(b, ", "...)
+			b = strconv.AppendFloat(b, 100*(1-r.Alpha), 'g', -1, 64)
+			b = append(b, "% CI "...)
+			b = appendNum(b, float64(r.DifferenceCI[0]))
+			b = append(b, " to "...)
+			b = appendNum(b, float64(r.DifferenceCI[1]))
+			b = append(b, ')')
+			return
+		}
+		b = append(b, "the difference "...)
+		b = appendNum(b, float64(r.Difference))
+		b = append(b, " has p from "...)
+		b = appendP(b, pr.Lo)
+		b = append(b, " to "...)
+		b = appendP(b, pr.Hi)
+	}
+	alpha := func() { b = strconv.AppendFloat(b, r.Alpha, 'g', -1, 64) }
 	switch r.Outcome {
 	case Consistent:
-		return "The verdict stands: " + test + "."
+		b = append(b, "The verdict stands: "...)
+		test()
+		b = append(b, '.')
 	case Unsupported:
-		return fmt.Sprintf("The paper reports a difference, but %s, not below α = %s: the printed numbers do not show one.", test, alpha)
+		b = append(b, "The paper reports a difference, but "...)
+		test()
+		b = append(b, ", not below α = "...)
+		alpha()
+		b = append(b, ": the printed numbers do not show one."...)
 	case Missed:
-		return fmt.Sprintf("The paper reports no difference, but %s, below α = %s.", test, alpha)
+		b = append(b, "The paper reports no difference, but "...)
+		test()
+		b = append(b, ", below α = "...)
+		alpha()
+		b = append(b, '.')
 	case Reversed:
-		return fmt.Sprintf("The paper says the %s estimate is the larger, but the estimates point the other way: %s.", larger(r.Published), test)
+		b = append(b, "The paper says the "...)
+		b = append(b, larger(r.Published)...)
+		b = append(b, " estimate is the larger, but the estimates point the other way: "...)
+		test()
+		b = append(b, '.')
 	case Indeterminate:
-		return "The verdict cannot be decided: " + test + "."
+		b = append(b, "The verdict cannot be decided: "...)
+		test()
+		b = append(b, '.')
 	case Conflict:
-		return "Taking the printed numbers at face value, " + test + "; but they contradict each other, so the verdict cannot be checked as printed."
+		b = append(b, "Taking the printed numbers at face value, "...)
+		test()
+		b = append(b, "; but they contradict each other, so the verdict cannot be checked as printed."...)
+	default:
+		test()
+		b = append(b, '.')
 	}
-	return test + "."
+	return string(b)
 }
 
 func larger(published string) string {
@@ -191,37 +250,45 @@ func larger(published string) string {
 }
 
 // formatNum writes a number with four significant digits.
-func formatNum(x float64) string {
+func formatNum(x float64) string { return string(appendNum(nil, x)) }
+
+func appendNum(b []byte, x float64) []byte {
 	if math.IsNaN(x) {
-		return "NA"
+		return append(b, "NA"...)
 	}
 	if math.IsInf(x, 0) {
 		if x > 0 {
-			return "∞"
+			return append(b, "∞"...)
 		}
-		return "−∞"
+		return append(b, "−∞"...)
 	}
-	return strconv.FormatFloat(x, 'g', 4, 64)
+	return strconv.AppendFloat(b, x, 'g', 4, 64)
 }
 
 // formatP writes a p-value the way reports print them: three decimals,
 // "< 0.001" below that, and two significant digits in the far tail when
 // asked for exactly by pStatement.
-func formatP(p float64) string {
+func formatP(p float64) string { return string(appendP(nil, p)) }
+
+func appendP(b []byte, p float64) []byte {
 	switch {
 	case math.IsNaN(p):
-		return "NA"
+		return append(b, "NA"...)
 	case p < 0.001:
-		return "< 0.001"
+		return append(b, "< 0.001"...)
 	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
+	return strconv.AppendFloat(b, p, 'f', 3, 64)
 }
 
-func pStatement(p float64) string {
+func pStatement(p float64) string { return string(appendPStatement(nil, p)) }
+
+func appendPStatement(b []byte, p float64) []byte {
 	if p < 0.001 {
-		return "p " + formatP(p)
+		b = append(b, "p "...)
+	} else {
+		b = append(b, "p = "...)
 	}
-	return "p = " + formatP(p)
+	return appendP(b, p)
 }
 
 func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }

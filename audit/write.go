@@ -2,11 +2,9 @@ package audit
 
 import (
 	"bufio"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 )
@@ -142,48 +140,35 @@ var csvColumns = []string{"row", "study", "claim", "first", "first_estimate", "f
 // WriteCSV writes one row per claim. Text cells that a spreadsheet would
 // evaluate as a formula are prefixed with an apostrophe.
 func WriteCSV(w io.Writer, rep *Report) error {
-	cw := csv.NewWriter(w)
+	bw := bufio.NewWriterSize(w, 1<<16)
 	extra := extraColumns(rep)
-	header := append(append([]string{}, csvColumns...), extra...)
-	if err := cw.Write(header); err != nil {
-		return err
-	}
+	bw.Write(appendCSVHeader(nil, extra))
+	var buf []byte
 	for i := range rep.Claims {
-		if err := cw.Write(csvRecord(&rep.Claims[i], extra)); err != nil {
+		buf = appendCSVClaim(buf[:0], &rep.Claims[i], extra)
+		if _, err := bw.Write(buf); err != nil {
 			return err
 		}
 	}
-	cw.Flush()
-	return cw.Error()
+	return bw.Flush()
 }
 
-// csvRecord is one claim's CSV row, with the claims row's own unknown
-// columns named in extra after the result columns.
-func csvRecord(c *ClaimResult, extra []string) []string {
-	op, oip := nan, nan
-	if c.Overlap != nil {
-		op, oip = c.Overlap.Proportion, c.Overlap.ImpliedP
-	}
-	rec := []string{strconv.Itoa(c.Row), safeText(c.Study), safeText(c.Claim),
-		safeText(c.First.Label), num(c.First.Estimate), num(c.First.SE), safeText(c.First.SEFrom),
-		safeText(c.Second.Label), num(c.Second.Estimate), num(c.Second.SE), safeText(c.Second.SEFrom),
-		c.Relation, c.Method, c.Scale, num(c.Difference), num(c.DifferenceSE), num(c.DifferenceCI[0]),
-		num(c.DifferenceCI[1]), num(c.Statistic), num(c.DF), num(c.P), num(c.PRange[0]), num(c.PRange[1]),
-		strconv.FormatFloat(c.Alpha, 'g', -1, 64), c.Basis, c.Published, c.Recomputed, c.Outcome,
-		num(op), num(oip), safeText(strings.Join(c.Notes, " | "))}
-	for _, name := range extra {
-		v := ""
-		for i, n := range c.ExtraNames {
-			if n == name {
-				v = c.ExtraValues[i]
-			}
+// appendCSVHeader appends the CSV report's header row.
+func appendCSVHeader(dst []byte, extra []string) []byte {
+	for i, name := range csvColumns {
+		if i > 0 {
+			dst = append(dst, ',')
 		}
-		rec = append(rec, safeText(v))
+		dst = appendCSVField(dst, name)
 	}
-	return rec
+	for _, name := range extra {
+		dst = appendCSVField(append(dst, ','), name)
+	}
+	return append(dst, '\n')
 }
 
-// extraColumns lists the claims rows' unknown columns in first-seen order.
+// extraColumns lists the claims rows' unknown columns in first-seen order,
+// leaving out names the report's own columns already use.
 func extraColumns(rep *Report) []string {
 	seen := map[string]bool{}
 	for _, c := range csvColumns {
@@ -191,21 +176,19 @@ func extraColumns(rep *Report) []string {
 	}
 	var out []string
 	for _, c := range rep.Claims {
-		for _, n := range c.ExtraNames {
-			if !seen[n] {
-				seen[n] = true
-				out = append(out, n)
-			}
-		}
+		out = appendUnseen(out, c.ExtraNames, seen)
 	}
 	return out
 }
 
-func num(n Number) string {
-	if !n.Known() {
-		return ""
+func appendUnseen(out, names []string, seen map[string]bool) []string {
+	for _, n := range names {
+		if !seen[n] {
+			seen[n] = true
+			out = append(out, n)
+		}
 	}
-	return strconv.FormatFloat(float64(n), 'g', 10, 64)
+	return out
 }
 
 // safeText keeps a spreadsheet from evaluating a text cell: a leading =, +,

@@ -367,10 +367,8 @@ func writeClaimsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extract.Inp
 // adjustedP is the claim's p adjusted within its study by method, NaN
 // when there is none.
 func adjustedP(c *ClaimResult, method string) Number {
-	if q, ok := c.AdjustedP[method]; ok {
-		return q
-	}
-	return nan
+	q, _ := c.AdjustedP.By(method)
+	return q
 }
 
 func overlapProportion(c *ClaimResult) Number {
