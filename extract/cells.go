@@ -176,8 +176,27 @@ func (r *rowReading) cell(i int) sheetCell {
 	return r.cells[i]
 }
 
-// text returns the trimmed text of column i ("" when absent).
-func (r *rowReading) text(i int) string { return trimSpace(r.cell(i).shown()) }
+// text returns the trimmed text of column i ("" when absent). It is small
+// enough to be inlined, so that the many absent columns of a row cost no
+// call.
+func (r *rowReading) text(i int) string {
+	if i < 0 || i >= len(r.cells) {
+		return ""
+	}
+	return r.cells[i].trimmed()
+}
+
+// trimmed returns what a person sees in the cell, trimmed.
+func (c *sheetCell) trimmed() string {
+	s := c.Text
+	if c.Numeric {
+		s = c.Display
+	}
+	if isTrimmed(s) {
+		return s
+	}
+	return trimSpace(s)
+}
 
 // fail records a problem with column i (or with the row when i < 0).
 func (r *rowReading) fail(i int, err error) {
@@ -213,18 +232,66 @@ const (
 // number reads column i as a number of the given kind; a problem leaves an
 // Absent value.
 func (r *rowReading) number(i int, kind numberKind) Printed {
-	p, err := cellNumber(r.cell(i), kind)
+	var p Printed
+	r.numberInto(&p, i, kind)
+	return p
+}
+
+// numberInto is number writing into dst, which must be the zero Printed
+// (Absent). A plain numeral in a text cell, nearly every cell of a large
+// input, is read in place; cellNumber reads it the same way.
+func (r *rowReading) numberInto(dst *Printed, i int, kind numberKind) {
+	// Small enough to be inlined: a missing column reads as a blank cell,
+	// Absent, at no cost.
+	if i >= 0 && i < len(r.cells) {
+		r.cellNumberInto(dst, i, kind)
+	}
+}
+
+// cellNumberInto is numberInto for a column of the row.
+func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
+	c := &r.cells[i]
+	if !c.Numeric {
+		s := c.Text
+		if !isTrimmed(s) {
+			s = trimSpace(s)
+		}
+		if s == "" {
+			return
+		}
+		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
+			dst.Value, dst.Decimals, dst.Bound, dst.Text = v, dec, Exact, s
+			return
+		}
+	}
+	p, err := cellNumberGeneral(*c, kind)
 	if err != nil {
 		r.fail(i, err)
-		return Printed{Bound: Absent}
+		return
 	}
-	return p
+	*dst = p
 }
 
 // cellNumber reads a cell as a number. A text cell is parsed as written. A
 // numeric cell takes its value from the stored number and its decimals from
 // the displayed text, with DecimalsFromDisplay set.
 func cellNumber(c sheetCell, kind numberKind) (Printed, error) {
+	if !c.Numeric {
+		// The common plain numeral, read as every kind reads it (a p must
+		// lie in [0, 1]); cellNumberGeneral gives the same.
+		s := trimSpace(c.Text)
+		if s == "" {
+			return Printed{Bound: Absent}, nil
+		}
+		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
+			return Printed{Value: v, Decimals: dec, Bound: Exact, Text: s}, nil
+		}
+	}
+	return cellNumberGeneral(c, kind)
+}
+
+// cellNumberGeneral is cellNumber for any cell.
+func cellNumberGeneral(c sheetCell, kind numberKind) (Printed, error) {
 	if !c.Numeric {
 		switch kind {
 		case kindLimit:

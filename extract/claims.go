@@ -20,7 +20,14 @@ func lookupClaimColumns(c *columns) claimColumns {
 // readClaim reads the claim-level fields of a row. withLabels is false for a
 // paired CSV, whose labels are made by the reader.
 func readClaim(r *rowReading, cc *claimColumns, withLabels bool) Claim {
-	c := Claim{Position: r.pos}
+	var c Claim
+	readClaimInto(r, cc, withLabels, &c)
+	return c
+}
+
+// readClaimInto is readClaim writing into c, which must be the zero Claim.
+func readClaimInto(r *rowReading, cc *claimColumns, withLabels bool, c *Claim) {
+	c.Position = r.pos
 	c.Study = r.requiredText(cc.study, "study")
 	c.Claim = r.requiredText(cc.claim, "claim")
 	if withLabels {
@@ -37,7 +44,7 @@ func readClaim(r *rowReading, cc *claimColumns, withLabels bool) Claim {
 			c.Published = v
 		}
 	}
-	c.PublishedP = r.number(cc.publishedP, kindP)
+	r.numberInto(&c.PublishedP, cc.publishedP, kindP)
 	c.Basis = BasisUnstated
 	if t := r.text(cc.basis); t != "" {
 		if v, err := allowedValue("basis", t); err != nil {
@@ -55,13 +62,12 @@ func readClaim(r *rowReading, cc *claimColumns, withLabels bool) Claim {
 			c.Alpha = a
 		}
 	}
-	c.EstimateCorr = r.number(cc.estimateCorr, kindLimit)
+	r.numberInto(&c.EstimateCorr, cc.estimateCorr, kindLimit)
 	if c.EstimateCorr.Present() && math.Abs(c.EstimateCorr.Value) > 1 {
 		r.fail(cc.estimateCorr, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.EstimateCorr.Text, ErrOutOfRange))
 		c.EstimateCorr = Printed{Bound: Absent}
 	}
 	c.Topic = r.text(cc.topic)
-	return c
 }
 
 // parseAlpha reads a significance level in (0, 1); "5%" is read as 0.05. A

@@ -54,7 +54,10 @@ type limitReader struct {
 	lineLen     int64
 	delivered   int64
 	recordStart int64
-	err         error
+	// sawNUL is set once a NUL byte has been delivered; until then no
+	// field can hold one and fill need not look.
+	sawNUL bool
+	err    error
 }
 
 func (l *limitReader) Read(p []byte) (int, error) {
@@ -63,6 +66,9 @@ func (l *limitReader) Read(p []byte) (int, error) {
 	}
 	n, err := l.r.Read(p)
 	chunk := p[:n]
+	if !l.sawNUL && bytes.IndexByte(chunk, 0) >= 0 {
+		l.sawNUL = true
+	}
 	for len(chunk) > 0 {
 		i := bytes.IndexByte(chunk, '\n')
 		if i < 0 {
@@ -147,6 +153,9 @@ type csvSource struct {
 	r        *csv.Reader
 	closer   io.Closer
 	lastLine int // the line on which the last record ended
+	// recordEnd is the input offset at the end of the last record, to
+	// bound the length of the fields of the next.
+	recordEnd int64
 }
 
 // newCSVSource prepares a CSV stream: a UTF-8 byte order mark is dropped, a
@@ -299,13 +308,33 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 	if row.Fields == 0 {
 		row.Fields = 1
 	}
-	row.Cells = row.Cells[:0]
 	if len(rec) > MaxColumns {
 		if row.Problem == nil {
 			row.Problem = fmt.Errorf("the row has %d fields; only the first %d are read: %w", len(rec), MaxColumns, ErrInputTooLarge)
 		}
 		rec = rec[:MaxColumns]
 	}
+	// The cells are stored one field at a time into a slice of the right
+	// length, not appended: a row's slice lives on the heap, and append
+	// would store its header and copy a whole cell through the write
+	// barrier for every field.
+	cells := row.Cells
+	if cap(cells) < len(rec) {
+		cells = make([]sheetCell, len(rec))
+	}
+	cells = cells[:len(rec)]
+	if !s.lim.sawNUL && s.r.InputOffset()-s.recordEnd <= MaxFieldBytes {
+		// No field can hold a NUL or be longer than the record: nothing
+		// to check, the common case.
+		s.recordEnd = s.r.InputOffset()
+		for i, f := range rec {
+			cells[i].setText(f)
+		}
+		row.Cells = cells
+		return nil
+	}
+	s.recordEnd = s.r.InputOffset()
+	sawNUL := s.lim.sawNUL
 	for i, f := range rec {
 		switch {
 		case len(f) > MaxFieldBytes:
@@ -313,15 +342,24 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 				row.Problem = &fieldError{i, fmt.Errorf("field %d is longer than %d MiB and is read as blank: %w", i+1, MaxFieldBytes>>20, ErrInputTooLarge)}
 			}
 			f = ""
-		case strings.IndexByte(f, 0) >= 0:
+		case sawNUL && strings.IndexByte(f, 0) >= 0:
 			if row.Problem == nil {
 				row.Problem = &fieldError{i, fmt.Errorf("field %d holds a NUL byte, which no text has (is the file damaged?); it is read as blank: %w", i+1, ErrUnsupportedInput)}
 			}
 			f = ""
 		}
-		row.Cells = append(row.Cells, sheetCell{Text: f})
+		cells[i].setText(f)
 	}
+	row.Cells = cells
 	return nil
+}
+
+// setText makes c the text cell f, writing only the fields that change.
+func (c *sheetCell) setText(f string) {
+	c.Text = f
+	if c.Numeric || c.Display != "" {
+		c.Display, c.Numeric = "", false
+	}
 }
 
 // Close closes the file.

@@ -35,8 +35,12 @@ type PairedClaim struct {
 
 // PairedReader streams a paired CSV, one claim per row with both
 // coefficients inline, for files too large to hold (a million claims). It
-// reuses its buffers: the strings of one PairedClaim share one allocation,
-// and a row allocates nothing else unless it has problems or unknown columns.
+// reuses its buffers: the cells of one row share one allocation, the two
+// labels another, and a row allocates nothing else unless it has problems
+// or unknown columns. What Next returns is the caller's alone: its strings
+// never change and its slices (Problems, Extra) belong to no other claim
+// and are never written by the reader again, so claims may be handed to
+// other goroutines while the reader goes on.
 //
 // The coefficients' labels are "<claim>/<label>", where label is the
 // first_label (second_label) cell or, when blank, "first" ("second"); so
@@ -109,30 +113,40 @@ func (p *PairedReader) Problems() []*CellError { return p.cols.problems }
 // Next returns the next claim with its two coefficients, skipping blank
 // rows, and io.EOF after the last. Any other error (an input beyond the
 // limits, a read error) is returned again by every later call.
-func (p *PairedReader) Next() (PairedClaim, error) {
+func (p *PairedReader) Next() (pc PairedClaim, err error) {
+	// pc is named so that the claim is built in the result itself rather
+	// than built and then copied (it is some 1.7 kB).
+	err = p.ReadInto(&pc)
+	return pc, err
+}
+
+// ReadInto is Next writing the claim into *pc, which it overwrites whole:
+// a caller holding many claims saves copying each. On an error *pc is the
+// zero PairedClaim.
+func (p *PairedReader) ReadInto(pc *PairedClaim) error {
+	*pc = PairedClaim{}
 	if p.err != nil {
-		return PairedClaim{}, p.err
+		return p.err
 	}
 	for {
 		if err := p.src.Next(&p.row); err != nil {
 			p.err = err
-			return PairedClaim{}, err
+			return err
 		}
 		if !p.row.blank() {
 			break
 		}
 	}
-	var pc PairedClaim
 	rr := &p.rr
 	rr.start(p.cols, &p.row, Position{File: p.name})
-	pc.Claim = readClaim(rr, &p.claim, false)
+	readClaimInto(rr, &p.claim, false, &pc.Claim)
 	pc.Claim.Extra = rr.extra()
 	claimProblems := rr.problems
 
 	rr.problems = nil
-	pc.First = readCoefficient(rr, &p.first)
+	readCoefficientInto(rr, &p.first, &pc.First)
 	rr.problems = nil
-	pc.Second = readCoefficient(rr, &p.second)
+	readCoefficientInto(rr, &p.second, &pc.Second)
 	pc.First.Study, pc.Second.Study = pc.Claim.Study, pc.Claim.Study
 	pc.First.Label, pc.Second.Label = pairedLabels(pc.Claim.Claim, pc.First.Label, pc.Second.Label)
 	pc.Claim.First, pc.Claim.Second = pc.First.Label, pc.Second.Label
@@ -142,7 +156,7 @@ func (p *PairedReader) Next() (PairedClaim, error) {
 		claimProblems = rr.problems
 	}
 	pc.Claim.Problems = claimProblems
-	return pc, nil
+	return nil
 }
 
 // pairedLabels makes the two labels of a claim unique per claim,
@@ -155,8 +169,16 @@ func pairedLabels(claim, first, second string) (string, string) {
 	if second == "" {
 		second = "second"
 	}
-	both := claim + "/" + first + claim + "/" + second
 	n := len(claim) + 1 + len(first)
+	var b strings.Builder
+	b.Grow(n + len(claim) + 1 + len(second))
+	b.WriteString(claim)
+	b.WriteByte('/')
+	b.WriteString(first)
+	b.WriteString(claim)
+	b.WriteByte('/')
+	b.WriteString(second)
+	both := b.String()
 	return both[:n], both[n:]
 }
 

@@ -6,7 +6,11 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"reflect"
+	"runtime"
+	"strconv"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -164,5 +168,231 @@ func BenchmarkPairedReader(b *testing.B) {
 			rows++
 		}
 		b.ReportMetric(float64(rows), "rows/op")
+	}
+}
+
+// pairedMixed writes a paired CSV of n made-up rows with two unknown
+// columns, cycling through clean rows and rows with problems of each kind:
+// a malformed number, an unknown verdict, a label given twice, a short
+// (ragged) row, values out of range, an ambiguous comma, reversed limits.
+func pairedMixed(n int) []byte {
+	var b bytes.Buffer
+	b.WriteString("study,claim,published,basis,comment,first_label,first_estimate,first_ci_low,first_ci_high,first_n,second_label,second_estimate,second_se,second_p,page\n")
+	for i := range n {
+		est, pub, first, second, tail := "0.4"+strconv.Itoa(i%10), "differ", "a", "b", ",0.2"+strconv.Itoa(i%10)+",0.05,.03,p"+strconv.Itoa(i)
+		lo, hi, n := "0.21", "0.60", "1"+strconv.Itoa(i)
+		switch i % 8 {
+		case 1:
+			est = "abc"
+		case 2:
+			pub = "sometimes"
+		case 3:
+			first, second = "x", "x"
+		case 4:
+			tail = ""
+		case 5:
+			tail, n = ",0.3,0.05,1.5,p"+strconv.Itoa(i), "0"
+		case 6:
+			est = `"1,234"`
+		case 7:
+			lo, hi = "0.60", "0.21"
+		}
+		fmt.Fprintf(&b, "s%d,c%d,%s,test,\"note %d, kept\",%s,%s,%s,%s,%s,%s%s\n", i%3, i, pub, i, first, est, lo, hi, n, second, tail)
+	}
+	return b.Bytes()
+}
+
+// snapshotPaired copies every slice of pc and every problem it points to,
+// so that a later change to pc's memory shows as a difference.
+func snapshotPaired(pc PairedClaim) PairedClaim {
+	problems := func(ps []*CellError) []*CellError {
+		if ps == nil {
+			return nil
+		}
+		out := make([]*CellError, len(ps))
+		for i, p := range ps {
+			c := *p
+			out[i] = &c
+		}
+		return out
+	}
+	extra := func(e Extra) Extra {
+		return Extra{Names: append([]string(nil), e.Names...), Values: append([]string(nil), e.Values...)}
+	}
+	pc.Claim.Problems, pc.Claim.Extra = problems(pc.Claim.Problems), extra(pc.Claim.Extra)
+	pc.First.Problems, pc.First.Extra = problems(pc.First.Problems), extra(pc.First.Extra)
+	pc.Second.Problems, pc.Second.Extra = problems(pc.Second.Problems), extra(pc.Second.Extra)
+	return pc
+}
+
+// pairedSlices returns the slices of pc that a caller may write to.
+func pairedSlices(pc *PairedClaim) (problems [][]*CellError, texts [][]string) {
+	problems = [][]*CellError{pc.Claim.Problems, pc.First.Problems, pc.Second.Problems}
+	texts = [][]string{pc.Claim.Extra.Names, pc.Claim.Extra.Values, pc.First.Extra.Names, pc.First.Extra.Values,
+		pc.Second.Extra.Names, pc.Second.Extra.Values}
+	return problems, texts
+}
+
+// describePaired shows the slices of pc for failure messages (Position's
+// String method hides the rest from %+v).
+func describePaired(pc PairedClaim) string {
+	return fmt.Sprintf("row %d: claim extra %q problems%s; first extra %q problems%s; second extra %q problems%s",
+		pc.Claim.Row, pc.Claim.Extra, problemTexts(pc.Claim.Problems), pc.First.Extra, problemTexts(pc.First.Problems),
+		pc.Second.Extra, problemTexts(pc.Second.Problems))
+}
+
+// equalPaired compares two claims, problems by what they say.
+func equalPaired(a, b PairedClaim) bool {
+	return reflect.DeepEqual(snapshotPaired(a), snapshotPaired(b))
+}
+
+// A PairedClaim must share no memory that can change with what later calls
+// of Next return: the audit keeps claims on other goroutines while the
+// reader goes on. The reader must neither rewrite what it returned nor hand
+// two rows the same slice (writing to one row, capacity included, must
+// leave every other row as it was).
+func TestPairedReaderRowsShareNothing(t *testing.T) {
+	const n = 48
+	read := func() ([]PairedClaim, []PairedClaim) {
+		pr, err := NewPairedReader(bytes.NewReader(pairedMixed(n)), "mixed.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		var kept, snaps []PairedClaim
+		for {
+			pc, err := pr.Next()
+			if err == io.EOF {
+				break
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			kept, snaps = append(kept, pc), append(snaps, snapshotPaired(pc))
+		}
+		return kept, snaps
+	}
+	kept, snaps := read()
+	if len(kept) != n {
+		t.Fatalf("read %d rows, want %d", len(kept), n)
+	}
+	withProblems := 0
+	for i := range kept {
+		if !equalPaired(kept[i], snaps[i]) {
+			t.Errorf("row %d changed while later rows were read:\n got %s\nwant %s", kept[i].Claim.Row, describePaired(kept[i]), describePaired(snaps[i]))
+		}
+		if len(kept[i].Claim.Problems)+len(kept[i].First.Problems)+len(kept[i].Second.Problems) > 0 {
+			withProblems++
+		}
+		wantPage := "p" + strconv.Itoa(i)
+		if i%8 == 4 {
+			wantPage = "" // the short row
+		}
+		if e := kept[i].Claim.Extra; len(e.Values) != 2 || e.Values[0] != "note "+strconv.Itoa(i)+", kept" || e.Values[1] != wantPage {
+			t.Errorf("row %d Extra = %+v, want the comment and page columns", kept[i].Claim.Row, e)
+		}
+	}
+	if withProblems != n*7/8 {
+		t.Errorf("%d rows with problems, want %d (all but the clean ones)", withProblems, n*7/8)
+	}
+
+	// Write over every slice of one row, up to its capacity, and check the
+	// others; a fresh read for each row keeps the rows independent.
+	poison := &CellError{Err: errors.New("poison")}
+	for i := 0; i < n; i++ {
+		kept, snaps := read()
+		problems, texts := pairedSlices(&kept[i])
+		for _, ps := range problems {
+			ps = ps[:cap(ps)]
+			for k := range ps {
+				ps[k] = poison
+			}
+		}
+		for _, ts := range texts {
+			ts = ts[:cap(ts)]
+			for k := range ts {
+				ts[k] = "poison"
+			}
+		}
+		for j := range kept {
+			if j != i && !equalPaired(kept[j], snaps[j]) {
+				t.Fatalf("writing to the slices of row %d changed row %d:\n got %s\nwant %s", kept[i].Claim.Row, kept[j].Claim.Row, describePaired(kept[j]), describePaired(snaps[j]))
+			}
+		}
+	}
+}
+
+// The same from goroutines: a reader streams rows to workers that check
+// each against a row read apart and then write over its slices, as an audit
+// might. Run with -race, any memory the rows share with the reader or with
+// each other is reported.
+func TestPairedReaderConcurrentConsumers(t *testing.T) {
+	const n = 400
+	data := pairedMixed(n)
+	want := make([]PairedClaim, 0, n)
+	pr, err := NewPairedReader(bytes.NewReader(data), "mixed.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for {
+		pc, err := pr.Next()
+		if err != nil {
+			break
+		}
+		want = append(want, snapshotPaired(pc))
+	}
+	type job struct {
+		i  int
+		pc PairedClaim
+	}
+	jobs := make(chan job, 8)
+	go func() {
+		defer close(jobs)
+		pr, err := NewPairedReader(bytes.NewReader(data), "mixed.csv")
+		if err != nil {
+			return
+		}
+		for i := 0; ; i++ {
+			pc, err := pr.Next()
+			if err != nil {
+				return
+			}
+			jobs <- job{i, pc}
+		}
+	}()
+	var wg sync.WaitGroup
+	bad := make(chan string, n)
+	seen := make(chan int, n)
+	for range 4 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for j := range jobs {
+				runtime.Gosched() // let the reader go on to later rows first
+				if !equalPaired(j.pc, want[j.i]) {
+					bad <- fmt.Sprintf("row %d = %s, want %s", j.pc.Claim.Row, describePaired(j.pc), describePaired(want[j.i]))
+				}
+				problems, texts := pairedSlices(&j.pc)
+				for _, ps := range problems {
+					for k := range ps {
+						ps[k] = nil
+					}
+				}
+				for _, ts := range texts {
+					for k := range ts {
+						ts[k] = ""
+					}
+				}
+				seen <- j.i
+			}
+		}()
+	}
+	wg.Wait()
+	close(bad)
+	close(seen)
+	for msg := range bad {
+		t.Error(msg)
+	}
+	if len(seen) != n {
+		t.Errorf("workers saw %d rows, want %d", len(seen), n)
 	}
 }

@@ -103,7 +103,23 @@ const (
 	numberLimit
 )
 
+// parsePrinted reads a printed number: the common plain numeral by
+// plainNumeral, anything else by parsePrintedGeneral, which gives the same
+// result for a plain numeral too (a test checks that they agree).
 func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
+	s := trimSpace(text)
+	if s == "" {
+		return Printed{Bound: Absent}, nil
+	}
+	if v, dec, ok := plainNumeral(s); ok {
+		return Printed{Value: v, Decimals: dec, Bound: Exact, Text: s}, nil
+	}
+	return parsePrintedGeneral(s, mode, kind)
+}
+
+// parsePrintedGeneral reads any printed number ParseNumber and ParseCount
+// accept.
+func parsePrintedGeneral(text string, mode numberMode, kind error) (Printed, error) {
 	s := trimSpace(text)
 	if s == "" {
 		return Printed{Bound: Absent}, nil
@@ -129,10 +145,17 @@ func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
 // trimSpace trims white space, including the non-breaking and thin spaces
 // that typeset tables carry into copied text.
 func trimSpace(s string) string {
-	if s == "" || (s[0] > ' ' && s[0] < 0x80 && s[len(s)-1] > ' ' && s[len(s)-1] < 0x80) {
+	if isTrimmed(s) {
 		return s
 	}
 	return strings.TrimFunc(s, isSpace)
+}
+
+// isTrimmed reports a string that trimSpace returns as it is because it
+// starts and ends with a visible ASCII byte (0x21 to 0x7f), as nearly every
+// cell does. It is small enough to be inlined where every cell passes.
+func isTrimmed(s string) bool {
+	return s == "" || (s[0]-0x21 < 0x5f && s[len(s)-1]-0x21 < 0x5f)
 }
 
 func isSpace(r rune) bool {

@@ -70,8 +70,17 @@ func (p Printed) HalfUnit() float64 {
 	if p.Decimals < 0 {
 		return 0
 	}
+	if p.Decimals < len(negativePow10) {
+		return 0.5 * negativePow10[p.Decimals]
+	}
 	return 0.5 * math.Pow(10, -float64(p.Decimals))
 }
+
+// negativePow10 holds 10^−d for the decimals numbers are printed with: the
+// float64 nearest each, which is what math.Pow(10, −d) returns for them (a
+// test checks it), without its cost on every printed number.
+var negativePow10 = [...]float64{1, 1e-1, 1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10,
+	1e-11, 1e-12, 1e-13, 1e-14, 1e-15, 1e-16, 1e-17, 1e-18, 1e-19, 1e-20, 1e-21, 1e-22}
 
 // RoundingInterval returns the interval of true values that print as p:
 // [Value − h, Value + h] with h = HalfUnit(). For Below it is

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"coefaudit/infer"
 )
@@ -73,44 +74,22 @@ func Reconstruct(c Coefficient, modelSize int) (Reconstructed, error) {
 	if c.N.IsExact() {
 		rc.N = c.N.Value
 	}
-	transform := func(x float64) float64 { return x }
 	switch {
 	case IsRatioMeasure(c.Measure):
 		rc.Scale = ScaleLog
-		transform = math.Log
 	case c.Measure == MeasureR:
 		rc.Scale = ScaleFisherZ
-		transform = math.Atanh
-	}
-	tr := func(p Printed) (float64, infer.Range, error) {
-		lo, hi := p.RoundingInterval()
-		v, a, b := transform(p.Value), transform(lo), transform(hi)
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return 0, infer.Range{}, fmt.Errorf("%s %s cannot be put on the %s scale", c.Measure, p.Text, rc.Scale)
-		}
-		// Rounding may push a limit past the scale's edge (a ratio printed as 0.00, r = 1.00).
-		if math.IsNaN(a) || math.IsInf(a, 0) {
-			a = v
-		}
-		if math.IsNaN(b) || math.IsInf(b, 0) {
-			b = v
-		}
-		return v, infer.Range{Lo: a, Hi: b}, nil
 	}
 	var err error
-	rc.Estimate, rc.EstimateRange, err = tr(c.Estimate)
+	rc.Estimate, rc.EstimateRange, err = rc.onScale(c.Measure, c.Estimate)
 	if err != nil {
 		return rc, err
 	}
 	rc.DF = chooseDF(c, modelSize, &rc)
-	tName := "normal"
-	if !math.IsNaN(rc.DF) {
-		tName = fmt.Sprintf("t, df %g", rc.DF)
-	}
 
 	if c.CI.Present() {
-		lo, _, err1 := tr(c.CI.Low)
-		hi, _, err2 := tr(c.CI.High)
+		lo, _, err1 := rc.onScale(c.Measure, c.CI.Low)
+		hi, _, err2 := rc.onScale(c.Measure, c.CI.High)
 		if err := errors.Join(err1, err2); err != nil {
 			return rc, err
 		}
@@ -138,13 +117,13 @@ func Reconstruct(c Coefficient, modelSize int) (Reconstructed, error) {
 			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the printed SE is taken to be on the %s scale", c.Label, rc.Scale))
 		}
 	case c.CI.Present():
-		if err := rc.fromInterval(c, tr, tName); err != nil {
+		if err := rc.fromInterval(c); err != nil {
 			return rc, err
 		}
 	case c.Stat.IsExact() && c.Stat.Value != 0:
 		rc.fromStatistic(c)
 	case c.P.IsExact() || c.P.Bound == Below:
-		if err := rc.fromP(c, tName); err != nil {
+		if err := rc.fromP(c); err != nil {
 			return rc, err
 		}
 	default:
@@ -155,6 +134,63 @@ func Reconstruct(c Coefficient, modelSize int) (Reconstructed, error) {
 		return rc, fmt.Errorf("%w: %s", ErrNoStandardError, what)
 	}
 	return rc, nil
+}
+
+// onScale puts a printed number and its rounding interval on the
+// analysis scale (the identity, the log or Fisher's z).
+func (rc *Reconstructed) onScale(measure string, p Printed) (float64, infer.Range, error) {
+	lo, hi := p.RoundingInterval()
+	v, a, b := rc.transform(p.Value), rc.transform(lo), rc.transform(hi)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, infer.Range{}, fmt.Errorf("%s %s cannot be put on the %s scale", measure, p.Text, rc.Scale)
+	}
+	// Rounding may push a limit past the scale's edge (a ratio printed as 0.00, r = 1.00).
+	if math.IsNaN(a) || math.IsInf(a, 0) {
+		a = v
+	}
+	if math.IsNaN(b) || math.IsInf(b, 0) {
+		b = v
+	}
+	return v, infer.Range{Lo: a, Hi: b}, nil
+}
+
+// transform maps x to the analysis scale.
+func (rc *Reconstructed) transform(x float64) float64 {
+	switch rc.Scale {
+	case ScaleLog:
+		return math.Log(x)
+	case ScaleFisherZ:
+		return math.Atanh(x)
+	}
+	return x
+}
+
+// namedQuantile is what+" (normal)" or what+" (t, df 568)": the printed
+// numbers an SE came from and the quantile it was scaled by. It builds the
+// string that fmt.Sprintf("%s (t, df %g)", what, df) would, in one
+// allocation; strconv's shortest 'g' format is what %g prints for a
+// float64 (a test checks that they agree).
+func namedQuantile(what string, df float64) string {
+	if math.IsNaN(df) {
+		switch what {
+		// The common ones, without allocating.
+		case "ci_low, ci_high":
+			return "ci_low, ci_high (normal)"
+		case "ci":
+			return "ci (normal)"
+		case "estimate, p":
+			return "estimate, p (normal)"
+		case "estimate, p bound":
+			return "estimate, p bound (normal)"
+		}
+		return what + " (normal)"
+	}
+	var buf [96]byte
+	b := append(buf[:0], what...)
+	b = append(b, " (t, df "...)
+	b = strconv.AppendFloat(b, df, 'g', -1, 64)
+	b = append(b, ')')
+	return string(b)
 }
 
 // smallDF is the df below which a derived df is worth a note: above it the
@@ -189,9 +225,9 @@ func chooseDF(c Coefficient, modelSize int, rc *Reconstructed) float64 {
 	return math.NaN()
 }
 
-func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, infer.Range, error), tName string) error {
-	_, loR, _ := tr(c.CI.Low)
-	_, hiR, _ := tr(c.CI.High)
+func (rc *Reconstructed) fromInterval(c Coefficient) error {
+	_, loR, _ := rc.onScale(c.Measure, c.CI.Low)
+	_, hiR, _ := rc.onScale(c.Measure, c.CI.High)
 	lo, hi := rc.CI[0], rc.CI[1]
 	if !(lo < hi) {
 		return fmt.Errorf("%w: interval limits %s and %s are reversed or equal", ErrNoStandardError, c.CI.Low.Text, c.CI.High.Text)
@@ -206,7 +242,6 @@ func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, 
 	if c.CI.OneCell {
 		from = "ci"
 	}
-	rc.SEFrom = fmt.Sprintf("%s (%s)", from, tName)
 	rc.SEExactRange = true
 	// An asymmetric interval is no error (bootstrap and profile intervals are
 	// asymmetric): the range always covers the SE read from either half, and
@@ -222,10 +257,12 @@ func (rc *Reconstructed) fromInterval(c Coefficient, tr func(Printed) (float64, 
 		if rc.Scale != ScaleAsPrinted {
 			scale = " on the " + rc.Scale + " scale"
 		}
-		rc.SEFrom = fmt.Sprintf("%s, mean of the two half-widths (%s)", from, tName)
+		rc.SEFrom = namedQuantile(from+", mean of the two half-widths", rc.DF)
 		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: asymmetric interval%s (SE %.4g from the lower half, %.4g from the upper); the SE is their mean and the p range covers both",
 			c.Label, scale, seLo, seHi))
+		return nil
 	}
+	rc.SEFrom = namedQuantile(from, rc.DF)
 	return nil
 }
 
@@ -244,7 +281,7 @@ func (rc *Reconstructed) fromStatistic(c Coefficient) {
 	}
 }
 
-func (rc *Reconstructed) fromP(c Coefficient, tName string) error {
+func (rc *Reconstructed) fromP(c Coefficient) error {
 	q := func(p float64) (float64, error) {
 		if math.IsNaN(rc.DF) {
 			return infer.NormalZFromTwoSidedP(p)
@@ -262,7 +299,7 @@ func (rc *Reconstructed) fromP(c Coefficient, tName string) error {
 		}
 		rc.SE = math.Abs(rc.Estimate) / qb
 		rc.SERange = infer.Range{Lo: rc.SE * 1e-6, Hi: aHi / qb}
-		rc.SEFrom = fmt.Sprintf("estimate, p bound (%s)", tName)
+		rc.SEFrom = namedQuantile("estimate, p bound", rc.DF)
 		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: only %q was printed, so the SE %.4g taken from it is the largest the bound allows", c.Label, c.P.Text, rc.SE))
 		return nil
 	}
@@ -284,7 +321,7 @@ func (rc *Reconstructed) fromP(c Coefficient, tName string) error {
 		hi = aHi / qLo
 	}
 	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / qHi, Hi: hi}
-	rc.SEFrom = fmt.Sprintf("estimate, p (%s)", tName)
+	rc.SEFrom = namedQuantile("estimate, p", rc.DF)
 	return nil
 }
 

@@ -1,7 +1,9 @@
 package extract
 
 import (
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -153,5 +155,89 @@ func TestReconstructFailures(t *testing.T) {
 				t.Errorf("Reconstruct error = %v, want one containing %q", err, tt.want)
 			}
 		})
+	}
+}
+
+// SEFrom is built with strconv, not fmt; it must be the very string
+// fmt.Sprintf("%s (t, df %g)", …) gives, as the Go standard library's fmt
+// documents %g for a float64: the shortest representation, %e for large
+// exponents, %f otherwise, which is strconv.FormatFloat(x, 'g', -1, 64).
+func TestNamedQuantileMatchesFmt(t *testing.T) {
+	dfs := []float64{1e21, 0.5, 568, 1e-7, 1e20, 1e-4, 1e-5, 1e5, 1e6, 123456789, 1.5, 45.5, 0.1 + 0.2,
+		math.MaxFloat64, math.SmallestNonzeroFloat64, math.Inf(1), math.Inf(-1), 0, math.Copysign(0, -1), 1, 9, 24, 99.75}
+	rng := rand.New(rand.NewPCG(3, 5))
+	for range 20000 {
+		if x := math.Float64frombits(rng.Uint64()); !math.IsNaN(x) {
+			dfs = append(dfs, x)
+		}
+		dfs = append(dfs, float64(1+rng.IntN(10_000_000)), float64(rng.IntN(100_000))/float64([]int{1, 10, 100, 1000}[rng.IntN(4)]))
+	}
+	whats := []string{"ci_low, ci_high", "ci", "estimate, p", "estimate, p bound",
+		"ci_low, ci_high, mean of the two half-widths", "ci, mean of the two half-widths"}
+	for _, df := range dfs {
+		if got, want := strconv.FormatFloat(df, 'g', -1, 64), fmt.Sprintf("%g", df); got != want {
+			t.Fatalf("strconv.FormatFloat(%v, 'g', -1, 64) = %q, want fmt's %%g %q", df, got, want)
+		}
+		for _, what := range whats {
+			if got, want := namedQuantile(what, df), fmt.Sprintf("%s (t, df %g)", what, df); got != want {
+				t.Fatalf("namedQuantile(%q, %v) = %q, want %q", what, df, got, want)
+			}
+		}
+	}
+	for _, what := range append(whats, "other") {
+		if got, want := namedQuantile(what, math.NaN()), fmt.Sprintf("%s (%s)", what, "normal"); got != want {
+			t.Errorf("namedQuantile(%q, NaN) = %q, want %q", what, got, want)
+		}
+	}
+}
+
+// Reconstruct's SEFrom, through every path that names a quantile, against
+// the strings as fmt built them before: "%s (%s)" of the source and
+// "normal" or "t, df %g".
+func TestReconstructSEFromAsFormatted(t *testing.T) {
+	withDF := func(c Coefficient, df string) Coefficient {
+		if df != "" {
+			c.DF = num(df)
+		}
+		return c
+	}
+	type source struct {
+		name string
+		c    Coefficient
+		from string // the source as fmt was given it
+	}
+	// Constructed values: 0.50 (0.30, 0.70) is symmetric, 0.30 (0.05,
+	// 0.45) is not beyond any rounding (see TestReconstructSources).
+	sources := []source{
+		{"interval", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.50"), CI: Interval{Low: num("0.30"), High: num("0.70")}}, "ci_low, ci_high"},
+		{"one cell", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.50"), CI: Interval{Low: num("0.30"), High: num("0.70"), OneCell: true}}, "ci"},
+		{"asymmetric", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}}, "ci_low, ci_high, mean of the two half-widths"},
+		{"asymmetric one cell", Coefficient{Label: "x", Measure: MeasureMD, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45"), OneCell: true}}, "ci, mean of the two half-widths"},
+		{"p", Coefficient{Label: "x", Measure: MeasureMD, Estimate: num("17"), P: num("0.032")}, "estimate, p"},
+		{"p bound", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.25"), P: Printed{Value: 0.001, Decimals: 3, Bound: Below, Text: "p < .001"}}, "estimate, p bound"},
+	}
+	dfs := []string{"", "1", "9", "24", "45.5", "568", "99.75", "1000", "123456", "1000000", "2.5"}
+	ns := []string{"", "16", "47", "570", "1000003"}
+	for _, s := range sources {
+		for _, df := range dfs {
+			for _, n := range ns {
+				c := withDF(s.c, df)
+				if n != "" {
+					c.N = num(n)
+				}
+				c.CILevel = 95
+				rc, err := Reconstruct(c, 3)
+				if err != nil {
+					t.Fatalf("%s, df %q, n %q: %v", s.name, df, n, err)
+				}
+				tName := "normal"
+				if !math.IsNaN(rc.DF) {
+					tName = fmt.Sprintf("t, df %g", rc.DF)
+				}
+				if want := fmt.Sprintf("%s (%s)", s.from, tName); rc.SEFrom != want {
+					t.Errorf("%s, df %q, n %q: SEFrom = %q, want %q", s.name, df, n, rc.SEFrom, want)
+				}
+			}
+		}
 	}
 }

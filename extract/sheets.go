@@ -101,16 +101,20 @@ func (r *rowReading) textOr(i, j int) string {
 	return r.text(j)
 }
 
-// extra collects the unknown columns of the row.
+// extra collects the unknown columns of the row. Names and Values share
+// one allocation of their own, so that no two rows (which other goroutines
+// may hold) share a slice; Names is full, so that appending to it copies.
 func (r *rowReading) extra() Extra {
-	if len(r.cols.extra) == 0 {
+	n := len(r.cols.extra)
+	if n == 0 {
 		return Extra{}
 	}
-	vals := make([]string, len(r.cols.extra))
+	both := make([]string, 2*n)
+	copy(both, r.cols.extraNames)
 	for k, i := range r.cols.extra {
-		vals[k] = r.text(i)
+		both[n+k] = r.text(i)
 	}
-	return Extra{Names: r.cols.extraNames, Values: vals}
+	return Extra{Names: both[:n:n], Values: both[n:]}
 }
 
 // readCoefficient reads one coefficient from the row. It validates what is
@@ -118,7 +122,16 @@ func (r *rowReading) extra() Extra {
 // leaves what is about the statistics (an estimate outside its own CI) to
 // the audit.
 func readCoefficient(r *rowReading, cc *coefficientColumns) Coefficient {
-	c := Coefficient{Position: r.pos}
+	var c Coefficient
+	readCoefficientInto(r, cc, &c)
+	return c
+}
+
+// readCoefficientInto is readCoefficient writing into c, which must be the
+// zero Coefficient: a paired row fills its result in place, without copying
+// the coefficients.
+func readCoefficientInto(r *rowReading, cc *coefficientColumns, c *Coefficient) {
+	c.Position = r.pos
 	if cc.prefix == "" {
 		c.Study = r.requiredText(cc.study, "study")
 		c.Label = r.requiredText(cc.label, "label")
@@ -134,11 +147,12 @@ func readCoefficient(r *rowReading, cc *coefficientColumns) Coefficient {
 	c.Model = r.textOr(cc.model, cc.sharedModel)
 
 	c.Measure = MeasureOther
-	mi := cc.measure
-	if r.text(mi) == "" {
+	mi, t := cc.measure, r.text(cc.measure)
+	if t == "" {
 		mi = cc.sharedMeasure
+		t = r.text(mi)
 	}
-	if t := r.text(mi); t != "" {
+	if t != "" {
 		if m, err := allowedValue("measure", t); err != nil {
 			r.fail(mi, err)
 		} else {
@@ -151,36 +165,46 @@ func readCoefficient(r *rowReading, cc *coefficientColumns) Coefficient {
 	} else if r.text(cc.estimate) == "" {
 		r.fail(cc.estimate, fmt.Errorf("%s is blank: %w", cc.prefix+"estimate", ErrMissingValue))
 	}
-	c.Estimate = r.number(cc.estimate, kindNumber)
-	c.CI, c.CILevel = readInterval(r, cc)
-	c.SE = r.number(cc.se, kindLimit)
+	r.numberInto(&c.Estimate, cc.estimate, kindNumber)
+	c.CILevel = readInterval(r, cc, &c.CI)
+	r.numberInto(&c.SE, cc.se, kindLimit)
 	if c.SE.Present() && c.SE.Value < 0 {
 		r.fail(cc.se, fmt.Errorf("a standard error cannot be negative (%s): %w", c.SE.Text, ErrOutOfRange))
 	}
-	c.Stat = r.number(cc.stat, kindNumber)
-	c.P = r.number(cc.p, kindP)
-	c.DF = r.number(cc.df, kindCount)
+	r.numberInto(&c.Stat, cc.stat, kindNumber)
+	r.numberInto(&c.P, cc.p, kindP)
+	r.numberInto(&c.DF, cc.df, kindCount)
 	if c.DF.Present() && !(c.DF.Value > 0) {
 		r.fail(cc.df, fmt.Errorf("degrees of freedom must be positive (%s): %w", c.DF.Text, ErrOutOfRange))
 	}
-	c.N = r.sampleSize(cc.n)
-	checkMeasureRange(r, cc, &c)
+	r.sampleSizeInto(&c.N, cc.n)
+	checkMeasureRange(r, cc, c)
 	c.Extra = r.extra()
 	c.Problems = r.problems
-	return c
 }
 
 // sampleSize reads an n column: a positive whole number. Since n cannot be
 // fractional, a dot grouping thousands ("1.234", as printed in much of
 // Europe) is read as 1234 here, though not in df, whose decimals are real.
 func (r *rowReading) sampleSize(i int) Printed {
-	p := r.number(i, kindCount)
-	p, err := checkSampleSize(p)
+	var p Printed
+	r.sampleSizeInto(&p, i)
+	return p
+}
+
+// sampleSizeInto is sampleSize writing into dst.
+func (r *rowReading) sampleSizeInto(dst *Printed, i int) {
+	r.numberInto(dst, i, kindCount)
+	if !dst.Present() || (dst.Value > 0 && dst.Value == math.Trunc(dst.Value)) {
+		// Nothing for checkSampleSize to read or refuse.
+		return
+	}
+	p, err := checkSampleSize(*dst)
 	if err != nil {
 		r.fail(i, err)
-		return Printed{Bound: Absent}
+		p = Printed{Bound: Absent}
 	}
-	return p
+	*dst = p
 }
 
 // checkSampleSize validates n, reading a dot-grouped count.
@@ -209,12 +233,9 @@ const minCorrelationN = 4
 // checkMeasureRange checks what the measure implies: a ratio and its limits
 // are positive, a correlation lies in [−1, 1] and has n ≥ 4.
 func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
-	ciCol := cc.ci
-	if r.text(cc.ciLow) != "" {
-		ciCol = cc.ciLow
-	}
 	switch {
 	case IsRatioMeasure(c.Measure):
+		ciCol := intervalColumn(r, cc)
 		if c.Estimate.Present() && !(c.Estimate.Value > 0) {
 			r.fail(cc.estimate, fmt.Errorf("a ratio measure (%s) must be positive, as printed, not on the log scale (%s): %w", c.Measure, c.Estimate.Text, ErrOutOfRange))
 		}
@@ -222,6 +243,7 @@ func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
 			r.fail(ciCol, fmt.Errorf("the interval of a ratio measure (%s) must be positive (lower limit %s): %w", c.Measure, c.CI.Low.Text, ErrOutOfRange))
 		}
 	case c.Measure == MeasureR:
+		ciCol := intervalColumn(r, cc)
 		if c.Estimate.Present() && math.Abs(c.Estimate.Value) > 1 {
 			r.fail(cc.estimate, fmt.Errorf("a correlation lies between −1 and 1 (%s): %w", c.Estimate.Text, ErrOutOfRange))
 		}
@@ -234,12 +256,21 @@ func checkMeasureRange(r *rowReading, cc *coefficientColumns, c *Coefficient) {
 	}
 }
 
-// readInterval reads ci, ci_low, ci_high and ci_level. When both forms are
+// intervalColumn is the column a problem with the interval is reported
+// in: ci_low when it was filled, else ci.
+func intervalColumn(r *rowReading, cc *coefficientColumns) int {
+	if r.text(cc.ciLow) != "" {
+		return cc.ciLow
+	}
+	return cc.ci
+}
+
+// readInterval reads ci, ci_low, ci_high and ci_level into iv, which must be
+// the zero Interval, and returns the level. When both forms are
 // given they must agree; ci_low and ci_high are kept. A level printed in the
 // ci cell ("90% CI …") is used when ci_level is blank and must agree with it
 // otherwise.
-func readInterval(r *rowReading, cc *coefficientColumns) (Interval, float64) {
-	var iv Interval
+func readInterval(r *rowReading, cc *coefficientColumns, iv *Interval) float64 {
 	printedLevel := 0.0
 	if r.text(cc.ci) != "" {
 		c := r.cell(cc.ci)
@@ -251,23 +282,24 @@ func readInterval(r *rowReading, cc *coefficientColumns) (Interval, float64) {
 		if err != nil {
 			r.fail(cc.ci, err)
 		} else {
-			iv, printedLevel = v, lv
+			*iv, printedLevel = v, lv
 			iv.OneCell = true
 		}
 	}
-	low, high := r.number(cc.ciLow, kindLimit), r.number(cc.ciHigh, kindLimit)
+	var low, high Printed
+	r.numberInto(&low, cc.ciLow, kindLimit)
+	r.numberInto(&high, cc.ciHigh, kindLimit)
 	switch {
 	case low.Present() && high.Present():
 		if low.Value > high.Value {
 			r.fail(cc.ciLow, fmt.Errorf("limits reversed: ci_low %s is above ci_high %s: %w", low.Text, high.Text, ErrMalformedInterval))
 			break
 		}
-		sep := Interval{Low: low, High: high}
 		if iv.Present() && (iv.Low.Value != low.Value || iv.High.Value != high.Value) {
 			r.fail(cc.ci, fmt.Errorf("the interval is given twice and the two disagree (ci %s, ci_low %s, ci_high %s); ci_low and ci_high are used: %w",
 				r.text(cc.ci), low.Text, high.Text, ErrDuplicate))
 		}
-		iv = sep
+		iv.Low, iv.High, iv.OneCell = low, high, false
 	case low.Present():
 		r.fail(cc.ciLow, fmt.Errorf("ci_low is given without ci_high: %w", ErrMissingValue))
 	case high.Present():
@@ -288,7 +320,7 @@ func readInterval(r *rowReading, cc *coefficientColumns) (Interval, float64) {
 	} else if printedLevel != 0 {
 		level = printedLevel
 	}
-	return iv, level
+	return level
 }
 
 // parseLevel reads a confidence level: "95", "95%", "99.9" in percent, or a

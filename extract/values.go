@@ -58,17 +58,35 @@ func foldValue(s string) string {
 	return s
 }
 
+// allowedList returns allowedValues[column] without hashing the name, as
+// every row of a large input asks for it.
+func allowedList(column string) []string {
+	switch column {
+	case "measure":
+		return Measures
+	case "published":
+		return Verdicts
+	case "basis":
+		return Bases
+	}
+	return allowedValues[column]
+}
+
 // allowedValue maps a cell of the measure, published or basis column to its
 // canonical value. It fails with ErrUnknownValue naming the values allowed.
 func allowedValue(column, text string) (string, error) {
-	t := trimSpace(text)
-	for _, a := range allowedValues[column] {
+	t := text
+	if !isTrimmed(t) {
+		t = trimSpace(t)
+	}
+	allowed := allowedList(column)
+	for _, a := range allowed {
 		if t == a {
 			return a, nil
 		}
 	}
 	v := foldValue(t)
-	for _, a := range allowedValues[column] {
+	for _, a := range allowed {
 		if v == a {
 			return a, nil
 		}

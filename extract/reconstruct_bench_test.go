@@ -1,0 +1,74 @@
+package extract
+
+import (
+	"io"
+	"os"
+	"testing"
+)
+
+// benchCoefficients reads the coefficients of a generated paired CSV (see
+// writeBenchPaired) and adds, for each common way an SE is printed, a copy
+// of each coefficient with that way only: the SE itself, the t statistic,
+// an exact p and a p bound, so that every common path of Reconstruct runs.
+func benchCoefficients(b *testing.B, rows int) []Coefficient {
+	b.Helper()
+	path := writeBenchPaired(b, rows)
+	f, err := os.Open(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer f.Close()
+	pr, err := NewPairedReader(f, path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	var out []Coefficient
+	for {
+		pc, err := pr.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			b.Fatal(err)
+		}
+		for _, c := range []Coefficient{pc.First, pc.Second} {
+			out = append(out, c)
+			bare := c
+			bare.CI = Interval{}
+			withSE, withStat, withP, withBound := bare, bare, bare, bare
+			withSE.SE = Printed{Value: 0.07, Decimals: 2, Bound: Exact, Text: "0.07"}
+			withStat.Stat = Printed{Value: 2.41, Decimals: 2, Bound: Exact, Text: "2.41"}
+			withP.P = Printed{Value: 0.032, Decimals: 3, Bound: Exact, Text: "0.032"}
+			withBound.P = Printed{Value: 0.001, Decimals: 3, Bound: Below, Text: "p < .001"}
+			out = append(out, withSE, withStat)
+			if c.Estimate.Value != 0 {
+				// A zero estimate fixes no SE from its p.
+				out = append(out, withP, withBound)
+			}
+		}
+	}
+	return out
+}
+
+// BenchmarkReconstruct rebuilds the SE of coefficients read from a
+// generated paired CSV, through every common path, and reports the cost of
+// one coefficient.
+func BenchmarkReconstruct(b *testing.B) {
+	cs := benchCoefficients(b, 2000)
+	b.ReportAllocs()
+	m := startPerRow()
+	done := 0
+	for b.Loop() {
+		for i := range cs {
+			if _, err := Reconstruct(cs[i], 4); err != nil {
+				b.Fatal(err)
+			}
+		}
+		done += len(cs)
+	}
+	if done > 0 {
+		b.StopTimer()
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(done), "ns/coefficient")
+		b.ReportMetric(float64(m.mallocsSince())/float64(done), "allocs/coefficient")
+	}
+}
