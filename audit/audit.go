@@ -183,6 +183,9 @@ func (a *auditor) isDuplicated(k coefKey) bool {
 // modelSizeOf is the number of regression coefficients listed for c's
 // model.
 func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
+	if !isRegression(c) {
+		return 0 // only a regression coefficient's df is derived from it
+	}
 	k := [3]string{c.Study, c.Group, c.Model}
 	if a.pair == nil {
 		return a.modelSize[k]
@@ -309,8 +312,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 	r.Scale = rc1.Scale
 	for i, err := range []error{e1, e2} {
 		if err != nil {
-			r.Notes = append(r.Notes, fmt.Sprintf("%s: %s; print its SE, interval, statistic or exact p to test the claim.",
-				[]string{c1.Label, c2.Label}[i], err))
+			r.Notes = append(r.Notes, []string{c1.Label, c2.Label}[i]+": "+err.Error()+
+				"; print its SE, interval, statistic or exact p to test the claim.")
 		}
 	}
 	if e1 != nil || e2 != nil {

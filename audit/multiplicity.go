@@ -12,7 +12,8 @@ import (
 func adjustWithinStudies(claims []ClaimResult) {
 	families := map[string][]int{}
 	var order []string
-	for i, c := range claims {
+	for i := range claims {
+		c := &claims[i]
 		if !c.P.Known() || c.dec == nil {
 			continue
 		}

@@ -239,34 +239,39 @@ func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd boo
 		return
 	}
 	for !atEnd {
-		pc := *first
-		if index > 0 {
-			var err error
-			pc, err = pr.Next()
-			if errors.Is(err, io.EOF) {
-				break
-			}
-			if err != nil {
+		// The row is read into its place in the batch, saving a copy of
+		// some 1.7 kB; it moves only when it starts the next batch.
+		b.rows = append(b.rows, extract.PairedClaim{})
+		pc := &b.rows[len(b.rows)-1]
+		if index == 0 {
+			*pc = *first
+		} else if err := pr.ReadInto(pc); err != nil {
+			b.rows = b.rows[:len(b.rows)-1]
+			if !errors.Is(err, io.EOF) {
 				b.err = err
-				break
 			}
+			break
 		}
 		split := runLen == MaxStreamFamily && pc.Claim.Study == lastStudy
-		if len(b.rows) == 0 || pc.Claim.Study != lastStudy || split {
-			if len(b.rows) >= streamBatchClaims || split {
+		if len(b.rows) == 1 || pc.Claim.Study != lastStudy || split {
+			if len(b.rows)-1 >= streamBatchClaims || split {
+				last := b.rows[len(b.rows)-1]
+				b.rows[len(b.rows)-1] = extract.PairedClaim{}
+				b.rows = b.rows[:len(b.rows)-1]
 				if !send() || !start() {
 					return
 				}
+				b.rows = append(b.rows, last)
+				pc = &b.rows[0]
 			}
 			if split {
 				b.keep([]Problem{{Row: pc.Claim.Row, Column: "study", Message: fmt.Sprintf(
 					"study %q has more than %d claims in a row; a streamed audit adjusts for multiplicity over blocks of %d claims, and a new block starts here",
 					pc.Claim.Study, MaxStreamFamily, MaxStreamFamily)}})
 			}
-			b.runs = append(b.runs, len(b.rows))
+			b.runs = append(b.runs, len(b.rows)-1)
 			runLen = 0
 		}
-		b.rows = append(b.rows, pc)
 		lastStudy = pc.Claim.Study
 		runLen++
 		index++
@@ -343,11 +348,10 @@ func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 	}
 }
 
-// recycle empties the batch for reuse, keeping its buffers but none of the
-// claims' memory.
+// recycle empties the batch for reuse, keeping its buffers. The rows and
+// claims are overwritten whole when the batch is filled again, so they are
+// not cleared: what they still hold is bounded by the batches in flight.
 func (b *streamBatch) recycle() {
-	clear(b.rows)
-	clear(b.claims)
 	clear(b.counts)
 	clear(b.kept)
 	b.rows, b.claims, b.runs, b.out, b.kept = b.rows[:0], b.claims[:0], b.runs[:0], b.out[:0], b.kept[:0]

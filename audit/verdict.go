@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 
@@ -150,8 +149,8 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
-			dc.how.phrase(), formatP(pr.Lo), formatP(pr.Hi), formatAlpha(r.Alpha)))
+		r.Notes = append(r.Notes, dc.how.phrase()+" ranges from "+formatP(pr.Lo)+" to "+formatP(pr.Hi)+
+			", on both sides of α = "+formatAlpha(r.Alpha)+": whether the verdict stands turns on what the paper did not print.")
 	}
 }
 
