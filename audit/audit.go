@@ -305,8 +305,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
 		return r.finish(Incomplete)
 	}
-	rc1, e1 := extract.Reconstruct(*c1, a.modelSizeOf(c1))
-	rc2, e2 := extract.Reconstruct(*c2, a.modelSizeOf(c2))
+	rc1, e1 := extract.Reconstruct(c1, a.modelSizeOf(c1))
+	rc2, e2 := extract.Reconstruct(c2, a.modelSizeOf(c2))
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale

@@ -177,68 +177,57 @@ func (s *outcomeSet) add(o string) {
 }
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
-	// Built by appending: the note is written for every claim, and a
-	// million claims make fmt's cost visible.
-	b := make([]byte, 0, 256)
-	test := func() {
-		if r.P.Known() {
-			b = append(b, "the test of the difference gives "...)
-			b = appendPStatement(b, float64(r.P))
-			b = append(b, " (difference "...)
-			b = appendNum(b, float64(r.Difference))
-			b = append(b, ", "...)
-			b = strconv.AppendFloat(b, 100*(1-r.Alpha), 'g', -1, 64)
-			b = append(b, "% CI "...)
-			b = appendNum(b, float64(r.DifferenceCI[0]))
-			b = append(b, " to "...)
-			b = appendNum(b, float64(r.DifferenceCI[1]))
-			b = append(b, ')')
-			return
-		}
-		b = append(b, "the difference "...)
-		b = appendNum(b, float64(r.Difference))
-		b = append(b, " has p from "...)
-		b = appendP(b, pr.Lo)
-		b = append(b, " to "...)
-		b = appendP(b, pr.Hi)
-	}
-	alpha := func() { b = strconv.AppendFloat(b, r.Alpha, 'g', -1, 64) }
+	// Built by appending into a buffer on the stack: the note is written
+	// for every claim, and a million claims make fmt's cost visible.
+	var buf [320]byte
+	b := buf[:0]
 	switch r.Outcome {
 	case Consistent:
-		b = append(b, "The verdict stands: "...)
-		test()
-		b = append(b, '.')
+		b = append(r.appendTestResult(append(b, "The verdict stands: "...), pr), '.')
 	case Unsupported:
-		b = append(b, "The paper reports a difference, but "...)
-		test()
-		b = append(b, ", not below α = "...)
-		alpha()
+		b = r.appendTestResult(append(b, "The paper reports a difference, but "...), pr)
+		b = strconv.AppendFloat(append(b, ", not below α = "...), r.Alpha, 'g', -1, 64)
 		b = append(b, ": the printed numbers do not show one."...)
 	case Missed:
-		b = append(b, "The paper reports no difference, but "...)
-		test()
-		b = append(b, ", below α = "...)
-		alpha()
-		b = append(b, '.')
+		b = r.appendTestResult(append(b, "The paper reports no difference, but "...), pr)
+		b = append(strconv.AppendFloat(append(b, ", below α = "...), r.Alpha, 'g', -1, 64), '.')
 	case Reversed:
-		b = append(b, "The paper says the "...)
-		b = append(b, larger(r.Published)...)
-		b = append(b, " estimate is the larger, but the estimates point the other way: "...)
-		test()
-		b = append(b, '.')
+		b = append(append(append(b, "The paper says the "...), larger(r.Published)...),
+			" estimate is the larger, but the estimates point the other way: "...)
+		b = append(r.appendTestResult(b, pr), '.')
 	case Indeterminate:
-		b = append(b, "The verdict cannot be decided: "...)
-		test()
-		b = append(b, '.')
+		b = append(r.appendTestResult(append(b, "The verdict cannot be decided: "...), pr), '.')
 	case Conflict:
-		b = append(b, "Taking the printed numbers at face value, "...)
-		test()
+		b = r.appendTestResult(append(b, "Taking the printed numbers at face value, "...), pr)
 		b = append(b, "; but they contradict each other, so the verdict cannot be checked as printed."...)
 	default:
-		test()
-		b = append(b, '.')
+		b = append(r.appendTestResult(b, pr), '.')
 	}
 	return string(b)
+}
+
+// appendTestResult appends what the test of the difference gives: p, the
+// difference and its interval, or the range of p when there is no point p.
+func (r *ClaimResult) appendTestResult(b []byte, pr infer.Range) []byte {
+	if r.P.Known() {
+		b = append(b, "the test of the difference gives "...)
+		b = appendPStatement(b, float64(r.P))
+		b = append(b, " (difference "...)
+		b = appendNum(b, float64(r.Difference))
+		b = append(b, ", "...)
+		b = strconv.AppendFloat(b, 100*(1-r.Alpha), 'g', -1, 64)
+		b = append(b, "% CI "...)
+		b = appendNum(b, float64(r.DifferenceCI[0]))
+		b = append(b, " to "...)
+		b = appendNum(b, float64(r.DifferenceCI[1]))
+		return append(b, ')')
+	}
+	b = append(b, "the difference "...)
+	b = appendNum(b, float64(r.Difference))
+	b = append(b, " has p from "...)
+	b = appendP(b, pr.Lo)
+	b = append(b, " to "...)
+	return appendP(b, pr.Hi)
 }
 
 func larger(published string) string {

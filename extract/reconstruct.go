@@ -60,7 +60,7 @@ type Reconstructed struct {
 // bound on the true df when covariates went unlisted). Ratio measures and
 // correlations use the normal, as their intervals are large-sample Wald or
 // Fisher-z intervals.
-func Reconstruct(c Coefficient, modelSize int) (Reconstructed, error) {
+func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	rc := Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
 		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()}}
 	level := c.CILevel
@@ -197,7 +197,7 @@ func namedQuantile(what string, df float64) string {
 // t and normal quantiles differ by less than 2% (t(0.975, 100) = 1.984).
 const smallDF = 100
 
-func chooseDF(c Coefficient, modelSize int, rc *Reconstructed) float64 {
+func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	if c.DF.IsExact() && c.DF.Value > 0 {
 		return c.DF.Value
 	}
@@ -225,7 +225,7 @@ func chooseDF(c Coefficient, modelSize int, rc *Reconstructed) float64 {
 	return math.NaN()
 }
 
-func (rc *Reconstructed) fromInterval(c Coefficient) error {
+func (rc *Reconstructed) fromInterval(c *Coefficient) error {
 	_, loR, _ := rc.onScale(c.Measure, c.CI.Low)
 	_, hiR, _ := rc.onScale(c.Measure, c.CI.High)
 	lo, hi := rc.CI[0], rc.CI[1]
@@ -266,7 +266,7 @@ func (rc *Reconstructed) fromInterval(c Coefficient) error {
 	return nil
 }
 
-func (rc *Reconstructed) fromStatistic(c Coefficient) {
+func (rc *Reconstructed) fromStatistic(c *Coefficient) {
 	rc.SE = math.Abs(rc.Estimate / c.Stat.Value)
 	slo, shi := c.Stat.RoundingInterval()
 	aLo, aHi := absRange(rc.EstimateRange)
@@ -281,7 +281,7 @@ func (rc *Reconstructed) fromStatistic(c Coefficient) {
 	}
 }
 
-func (rc *Reconstructed) fromP(c Coefficient) error {
+func (rc *Reconstructed) fromP(c *Coefficient) error {
 	q := func(p float64) (float64, error) {
 		if math.IsNaN(rc.DF) {
 			return infer.NormalZFromTwoSidedP(p)

@@ -60,7 +60,7 @@ func BenchmarkReconstruct(b *testing.B) {
 	done := 0
 	for b.Loop() {
 		for i := range cs {
-			if _, err := Reconstruct(cs[i], 4); err != nil {
+			if _, err := Reconstruct(&cs[i], 4); err != nil {
 				b.Fatal(err)
 			}
 		}

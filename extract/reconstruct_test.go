@@ -89,7 +89,7 @@ func TestReconstructSources(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			tt.c.CILevel = 95
-			rc, err := Reconstruct(tt.c, tt.modelSize)
+			rc, err := Reconstruct(&tt.c, tt.modelSize)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -118,7 +118,7 @@ func TestReconstructRoundingRanges(t *testing.T) {
 	// [0.30, 0.50]/3.919928 = [0.07653, 0.12755]; the estimate in [0.45, 0.55]. The
 	// half-widths at the printed values (0.2/1.96 each) lie inside.
 	c := Coefficient{Label: "x", Measure: MeasureBeta, Estimate: num("0.5"), CI: Interval{Low: num("0.3"), High: num("0.7")}, CILevel: 95}
-	rc, err := Reconstruct(c, 0)
+	rc, err := Reconstruct(&c, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -131,7 +131,7 @@ func TestReconstructRoundingRanges(t *testing.T) {
 	// The asymmetric 0.30 (0.05, 0.45): halves 0.25/1.959964 = 0.12755 and
 	// 0.15/1.959964 = 0.07653 widen the range beyond the rounding of the width.
 	c = Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}, CILevel: 95}
-	rc, _ = Reconstruct(c, 0)
+	rc, _ = Reconstruct(&c, 0)
 	if rc.SERange.Lo > 0.15/1.959964+1e-9 || rc.SERange.Hi < 0.25/1.959964-1e-9 {
 		t.Errorf("asymmetric SE range %v does not cover both half-widths [0.07653, 0.12755]", rc.SERange)
 	}
@@ -150,7 +150,7 @@ func TestReconstructFailures(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			_, err := Reconstruct(tt.c, 0)
+			_, err := Reconstruct(&tt.c, 0)
 			if err == nil || !strings.Contains(err.Error(), tt.want) {
 				t.Errorf("Reconstruct error = %v, want one containing %q", err, tt.want)
 			}
@@ -226,7 +226,7 @@ func TestReconstructSEFromAsFormatted(t *testing.T) {
 					c.N = num(n)
 				}
 				c.CILevel = 95
-				rc, err := Reconstruct(c, 3)
+				rc, err := Reconstruct(&c, 3)
 				if err != nil {
 					t.Fatalf("%s, df %q, n %q: %v", s.name, df, n, err)
 				}

@@ -1,8 +1,9 @@
 package infer
 
 import (
+	"cmp"
 	"math"
-	"sort"
+	"slices"
 )
 
 // HolmAdjust returns Holm's step-down adjusted p-values, in the order of p:
@@ -58,13 +59,13 @@ func BenjaminiHochbergAdjust(p []float64) []float64 {
 // output slice filled with NaN.
 func familyOrder(p []float64) ([]int, []float64) {
 	out := make([]float64, len(p))
-	var idx []int
+	idx := make([]int, 0, len(p))
 	for i, x := range p {
 		out[i] = math.NaN()
 		if !math.IsNaN(x) {
 			idx = append(idx, i)
 		}
 	}
-	sort.SliceStable(idx, func(a, b int) bool { return p[idx[a]] < p[idx[b]] })
+	slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(p[a], p[b]) })
 	return idx, out
 }
