@@ -7,11 +7,12 @@ import "math"
 // StudentTTwoSidedP(t, df) = p, found by Newton's method on
 // log p as a function of log t. In those coordinates the tail of the t
 // distribution is a straight line (p ∝ t^−df), so the iteration converges
-// from the far tail as well as from the centre. It starts from the better
-// of two approximations: the Cornish–Fisher expansion of t in the normal
-// quantile z (Abramowitz & Stegun 1964, 26.7.5), good in the centre, and
-// the leading term of the tail, p ≈ 2 c df^((df−1)/2) t^−df with
-// c = Γ((df+1)/2) / (√(df π) Γ(df/2)), good far out. df = 1 and 2 have
+// from the far tail as well as from the centre. It starts from the
+// Cornish–Fisher expansion of t in the normal quantile z (Abramowitz &
+// Stegun 1964, 26.7.5), good in the centre, or, when that is more than 10%
+// off in p and the other is nearer, from the leading term of the tail,
+// p ≈ 2 c df^((df−1)/2) t^−df with c = Γ((df+1)/2) / (√(df π) Γ(df/2)),
+// good far out. df = 1 and 2 have
 // closed forms (A&S 26.7.3, 26.7.4 rearranged):
 //
 //	df = 1:  t = cot(π p / 2)
@@ -39,18 +40,22 @@ func studentTQuantile(p, df float64) (float64, bool) {
 	z2 := z * z
 	cf := z * (1 + (z2+1)/(4*df) + ((5*z2+16)*z2+3)/(96*df*df) +
 		(((3*z2+19)*z2+17)*z2-15)/(384*df*df*df))
-	// misfit is how far log p(t) is from log p.
-	misfit := func(t float64) float64 {
-		q, _ := StudentTTwoSidedP(t, df)
-		return math.Log(q) - logP
-	}
+	// The Cornish–Fisher start is taken unless it is off by more than 10%
+	// in p (small df, far tail) and the tail start is nearer; its tail
+	// value then serves the first Newton step.
 	t := cf
-	if !(cf > 0) || math.Abs(misfit(tail)) < math.Abs(misfit(cf)) {
-		t = tail
+	q, _ := StudentTTwoSidedP(cf, df)
+	if !(cf > 0) || !(math.Abs(math.Log(q)-logP) < 0.1) {
+		qt, _ := StudentTTwoSidedP(tail, df)
+		if !(cf > 0) || math.Abs(math.Log(qt)-logP) < math.Abs(math.Log(q)-logP) {
+			t, q = tail, qt
+		}
 	}
 	prev := math.Inf(1)
-	for range 60 {
-		q, _ := StudentTTwoSidedP(t, df)
+	for i := range 60 {
+		if i > 0 {
+			q, _ = StudentTTwoSidedP(t, df)
+		}
 		if !(q > 0) || math.IsInf(t, 0) || math.IsNaN(t) {
 			return 0, false
 		}
