@@ -121,11 +121,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	}
 	var extra []string
 	if !atEnd {
-		seen := map[string]bool{}
-		for _, c := range csvColumns {
-			seen[c] = true
-		}
-		extra = appendUnseen(nil, first.Claim.Extra.Names, seen)
+		extra = appendUnseen(nil, first.Claim.Extra.Names, reportColumnSet())
 	}
 	if err := sink.Begin(extra); err != nil {
 		return Summary{}, err

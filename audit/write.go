@@ -170,15 +170,22 @@ func appendCSVHeader(dst []byte, extra []string) []byte {
 // extraColumns lists the claims rows' unknown columns in first-seen order,
 // leaving out names the report's own columns already use.
 func extraColumns(rep *Report) []string {
-	seen := map[string]bool{}
-	for _, c := range csvColumns {
-		seen[c] = true
-	}
+	seen := reportColumnSet()
 	var out []string
 	for _, c := range rep.Claims {
 		out = appendUnseen(out, c.ExtraNames, seen)
 	}
 	return out
+}
+
+// reportColumnSet is the set of the CSV report's own columns, which an
+// input's unknown column cannot take.
+func reportColumnSet() map[string]bool {
+	seen := make(map[string]bool, len(csvColumns))
+	for _, c := range csvColumns {
+		seen[c] = true
+	}
+	return seen
 }
 
 func appendUnseen(out, names []string, seen map[string]bool) []string {
