@@ -287,7 +287,17 @@ func (o *jsonObject) numbers(k string, vs ...Number) {
 func (o *jsonObject) open(k string, brace byte) *jsonObject {
 	o.key(k)
 	o.dst = append(o.dst, brace)
-	return &jsonObject{dst: o.dst, indent: o.indent + "  "}
+	return &jsonObject{dst: o.dst, indent: deeper(o.indent)}
+}
+
+// deeper is indent two spaces deeper, without allocating for the depths a
+// claim reaches.
+func deeper(indent string) string {
+	const spaces = "                                "
+	if n := len(indent) + 2; n <= len(spaces) && indent == spaces[:len(indent)] {
+		return spaces[:n]
+	}
+	return indent + "  "
 }
 
 func (o *jsonObject) close(inner *jsonObject, brace byte) {
@@ -302,7 +312,7 @@ func (o *jsonObject) close(inner *jsonObject, brace byte) {
 // writes it after prefix, with HTML escaping off (as WriteJSON writes).
 func appendClaimJSON(dst []byte, c *ClaimResult, prefix string) []byte {
 	dst = append(dst, '{')
-	o := &jsonObject{dst: dst, indent: prefix + "  "}
+	o := &jsonObject{dst: dst, indent: deeper(prefix)}
 	o.str("study", c.Study)
 	o.str("claim", c.Claim)
 	o.key("row")
@@ -359,7 +369,7 @@ func appendClaimJSON(dst []byte, c *ClaimResult, prefix string) []byte {
 			arr.n++
 			arr.dst = append(append(arr.dst, '\n'), arr.indent...)
 			arr.dst = append(arr.dst, '{')
-			in := &jsonObject{dst: arr.dst, indent: arr.indent + "  "}
+			in := &jsonObject{dst: arr.dst, indent: deeper(arr.indent)}
 			in.str("method", al.Method)
 			in.num("statistic", al.Statistic)
 			in.num("p", al.P)
