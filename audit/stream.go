@@ -28,7 +28,7 @@ const MaxStreamFamily = 5000
 
 // streamBatchClaims is how many claims a streamed audit hands a worker at
 // once (whole runs of a study, so a batch may hold more).
-const streamBatchClaims = 256
+const streamBatchClaims = 128
 
 // ClaimSink receives a streamed audit. Begin is called once, then the
 // encoded claims are written in input order, then Finish.
@@ -130,7 +130,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	var (
 		todo   = make(chan *streamBatch, workers)
 		done   = make(chan *streamBatch, workers)
-		tokens = make(chan struct{}, 3*workers+1) // batches in flight
+		tokens = make(chan struct{}, 2*workers+1) // batches in flight
 		quit   = make(chan struct{})
 		free   = sync.Pool{New: func() any { return new(streamBatch) }}
 		wg     sync.WaitGroup
