@@ -126,6 +126,9 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	if err := sink.Begin(extra); err != nil {
 		return Summary{}, err
 	}
+	// The header's problems come first; they are taken before the reader
+	// goroutine owns pr.
+	problems := cellProblems(pr.Problems())
 	workers := runtime.GOMAXPROCS(0)
 	var (
 		todo   = make(chan *streamBatch, workers)
@@ -153,11 +156,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	go func() { wg.Wait(); close(done) }()
 
 	summary := Summary{Counts: map[string]int{}}
-	var problems []Problem
 	omitted := 0
-	for _, e := range pr.Problems() {
-		problems = append(problems, Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()})
-	}
 	pending := map[int]*streamBatch{}
 	next := 0
 	var failure error

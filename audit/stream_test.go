@@ -353,3 +353,31 @@ func readAndSplit(b *testing.B, path string) float64 {
 	}
 	return time.Now().Sub(start).Seconds()
 }
+
+// TestStreamHeaderProblems checks that a paired CSV missing a required
+// column streams every row as incomplete, with the header's problem first
+// in the JSON report, as the whole-file audit reports it.
+func TestStreamHeaderProblems(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "no-published.csv")
+	body := "study,claim,first_estimate,first_se,second_group,second_estimate,second_se\nS,c1,0.5,0.1,g,0.1,0.1\nS,c2,0.4,0.1,g,0.1,0.1\n"
+	if err := os.WriteFile(path, []byte(body), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	sum, err := StreamPaired(path, DefaultOptions, NewJSONSink(&out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		Problems []Problem `json:"problems"`
+	}
+	if err := json.Unmarshal(out.Bytes(), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Claims != 2 || sum.Counts[Incomplete] != 2 {
+		t.Errorf("summary %+v, want 2 claims, both incomplete", sum)
+	}
+	if len(rep.Problems) == 0 || !strings.Contains(rep.Problems[0].Message, "published") {
+		t.Errorf("problems %+v, want the missing published column first", rep.Problems)
+	}
+}
