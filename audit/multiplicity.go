@@ -30,8 +30,10 @@ func adjustWithinStudies(claims []ClaimResult) {
 		}
 		holm := infer.HolmAdjust(p)
 		bh := infer.BenjaminiHochbergAdjust(p)
+		adjusted := make([]AdjustedPValues, len(idx)) // one allocation per family
 		for k, i := range idx {
-			claims[i].AdjustedP = &AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
+			adjusted[k] = AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
+			claims[i].AdjustedP = &adjusted[k]
 			claims[i].family = len(idx)
 		}
 	}
