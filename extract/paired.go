@@ -40,7 +40,8 @@ type PairedClaim struct {
 // or unknown columns. What Next returns is the caller's alone: its strings
 // never change and its slices (Problems, Extra) belong to no other claim
 // and are never written by the reader again, so claims may be handed to
-// other goroutines while the reader goes on.
+// other goroutines while the reader goes on. Within a row, the two
+// coefficients' Extra is the claim's (one set of unknown columns per row).
 //
 // The coefficients' labels are "<claim>/<label>", where label is the
 // first_label (second_label) cell or, when blank, "first" ("second"); so
@@ -148,6 +149,7 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 	rr.problems = nil
 	readCoefficientInto(rr, &p.second, &pc.Second)
 	pc.First.Study, pc.Second.Study = pc.Claim.Study, pc.Claim.Study
+	pc.First.Extra, pc.Second.Extra = pc.Claim.Extra, pc.Claim.Extra
 	pc.First.Label, pc.Second.Label = pairedLabels(pc.Claim.Claim, pc.First.Label, pc.Second.Label)
 	pc.Claim.First, pc.Claim.Second = pc.First.Label, pc.Second.Label
 	if pc.First.Label == pc.Second.Label {

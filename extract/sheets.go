@@ -179,7 +179,11 @@ func readCoefficientInto(r *rowReading, cc *coefficientColumns, c *Coefficient) 
 	}
 	r.sampleSizeInto(&c.N, cc.n)
 	checkMeasureRange(r, cc, c)
-	c.Extra = r.extra()
+	if cc.prefix == "" {
+		// A paired row's unknown columns are its claim's; the reader
+		// gives both sides the claim's Extra.
+		c.Extra = r.extra()
+	}
 	c.Problems = r.problems
 }
 
