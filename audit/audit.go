@@ -49,9 +49,13 @@ type auditor struct {
 	pairBuf        [2]*extract.Coefficient
 	pairDuplicated bool
 	pairConflicts  [2][]Problem
-	// pairModelSize, when set, counts the regression coefficients of each
-	// model beyond the pair (over the study's rows of a paired CSV).
-	pairModelSize map[[3]string]int
+	// pairRun, when set, holds the paired rows of the pair's study, over
+	// which a model's regression coefficients are counted (pairSizes, for
+	// the run whose first row is sizesOf), when a derived df first needs
+	// them.
+	pairRun   []extract.PairedClaim
+	pairSizes map[[3]string]int
+	sizesOf   *extract.PairedClaim
 }
 
 // Audit audits every claims row of in, in order, and collects every problem
@@ -183,15 +187,24 @@ func (a *auditor) isDuplicated(k coefKey) bool {
 // modelSizeOf is the number of regression coefficients listed for c's
 // model.
 func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
-	if !isRegression(c) {
-		return 0 // only a regression coefficient's df is derived from it
+	if !isRegression(c) || (c.DF.IsExact() && c.DF.Value > 0) || !c.N.IsExact() {
+		// Reconstruct uses the count only to derive the df of a regression
+		// coefficient that has n but no df printed.
+		return 0
 	}
 	k := [3]string{c.Study, c.Group, c.Model}
 	if a.pair == nil {
 		return a.modelSize[k]
 	}
-	if a.pairModelSize != nil {
-		return a.pairModelSize[k]
+	if len(a.pairRun) > 0 {
+		if a.sizesOf != &a.pairRun[0] {
+			if a.pairSizes == nil {
+				a.pairSizes = map[[3]string]int{}
+			}
+			countModelSizes(a.pairSizes, a.pairRun)
+			a.sizesOf = &a.pairRun[0]
+		}
+		return a.pairSizes[k]
 	}
 	n := 0
 	for _, o := range a.keptPair() {

@@ -276,8 +276,7 @@ func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd boo
 
 // streamWorker audits batches, one claim's pair at a time.
 type streamWorker struct {
-	auditor   *auditor
-	modelSize map[[3]string]int
+	auditor *auditor
 }
 
 // countModelSizes counts the regression coefficients of each model in
@@ -300,10 +299,6 @@ func countModelSizes(sizes map[[3]string]int, rows []extract.PairedClaim) {
 
 func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 	a := w.auditor
-	if w.modelSize == nil {
-		w.modelSize = map[[3]string]int{}
-	}
-	a.pairModelSize = w.modelSize
 	run := 0
 	for i := range b.rows {
 		if run < len(b.runs) && b.runs[run] == i {
@@ -314,7 +309,7 @@ func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 			if run+1 < len(b.runs) {
 				end = b.runs[run+1]
 			}
-			countModelSizes(w.modelSize, b.rows[i:end])
+			a.pairRun, a.sizesOf = b.rows[i:end], nil
 			run++
 		}
 		pc := &b.rows[i]
