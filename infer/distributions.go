@@ -57,8 +57,15 @@ func NormalCriticalValue(level float64) (float64, error) {
 	if !(level > 0 && level < 1) {
 		return math.NaN(), fmt.Errorf("confidence level %v: %w", level, ErrProbability)
 	}
+	if level == 0.95 {
+		return z95, nil
+	}
 	return -unitNormal.Quantile((1 - level) / 2), nil
 }
+
+// z95 is the critical value nearly every interval uses, computed once by
+// the same formula.
+var z95 = -unitNormal.Quantile((1 - 0.95) / 2)
 
 // StudentTTwoSidedP returns the two-sided p-value of a Student t statistic
 // with df degrees of freedom, 2 P(T_df > |t|). An infinite df gives the
