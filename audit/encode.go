@@ -47,9 +47,20 @@ func csvNeedsQuotes(s string) bool {
 	return unicode.IsSpace(r)
 }
 
-// hasCSVSpecial reports whether s holds a comma, quote, CR or LF. Each is
-// looked for with IndexByte, which is vectorized: the notes cells are long.
+// hasCSVSpecial reports whether s holds a comma, quote, CR or LF. In a long
+// cell each is looked for with IndexByte, which is vectorized: the notes
+// cells are long.
 func hasCSVSpecial(s string) bool {
+	if len(s) < 32 {
+		// Short cells (labels, methods, outcomes) are quicker to scan once:
+		// all four bytes sort at or below the comma.
+		for i := 0; i < len(s); i++ {
+			if c := s[i]; c <= ',' && (c == ',' || c == '"' || c == '\n' || c == '\r') {
+				return true
+			}
+		}
+		return false
+	}
 	return strings.IndexByte(s, ',') >= 0 || strings.IndexByte(s, '"') >= 0 ||
 		strings.IndexByte(s, '\n') >= 0 || strings.IndexByte(s, '\r') >= 0
 }
