@@ -65,16 +65,10 @@ func hasCSVSpecial(s string) bool {
 		strings.IndexByte(s, '\n') >= 0 || strings.IndexByte(s, '\r') >= 0
 }
 
-// appendSafeText appends a text cell as safeText writes it: prefixed with an
-// apostrophe when a spreadsheet would evaluate it.
+// appendSafeText appends a text cell as safeText guards it and encoding/csv
+// quotes it. Only a guarded cell, which is rare, costs the concatenation.
 func appendSafeText(dst []byte, s string) []byte {
-	if s != "" && isGuarded(s[0]) {
-		if !csvNeedsQuotes(s) {
-			return append(append(dst, '\''), s...)
-		}
-		return appendCSVField(dst, "'"+s)
-	}
-	return appendCSVField(dst, s)
+	return appendCSVField(dst, safeText(s))
 }
 
 // appendCSVNumber appends a number as num writes it: ten significant digits,
@@ -186,6 +180,8 @@ func appendNotesCell(dst []byte, notes []string) []byte {
 	return dst
 }
 
+// isGuarded reports whether a text cell starting with b would be evaluated
+// by a spreadsheet, and so needs safeText's apostrophe.
 func isGuarded(b byte) bool {
 	switch b {
 	case '=', '+', '-', '@', '\t', '\r':

@@ -201,11 +201,7 @@ func appendUnseen(out, names []string, seen map[string]bool) []string {
 // safeText keeps a spreadsheet from evaluating a text cell: a leading =, +,
 // -, @, tab or carriage return is prefixed with an apostrophe.
 func safeText(s string) string {
-	if s == "" {
-		return s
-	}
-	switch s[0] {
-	case '=', '+', '-', '@', '\t', '\r':
+	if s != "" && isGuarded(s[0]) {
 		return "'" + s
 	}
 	return s
