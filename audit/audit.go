@@ -187,10 +187,8 @@ func (a *auditor) isDuplicated(k coefKey) bool {
 // modelSizeOf is the number of regression coefficients listed for c's
 // model.
 func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
-	if !isRegression(c) || (c.DF.IsExact() && c.DF.Value > 0) || !c.N.IsExact() {
-		// Reconstruct uses the count only to derive the df of a regression
-		// coefficient that has n but no df printed.
-		return 0
+	if !extract.DerivesDFFromModelSize(c) {
+		return 0 // Reconstruct does not use it
 	}
 	k := [3]string{c.Study, c.Group, c.Model}
 	if a.pair == nil {

@@ -197,23 +197,28 @@ func namedQuantile(what string, df float64) string {
 // t and normal quantiles differ by less than 2% (t(0.975, 100) = 1.984).
 const smallDF = 100
 
+// DerivesDFFromModelSize reports whether Reconstruct derives c's df from
+// the number of coefficients listed for its model, as n − k − 1: a
+// regression coefficient with n printed and no df. Only then does
+// Reconstruct's modelSize matter, so a caller may skip counting otherwise.
+func DerivesDFFromModelSize(c *Coefficient) bool {
+	return !dfPrinted(c) && c.N.IsExact() && (c.Measure == MeasureB || c.Measure == MeasureBeta)
+}
+
+func dfPrinted(c *Coefficient) bool { return c.DF.IsExact() && c.DF.Value > 0 }
+
 func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
-	if c.DF.IsExact() && c.DF.Value > 0 {
+	if dfPrinted(c) {
 		return c.DF.Value
 	}
-	if !c.N.IsExact() || IsRatioMeasure(c.Measure) || c.Measure == MeasureR {
-		return math.NaN()
-	}
 	n := c.N.Value
-	switch c.Measure {
-	case MeasureMD:
-		if n > 2 {
-			if n-2 < smallDF {
-				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
-			}
-			return n - 2
+	switch {
+	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
+		if n-2 < smallDF {
+			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
 		}
-	case MeasureB, MeasureBeta:
+		return n - 2
+	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
