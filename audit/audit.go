@@ -34,7 +34,7 @@ type coefKey struct{ study, label string }
 type auditor struct {
 	coef       map[coefKey]*extract.Coefficient
 	duplicated map[coefKey]bool
-	modelSize  map[[3]string]int
+	modelSize  map[modelKey]int
 	// conflicts holds each coefficient's printed numbers that contradict
 	// each other, in input order of the coefficients.
 	conflicts map[*extract.Coefficient][]Problem
@@ -49,12 +49,11 @@ type auditor struct {
 	pairBuf        [2]*extract.Coefficient
 	pairDuplicated bool
 	pairConflicts  [2][]Problem
-	// pairRun, when set, holds the paired rows of the pair's study, over
-	// which a model's regression coefficients are counted (pairSizes, for
-	// the run whose first row is sizesOf), when a derived df first needs
-	// them.
+	// pairRun holds the paired rows of the pair's study, over which a
+	// model's regression coefficients are counted (into pairSizes, for the
+	// run whose first row is sizesOf) when a derived df first needs them.
 	pairRun   []extract.PairedClaim
-	pairSizes map[[3]string]int
+	pairSizes map[modelKey]int
 	sizesOf   *extract.PairedClaim
 }
 
@@ -98,7 +97,7 @@ func newAuditor(in *extract.Input) *auditor {
 func (a *auditor) load(in *extract.Input) {
 	a.pair = nil
 	if a.coef == nil {
-		a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[[3]string]int{}
+		a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[modelKey]int{}
 		a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
 	} else {
 		clear(a.coef)
@@ -125,8 +124,8 @@ func (a *auditor) load(in *extract.Input) {
 		}
 		a.coef[k] = c
 		if isRegression(c) {
-			a.modelSize[[3]string{c.Study, c.Group, c.Model}]++
-			mk := modelKey{c.Study, c.Group, c.Model}
+			mk := modelOf(c)
+			a.modelSize[mk]++
 			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
 				a.modelPredictors[mk] = append(a.modelPredictors[mk], c.Predictor)
 			}
@@ -136,7 +135,8 @@ func (a *auditor) load(in *extract.Input) {
 
 // loadPair makes the auditor look up the two coefficients of one paired
 // claim, first and second, without its maps: a streamed audit does this a
-// million times. It answers every lookup as load would.
+// million times. It answers every lookup as load would for the rows of
+// pairRun, which the caller sets to the claim's study run.
 func (a *auditor) loadPair(first, second *extract.Coefficient) {
 	a.pair = a.pairBuf[:0]
 	a.pair = append(a.pair, first, second)
@@ -185,32 +185,41 @@ func (a *auditor) isDuplicated(k coefKey) bool {
 }
 
 // modelSizeOf is the number of regression coefficients listed for c's
-// model.
+// model: over the input, or for a paired claim over its study's rows
+// (pairRun), counted the first time a derived df asks.
 func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
 	if !extract.DerivesDFFromModelSize(c) {
 		return 0 // Reconstruct does not use it
 	}
-	k := [3]string{c.Study, c.Group, c.Model}
 	if a.pair == nil {
-		return a.modelSize[k]
+		return a.modelSize[modelOf(c)]
 	}
-	if len(a.pairRun) > 0 {
-		if a.sizesOf != &a.pairRun[0] {
-			if a.pairSizes == nil {
-				a.pairSizes = map[[3]string]int{}
+	if len(a.pairRun) > 0 && a.sizesOf != &a.pairRun[0] {
+		if a.pairSizes == nil {
+			a.pairSizes = map[modelKey]int{}
+		}
+		countModelSizes(a.pairSizes, a.pairRun)
+		a.sizesOf = &a.pairRun[0]
+	}
+	return a.pairSizes[modelOf(c)]
+}
+
+// countModelSizes counts the regression coefficients of each model in
+// rows, as load counts them: a coefficient repeating its row's other label
+// is not counted again.
+func countModelSizes(sizes map[modelKey]int, rows []extract.PairedClaim) {
+	clear(sizes)
+	for i := range rows {
+		pc := &rows[i]
+		for k, c := range []*extract.Coefficient{&pc.First, &pc.Second} {
+			if k == 1 && c.Study == pc.First.Study && c.Label == pc.First.Label {
+				continue
 			}
-			countModelSizes(a.pairSizes, a.pairRun)
-			a.sizesOf = &a.pairRun[0]
-		}
-		return a.pairSizes[k]
-	}
-	n := 0
-	for _, o := range a.keptPair() {
-		if isRegression(o) && [3]string{o.Study, o.Group, o.Model} == k {
-			n++
+			if isRegression(c) {
+				sizes[modelOf(c)]++
+			}
 		}
 	}
-	return n
 }
 
 // conflictsOf lists the problems of c's printed numbers that contradict
@@ -227,18 +236,14 @@ func (a *auditor) conflictsOf(c *extract.Coefficient) []Problem {
 	return nil
 }
 
-// predictorsOf lists a model's predictors in input order.
+// predictorsOf lists a model's predictors in input order. A paired claim
+// has none listed: its input has no correlation table, which is all that
+// asks (to rebuild the model).
 func (a *auditor) predictorsOf(k modelKey) []string {
-	if a.pair == nil {
-		return a.modelPredictors[k]
+	if a.pair != nil {
+		return nil
 	}
-	var out []string
-	for _, c := range a.keptPair() {
-		if isRegression(c) && (modelKey{c.Study, c.Group, c.Model}) == k && c.Predictor != "" && indexOf(out, c.Predictor) < 0 {
-			out = append(out, c.Predictor)
-		}
-	}
-	return out
+	return a.modelPredictors[k]
 }
 
 // lookup finds a claim's coefficient by label in the claim's study, or in

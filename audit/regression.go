@@ -24,13 +24,15 @@ const roundingCorners = 256
 // modelKey identifies a fitted model: study, group, model.
 type modelKey [3]string
 
+func modelOf(c *extract.Coefficient) modelKey { return modelKey{c.Study, c.Group, c.Model} }
+
 // regressionFromTable rebuilds the model behind two coefficients from the
 // sample's correlation table (OLS from summary statistics) and tests their
 // difference with the rebuilt covariance: a t test with the residual df for
 // unstandardized coefficients, a z test with the delta-method covariance for
 // standardized ones. It reports false when the table lacks what is needed.
 func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource) bool {
-	key := modelKey{c1.Study, c1.Group, c1.Model}
+	key := modelOf(c1)
 	preds := a.predictorsOf(key)
 	outcome := c1.Outcome
 	if outcome == "" || c1.Predictor == "" || c2.Predictor == "" || outcome != c2.Outcome {

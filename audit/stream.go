@@ -279,24 +279,6 @@ type streamWorker struct {
 	auditor *auditor
 }
 
-// countModelSizes counts the regression coefficients of each model in
-// rows, as auditor.load counts them: a coefficient repeating its row's
-// other label is not counted again.
-func countModelSizes(sizes map[[3]string]int, rows []extract.PairedClaim) {
-	clear(sizes)
-	for i := range rows {
-		pc := &rows[i]
-		for k, c := range []*extract.Coefficient{&pc.First, &pc.Second} {
-			if k == 1 && c.Study == pc.First.Study && c.Label == pc.First.Label {
-				continue
-			}
-			if isRegression(c) {
-				sizes[[3]string{c.Study, c.Group, c.Model}]++
-			}
-		}
-	}
-}
-
 func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 	a := w.auditor
 	run := 0
