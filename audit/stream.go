@@ -82,6 +82,15 @@ type streamBatch struct {
 	err error
 }
 
+// run returns the rows [s, e) of the batch's k-th family.
+func (b *streamBatch) run(k int) (s, e int) {
+	s, e = b.runs[k], len(b.rows)
+	if k+1 < len(b.runs) {
+		e = b.runs[k+1]
+	}
+	return s, e
+}
+
 func (b *streamBatch) keep(ps []Problem) {
 	for _, p := range ps {
 		if len(b.kept) < MaxStreamProblems {
@@ -236,7 +245,13 @@ func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd boo
 	for !atEnd {
 		// The row is read into its place in the batch, saving a copy of
 		// some 1.7 kB; it moves only when it starts the next batch.
-		b.rows = append(b.rows, extract.PairedClaim{})
+		// The slot is overwritten whole below, so a recycled one is not
+		// cleared first.
+		if len(b.rows) < cap(b.rows) {
+			b.rows = b.rows[:len(b.rows)+1]
+		} else {
+			b.rows = append(b.rows, extract.PairedClaim{})
+		}
 		pc := &b.rows[len(b.rows)-1]
 		if index == 0 {
 			*pc = *first
@@ -281,33 +296,21 @@ type streamWorker struct {
 
 func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 	a := w.auditor
-	run := 0
-	for i := range b.rows {
-		if run < len(b.runs) && b.runs[run] == i {
-			// A derived df counts the regression coefficients listed for
-			// the model over the study's rows, as the whole-file audit
-			// does.
-			end := len(b.rows)
-			if run+1 < len(b.runs) {
-				end = b.runs[run+1]
-			}
-			a.pairRun, a.sizesOf = b.rows[i:end], nil
-			run++
-		}
-		pc := &b.rows[i]
-		a.loadPair(&pc.First, &pc.Second)
-		b.claims = append(b.claims, a.claim(&pc.Claim))
-		// The problems in the order auditor.problems gives them.
-		b.keep(cellProblems(pc.First.Problems))
-		b.keep(cellProblems(pc.Second.Problems))
-		b.keep(cellProblems(pc.Claim.Problems))
-		b.keep(a.pairConflicts[0])
-		b.keep(a.pairConflicts[1])
-	}
-	for i, s := range b.runs {
-		e := len(b.claims)
-		if i+1 < len(b.runs) {
-			e = b.runs[i+1]
+	for k := range b.runs {
+		s, e := b.run(k)
+		// A derived df counts the regression coefficients listed for the
+		// model over the study's rows, as the whole-file audit does.
+		a.pairRun, a.sizesOf = b.rows[s:e], nil
+		for i := s; i < e; i++ {
+			pc := &b.rows[i]
+			a.loadPair(&pc.First, &pc.Second)
+			b.claims = append(b.claims, a.claim(&pc.Claim))
+			// The problems in the order auditor.problems gives them.
+			b.keep(cellProblems(pc.First.Problems))
+			b.keep(cellProblems(pc.Second.Problems))
+			b.keep(cellProblems(pc.Claim.Problems))
+			b.keep(a.pairConflicts[0])
+			b.keep(a.pairConflicts[1])
 		}
 		finishClaims(b.claims[s:e], opts, false)
 	}
