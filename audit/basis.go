@@ -43,16 +43,23 @@ func dfOrInf(df float64) float64 {
 }
 
 func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
-	p1, p2 := ownP(rc1), ownP(rc2)
-	sig := func(p float64) string {
-		if p < r.Alpha {
-			return "significant"
+	// Appended into one buffer: the note can be written for every claim.
+	var buf [512]byte
+	b := append(buf[:0], "The paper's verdict rests on one estimate being significant and the other not (here "...)
+	for i, rc := range [2]*extract.Reconstructed{rc1, rc2} {
+		if i > 0 {
+			b = append(b, "; "...)
 		}
-		return "not significant"
+		p := ownP(rc)
+		b = appendPStatement(append(append(b, rc.Label...), ": "...), p)
+		if p < r.Alpha {
+			b = append(b, ", significant"...)
+		} else {
+			b = append(b, ", not significant"...)
+		}
 	}
-	return "The paper's verdict rests on one estimate being significant and the other not (here " +
-		rc1.Label + ": " + pStatement(p1) + ", " + sig(p1) + "; " + rc2.Label + ": " + pStatement(p2) + ", " + sig(p2) +
-		"). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."
+	b = append(b, "). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."...)
+	return string(b)
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says

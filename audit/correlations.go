@@ -40,7 +40,7 @@ func setCorrelationComparison(r *ClaimResult, cmp correlation.Comparison) {
 	// Pooling needs a difference with an SE: the Fisher z based test of the
 	// design (fisher-z, steiger-z or zpf), whose z1 − z2 is near normal.
 	r.PoolEstimate, r.PoolSE, r.PoolScale = nan, nan, ""
-	for _, res := range append([]correlation.Result{cmp.Primary}, cmp.Alternatives...) {
+	pool := func(res *correlation.Result) {
 		switch res.Method {
 		case correlation.MethodFisherZ, correlation.MethodSteigerZ, correlation.MethodZPF:
 			if !r.PoolSE.Known() {
@@ -48,7 +48,10 @@ func setCorrelationComparison(r *ClaimResult, cmp correlation.Comparison) {
 			}
 		}
 	}
-	for _, alt := range cmp.Alternatives {
+	pool(&cmp.Primary)
+	for i := range cmp.Alternatives {
+		alt := &cmp.Alternatives[i]
+		pool(alt)
 		r.Alternatives = append(r.Alternatives, Alternative{Method: alt.Method, Statistic: Number(alt.Stat), P: Number(alt.P)})
 	}
 	r.Notes = append(r.Notes, "The test ("+cmp.Primary.Method+") is built on the correlations as printed; the difference r1 − r2 and its interval (Zou 2007) are on the correlation scale.")

@@ -19,7 +19,10 @@ const undetermined = "undetermined"
 // estimates (estimate_corr); and otherwise the range over every admissible
 // correlation.
 func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
-	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	var src *corrSource
+	if len(a.corr) > 0 { // a paired row has no correlation table; its key would cost an allocation
+		src = a.corr[sampleKey(c1.Study, c1.Group)]
+	}
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
 			return
@@ -106,16 +109,19 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
 	gap := seGap(rc1.SERange, rc2.SERange)
 	ser := infer.Range{Lo: gap, Hi: rc1.SERange.Hi + rc2.SERange.Hi}
-	what := "the sampling correlation (or covariance) of the two estimates"
+	// Appended into one buffer: the note is written for every such claim.
+	var buf [640]byte
+	b := append(buf[:0], "Both estimates come from one sample (study "...)
+	b = strconv.AppendQuote(b, c1.Study)
+	b = strconv.AppendQuote(append(b, ", group "...), c1.Group)
+	b = append(b, ") and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need the sampling correlation (or covariance) of the two estimates"...)
 	switch {
 	case r.Measure == extract.MeasureR:
-		what += ", or the correlations between all the variables involved with n"
+		b = append(b, ", or the correlations between all the variables involved with n"...)
 	case r.Relation == SameModel:
-		what += ", or the correlation table of the model's outcome and predictors with their SDs and n"
+		b = append(b, ", or the correlation table of the model's outcome and predictors with their SDs and n"...)
 	}
-	r.Notes = append(r.Notes, "Both estimates come from one sample (study "+strconv.Quote(c1.Study)+", group "+strconv.Quote(c1.Group)+
-		") and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need "+
-		what+" from the authors.")
+	r.Notes = append(r.Notes, string(append(b, " from the authors."...)))
 	if c1.Group == "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

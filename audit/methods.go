@@ -113,7 +113,7 @@ func formatStat(x float64) string { return fmt.Sprintf("%.2f", x) }
 func caveatNotes(r *ClaimResult) []string {
 	var out []string
 	for i, n := range r.Notes {
-		if r.dec != nil && i == r.dec.verdictNote {
+		if r.decided && i == r.dec.verdictNote {
 			continue
 		}
 		out = append(out, n)

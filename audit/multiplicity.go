@@ -10,11 +10,24 @@ import (
 // adjustWithinStudies adds Holm and Benjamini–Hochberg adjusted p-values to
 // every claim with a p, the family being the claims of one study.
 func adjustWithinStudies(claims []ClaimResult) {
+	if oneStudy(claims) {
+		// A streamed batch passes one study's run: no map is needed, and
+		// the indices stay on the stack for a paper's usual handful.
+		var buf [64]int
+		idx := buf[:0]
+		for i := range claims {
+			if adjustable(&claims[i]) {
+				idx = append(idx, i)
+			}
+		}
+		adjustFamily(claims, idx)
+		return
+	}
 	families := map[string][]int{}
 	var order []string
 	for i := range claims {
 		c := &claims[i]
-		if !c.P.Known() || c.dec == nil {
+		if !adjustable(c) {
 			continue
 		}
 		if _, ok := families[c.Study]; !ok {
@@ -23,19 +36,38 @@ func adjustWithinStudies(claims []ClaimResult) {
 		families[c.Study] = append(families[c.Study], i)
 	}
 	for _, study := range order {
-		idx := families[study]
-		p := make([]float64, len(idx))
-		for k, i := range idx {
-			p[k] = float64(claims[i].P)
+		adjustFamily(claims, families[study])
+	}
+}
+
+func oneStudy(claims []ClaimResult) bool {
+	for i := 1; i < len(claims); i++ {
+		if claims[i].Study != claims[0].Study {
+			return false
 		}
-		holm := infer.HolmAdjust(p)
-		bh := infer.BenjaminiHochbergAdjust(p)
-		adjusted := make([]AdjustedPValues, len(idx)) // one allocation per family
-		for k, i := range idx {
-			adjusted[k] = AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
-			claims[i].AdjustedP = &adjusted[k]
-			claims[i].family = len(idx)
-		}
+	}
+	return true
+}
+
+// adjustable says whether a claim takes part in its study's adjustment.
+func adjustable(c *ClaimResult) bool { return c.P.Known() && c.decided }
+
+// adjustFamily adjusts the p-values of claims[idx], one study's family.
+func adjustFamily(claims []ClaimResult, idx []int) {
+	if len(idx) == 0 {
+		return
+	}
+	p := make([]float64, len(idx))
+	for k, i := range idx {
+		p[k] = float64(claims[i].P)
+	}
+	holm := infer.HolmAdjust(p)
+	bh := infer.BenjaminiHochbergAdjust(p)
+	adjusted := make([]AdjustedPValues, len(idx)) // one allocation per family
+	for k, i := range idx {
+		adjusted[k] = AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
+		claims[i].AdjustedP = &adjusted[k]
+		claims[i].family = len(idx)
 	}
 }
 
@@ -44,7 +76,7 @@ func adjustWithinStudies(claims []ClaimResult) {
 // adjustment factor (adjusted p / p), which keeps the family's order fixed —
 // an approximation when rounding could reorder the study's p-values.
 func (r *ClaimResult) settle(adjust string) {
-	if r.dec != nil {
+	if r.decided {
 		p, pr := float64(r.P), r.dec.pr
 		if q, ok := r.AdjustedP.By(adjust); ok && p > 0 {
 			f := float64(q) / p
@@ -57,7 +89,7 @@ func (r *ClaimResult) settle(adjust string) {
 	}
 	if r.conflict {
 		r.Outcome = Conflict
-		if dc := r.dec; dc != nil {
+		if dc := &r.dec; r.decided {
 			r.Notes[dc.verdictNote] = r.outcomeNote(dc.dir, dc.used)
 		}
 	}

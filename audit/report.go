@@ -118,8 +118,10 @@ type ClaimResult struct {
 	ExtraValues []string `json:"-"`
 
 	// dec is what the outcome is decided from, once the multiplicity
-	// adjustment is known; conflict forces the outcome conflict.
-	dec      *decision
+	// adjustment is known, when decided (held by value: it is set for
+	// nearly every claim); conflict forces the outcome conflict.
+	dec      decision
+	decided  bool
 	conflict bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int

@@ -103,7 +103,7 @@ type decision struct {
 // classify records the test's result for the claim; decide turns it into
 // the recomputed verdict and the outcome.
 func (r *ClaimResult) classify(e1, e2 float64, dr, pr infer.Range, how rangeKind) {
-	r.dec = &decision{e1: e1, e2: e2, dr: dr, pr: pr, how: how}
+	r.dec, r.decided = decision{e1: e1, e2: e2, dr: dr, pr: pr, how: how}, true
 }
 
 // decide sets the recomputed verdict and the outcome. p and pr are the
@@ -113,7 +113,7 @@ func (r *ClaimResult) classify(e1, e2 float64, dr, pr infer.Range, how rangeKind
 // difference anywhere in dr. A claim without a point p (NaN) is decided
 // only when the whole range lies on one side of α.
 func (r *ClaimResult) decide(p float64, pr infer.Range) {
-	dc := r.dec
+	dc := &r.dec
 	dir := direction(dc.e1, dc.e2, float64(r.Difference))
 	dirs := [2]int{dir, dir}
 	if dc.dr.Contains(0) {
@@ -238,7 +238,10 @@ func larger(published string) string {
 }
 
 // formatNum writes a number with four significant digits.
-func formatNum(x float64) string { return string(appendNum(nil, x)) }
+func formatNum(x float64) string {
+	var buf [32]byte // one allocation, the string's
+	return string(appendNum(buf[:0], x))
+}
 
 func appendNum(b []byte, x float64) []byte {
 	if math.IsNaN(x) {
@@ -256,7 +259,10 @@ func appendNum(b []byte, x float64) []byte {
 // formatP writes a p-value the way reports print them: three decimals,
 // "< 0.001" below that, and two significant digits in the far tail when
 // asked for exactly by pStatement.
-func formatP(p float64) string { return string(appendP(nil, p)) }
+func formatP(p float64) string {
+	var buf [32]byte
+	return string(appendP(buf[:0], p))
+}
 
 func appendP(b []byte, p float64) []byte {
 	switch {
@@ -268,7 +274,10 @@ func appendP(b []byte, p float64) []byte {
 	return strconv.AppendFloat(b, p, 'f', 3, 64)
 }
 
-func pStatement(p float64) string { return string(appendPStatement(nil, p)) }
+func pStatement(p float64) string {
+	var buf [32]byte
+	return string(appendPStatement(buf[:0], p))
+}
 
 func appendPStatement(b []byte, p float64) []byte {
 	if p < 0.001 {

@@ -69,7 +69,7 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	}
 	rc.Level = level / 100
 	if !c.Estimate.IsExact() {
-		return rc, fmt.Errorf("%w: no estimate printed", ErrNoStandardError)
+		return rc, errNoEstimate
 	}
 	if c.N.IsExact() {
 		rc.N = c.N.Value
@@ -87,13 +87,15 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	}
 	rc.DF = chooseDF(c, modelSize, &rc)
 
+	// The limits' rounding intervals on the scale, kept for fromInterval.
+	var loR, hiR infer.Range
 	if c.CI.Present() {
-		lo, _, err1 := rc.onScale(c.Measure, c.CI.Low)
-		hi, _, err2 := rc.onScale(c.Measure, c.CI.High)
+		lo, lr, err1 := rc.onScale(c.Measure, c.CI.Low)
+		hi, hr, err2 := rc.onScale(c.Measure, c.CI.High)
 		if err := errors.Join(err1, err2); err != nil {
 			return rc, err
 		}
-		rc.CI = [2]float64{lo, hi}
+		rc.CI, loR, hiR = [2]float64{lo, hi}, lr, hr
 	}
 
 	switch {
@@ -114,10 +116,10 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 		rc.SEFrom = "se"
 		rc.SEExactRange = true
 		if rc.Scale != ScaleAsPrinted {
-			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the printed SE is taken to be on the %s scale", c.Label, rc.Scale))
+			rc.Notes = append(rc.Notes, c.Label+": the printed SE is taken to be on the "+rc.Scale+" scale")
 		}
 	case c.CI.Present():
-		if err := rc.fromInterval(c); err != nil {
+		if err := rc.fromInterval(c, loR, hiR); err != nil {
 			return rc, err
 		}
 	case c.Stat.IsExact() && c.Stat.Value != 0:
@@ -127,14 +129,20 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 			return rc, err
 		}
 	default:
-		what := "no SE, interval, statistic or p-value printed"
 		if c.P.Bound == NotSignificant || c.P.Bound == Above {
-			what = fmt.Sprintf("only %q printed for p, which bounds nothing useful", c.P.Text)
+			return rc, fmt.Errorf("%w: only %q printed for p, which bounds nothing useful", ErrNoStandardError, c.P.Text)
 		}
-		return rc, fmt.Errorf("%w: %s", ErrNoStandardError, what)
+		return rc, errNothingPrinted
 	}
 	return rc, nil
 }
+
+// The two commonest reasons for no SE, made once: a file of a million rows
+// may give one of them on every other row.
+var (
+	errNoEstimate     = fmt.Errorf("%w: no estimate printed", ErrNoStandardError)
+	errNothingPrinted = fmt.Errorf("%w: no SE, interval, statistic or p-value printed", ErrNoStandardError)
+)
 
 // onScale puts a printed number and its rounding interval on the
 // analysis scale (the identity, the log or Fisher's z).
@@ -215,14 +223,14 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	switch {
 	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
 		if n-2 < smallDF {
-			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
+			rc.Notes = append(rc.Notes, dfNote(c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
 		}
 		return n - 2
 	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
-				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − k − 1 = %g with the k = %g coefficients listed for its model; unlisted covariates would lower it", c.Label, n-k-1, k))
+				rc.Notes = append(rc.Notes, dfNote(c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = "+strconv.FormatFloat(k, 'g', -1, 64)+" coefficients listed for its model; unlisted covariates would lower it"))
 			}
 			return n - k - 1
 		}
@@ -230,9 +238,18 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	return math.NaN()
 }
 
-func (rc *Reconstructed) fromInterval(c *Coefficient) error {
-	_, loR, _ := rc.onScale(c.Measure, c.CI.Low)
-	_, hiR, _ := rc.onScale(c.Measure, c.CI.High)
+// dfNote is label+before+df+after, with df as %g prints it, in one
+// allocation: the note is written for most small-sample rows.
+func dfNote(label, before string, df float64, after string) string {
+	var buf [128]byte
+	b := append(append(buf[:0], label...), before...)
+	b = strconv.AppendFloat(b, df, 'g', -1, 64)
+	return string(append(b, after...))
+}
+
+// fromInterval takes the SE from the interval rc.CI, whose limits' rounding
+// intervals on the analysis scale are loR and hiR.
+func (rc *Reconstructed) fromInterval(c *Coefficient, loR, hiR infer.Range) error {
 	lo, hi := rc.CI[0], rc.CI[1]
 	if !(lo < hi) {
 		return fmt.Errorf("%w: interval limits %s and %s are reversed or equal", ErrNoStandardError, c.CI.Low.Text, c.CI.High.Text)
@@ -282,7 +299,7 @@ func (rc *Reconstructed) fromStatistic(c *Coefficient) {
 	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / tHi, Hi: aHi / tLo}
 	rc.SEFrom = "estimate, stat"
 	if rc.Scale != ScaleAsPrinted {
-		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the statistic is taken to be estimate/SE on the %s scale", c.Label, rc.Scale))
+		rc.Notes = append(rc.Notes, c.Label+": the statistic is taken to be estimate/SE on the "+rc.Scale+" scale")
 	}
 }
 
@@ -305,7 +322,10 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 		rc.SE = math.Abs(rc.Estimate) / qb
 		rc.SERange = infer.Range{Lo: rc.SE * 1e-6, Hi: aHi / qb}
 		rc.SEFrom = namedQuantile("estimate, p bound", rc.DF)
-		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: only %q was printed, so the SE %.4g taken from it is the largest the bound allows", c.Label, c.P.Text, rc.SE))
+		var buf [160]byte
+		b := strconv.AppendQuote(append(append(buf[:0], c.Label...), ": only "...), c.P.Text)
+		b = strconv.AppendFloat(append(b, " was printed, so the SE "...), rc.SE, 'g', 4, 64)
+		rc.Notes = append(rc.Notes, string(append(b, " taken from it is the largest the bound allows"...)))
 		return nil
 	}
 	pq, err := q(c.P.Value)
