@@ -150,7 +150,10 @@ func TestStudentTQuantileMemo(t *testing.T) {
 			defer wg.Done()
 			for i := range 200 {
 				df := float64(1 + (i*7+g)%150)
-				p := []float64{0.05, 0.01, 0.1, 0.003}[i%4]
+				if i%3 == 0 {
+					df += 4000 // across maxCriticalDF
+				}
+				p := []float64{0.05, 0.01, 0.1, 0.003, criticalLevels[0], criticalLevels[1], criticalLevels[2]}[i%7]
 				got, err := StudentTFromTwoSidedP(p, df)
 				want, _ := studentTQuantile(p, df)
 				if err != nil || math.Float64bits(got) != math.Float64bits(want) {
@@ -164,6 +167,33 @@ func TestStudentTQuantileMemo(t *testing.T) {
 	close(errs)
 	for e := range errs {
 		t.Error(e)
+	}
+	// The critical values of the usual levels at whole df have slots of
+	// their own; other p and df go to the map. The levels' p are formed at
+	// run time, as StudentTCriticalValue forms them.
+	l95, l90, l99 := 0.95, 0.90, 0.99
+	p95, p90, p99 := 1-l95, 1-l90, 1-l99
+	if p95 == 0.05 {
+		t.Fatalf("1 − 0.95 formed at run time is %v, expected to differ from 0.05", p95)
+	}
+	for _, c := range []struct {
+		p, df float64
+		slot  bool
+	}{{p95, 1, true}, {p90, 4096, true}, {p99, 30, true}, {p95, 4097, false},
+		{p95, 30.5, false}, {0.05, 30, false}, {p95, 0, false}} {
+		slot := criticalSlot(c.p, c.df)
+		if (slot != nil) != c.slot {
+			t.Errorf("criticalSlot(%v, %v) present = %v, want %v", c.p, c.df, slot != nil, c.slot)
+			continue
+		}
+		if slot == nil {
+			continue
+		}
+		got, _ := StudentTFromTwoSidedP(c.p, c.df)
+		want, _ := studentTQuantile(c.p, c.df)
+		if slot.Load() != math.Float64bits(want) || got != want {
+			t.Errorf("critical value (%v, %v): slot %v, returned %v, computed %v", c.p, c.df, math.Float64frombits(slot.Load()), got, want)
+		}
 	}
 	for i := range maxCachedQuantiles + 10 {
 		if _, err := StudentTFromTwoSidedP(0.05, 1000+float64(i)); err != nil {
