@@ -345,6 +345,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 	case extract.ScaleAsPrinted:
 	case extract.ScaleFisherZ:
 		r.Notes = append(r.Notes, "The two estimates and their SEs are shown on the Fisher z scale.")
+	case extract.ScaleLog: // a constant, so no allocation
+		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+extract.ScaleLog+" scale.")
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}

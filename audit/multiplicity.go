@@ -57,9 +57,10 @@ func adjustFamily(claims []ClaimResult, idx []int) {
 	if len(idx) == 0 {
 		return
 	}
-	p := make([]float64, len(idx))
-	for k, i := range idx {
-		p[k] = float64(claims[i].P)
+	var buf [64]float64
+	p := buf[:0]
+	for _, i := range idx {
+		p = append(p, float64(claims[i].P))
 	}
 	holm := infer.HolmAdjust(p)
 	bh := infer.BenjaminiHochbergAdjust(p)

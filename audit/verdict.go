@@ -149,8 +149,12 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, dc.how.phrase()+" ranges from "+formatP(pr.Lo)+" to "+formatP(pr.Hi)+
-			", on both sides of α = "+formatAlpha(r.Alpha)+": whether the verdict stands turns on what the paper did not print.")
+		var buf [256]byte
+		b := appendP(append(append(buf[:0], dc.how.phrase()...), " ranges from "...), pr.Lo)
+		b = appendP(append(b, " to "...), pr.Hi)
+		b = append(append(append(b, ", on both sides of α = "...), formatAlpha(r.Alpha)...),
+			": whether the verdict stands turns on what the paper did not print."...)
+		r.Notes = append(r.Notes, string(b))
 	}
 }
 
@@ -186,11 +190,11 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 		b = append(r.appendTestResult(append(b, "The verdict stands: "...), pr), '.')
 	case Unsupported:
 		b = r.appendTestResult(append(b, "The paper reports a difference, but "...), pr)
-		b = strconv.AppendFloat(append(b, ", not below α = "...), r.Alpha, 'g', -1, 64)
+		b = append(append(b, ", not below α = "...), formatAlpha(r.Alpha)...)
 		b = append(b, ": the printed numbers do not show one."...)
 	case Missed:
 		b = r.appendTestResult(append(b, "The paper reports no difference, but "...), pr)
-		b = append(strconv.AppendFloat(append(b, ", below α = "...), r.Alpha, 'g', -1, 64), '.')
+		b = append(append(append(b, ", below α = "...), formatAlpha(r.Alpha)...), '.')
 	case Reversed:
 		b = append(append(append(b, "The paper says the "...), larger(r.Published)...),
 			" estimate is the larger, but the estimates point the other way: "...)
@@ -215,7 +219,7 @@ func (r *ClaimResult) appendTestResult(b []byte, pr infer.Range) []byte {
 		b = append(b, " (difference "...)
 		b = appendNum(b, float64(r.Difference))
 		b = append(b, ", "...)
-		b = strconv.AppendFloat(b, 100*(1-r.Alpha), 'g', -1, 64)
+		b = appendLevel(b, r.Alpha)
 		b = append(b, "% CI "...)
 		b = appendNum(b, float64(r.DifferenceCI[0]))
 		b = append(b, " to "...)
@@ -288,4 +292,24 @@ func appendPStatement(b []byte, p float64) []byte {
 	return appendP(b, p)
 }
 
-func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
+func formatAlpha(a float64) string {
+	if a == extract.DefaultAlpha {
+		return defaultAlphaText
+	}
+	return strconv.FormatFloat(a, 'g', -1, 64)
+}
+
+// The default α and its confidence level as the notes print them, made
+// once: nearly every claim's notes print one of them.
+var (
+	defaultAlphaText = strconv.FormatFloat(extract.DefaultAlpha, 'g', -1, 64)
+	defaultLevelText = strconv.FormatFloat(100*(1-extract.DefaultAlpha), 'g', -1, 64)
+)
+
+// appendLevel appends the confidence level 100(1 − α) as %g prints it.
+func appendLevel(b []byte, alpha float64) []byte {
+	if alpha == extract.DefaultAlpha {
+		return append(b, defaultLevelText...)
+	}
+	return strconv.AppendFloat(b, 100*(1-alpha), 'g', -1, 64)
+}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"sync/atomic"
 
 	"coefaudit/infer"
 )
@@ -193,12 +194,44 @@ func namedQuantile(what string, df float64) string {
 		}
 		return what + " (normal)"
 	}
+	slot := quantileNameSlot(what, df)
+	if slot != nil {
+		if s := slot.Load(); s != nil {
+			return *s
+		}
+	}
 	var buf [96]byte
 	b := append(buf[:0], what...)
 	b = append(b, " (t, df "...)
 	b = strconv.AppendFloat(b, df, 'g', -1, 64)
 	b = append(b, ')')
-	return string(b)
+	s := string(b)
+	if slot != nil {
+		slot.Store(&s)
+	}
+	return s
+}
+
+// quantileNames are the sources of an SE namedQuantile is most often asked
+// to name; with a whole df up to maxNamedDF the name is made once and kept
+// in a slot read without a lock, as the SE of nearly every row is named.
+var quantileNames = [...]string{"ci_low, ci_high", "ci", "estimate, p", "estimate, p bound"}
+
+const maxNamedDF = 4096
+
+var quantileNameSlots [len(quantileNames)][maxNamedDF]atomic.Pointer[string]
+
+func quantileNameSlot(what string, df float64) *atomic.Pointer[string] {
+	d := int(df)
+	if float64(d) != df || d < 1 || d > maxNamedDF {
+		return nil
+	}
+	for i, n := range quantileNames {
+		if what == n {
+			return &quantileNameSlots[i][d-1]
+		}
+	}
+	return nil
 }
 
 // smallDF is the df below which a derived df is worth a note: above it the

@@ -174,6 +174,9 @@ func TestNamedQuantileMatchesFmt(t *testing.T) {
 	}
 	whats := []string{"ci_low, ci_high", "ci", "estimate, p", "estimate, p bound",
 		"ci_low, ci_high, mean of the two half-widths", "ci, mean of the two half-widths"}
+	// Whole df up to maxNamedDF are named from a slot once made: each is
+	// asked for twice, the second time from the slot.
+	dfs = append(dfs, 1, 2, 30, 30, maxNamedDF, maxNamedDF, maxNamedDF+1, maxNamedDF+1)
 	for _, df := range dfs {
 		if got, want := strconv.FormatFloat(df, 'g', -1, 64), fmt.Sprintf("%g", df); got != want {
 			t.Fatalf("strconv.FormatFloat(%v, 'g', -1, 64) = %q, want fmt's %%g %q", df, got, want)

@@ -19,7 +19,8 @@ import (
 //	[1] Holm S (1979). A simple sequentially rejective multiple test
 //	    procedure. Scandinavian Journal of Statistics 6(2):65–70.
 func HolmAdjust(p []float64) []float64 {
-	idx, out := familyOrder(p)
+	var buf [familyOnStack]int
+	idx, out := familyOrder(p, buf[:0])
 	m := float64(len(idx))
 	running := 0.0
 	for rank, i := range idx {
@@ -44,7 +45,8 @@ func HolmAdjust(p []float64) []float64 {
 //	    rate: a practical and powerful approach to multiple testing.
 //	    Journal of the Royal Statistical Society B 57(1):289–300.
 func BenjaminiHochbergAdjust(p []float64) []float64 {
-	idx, out := familyOrder(p)
+	var buf [familyOnStack]int
+	idx, out := familyOrder(p, buf[:0])
 	m := float64(len(idx))
 	running := 1.0
 	for rank := len(idx) - 1; rank >= 0; rank-- {
@@ -55,11 +57,14 @@ func BenjaminiHochbergAdjust(p []float64) []float64 {
 	return out
 }
 
-// familyOrder returns the indices of the non-NaN p sorted ascending, and an
-// output slice filled with NaN.
-func familyOrder(p []float64) ([]int, []float64) {
+// familyOnStack is the family size whose ordering needs no allocation: an
+// audit adjusts many small families, one per study.
+const familyOnStack = 64
+
+// familyOrder returns the indices of the non-NaN p sorted ascending,
+// appended to idx, and an output slice filled with NaN.
+func familyOrder(p []float64, idx []int) ([]int, []float64) {
 	out := make([]float64, len(p))
-	idx := make([]int, 0, len(p))
 	for i, x := range p {
 		out[i] = math.NaN()
 		if !math.IsNaN(x) {
