@@ -142,18 +142,11 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 		return q, nil
 	}
 	key := quantileKey{p, df}
-	tQuantiles.RLock()
-	q, ok := tQuantiles.m[key]
-	tQuantiles.RUnlock()
-	if ok {
-		return q, nil
+	if v, ok := tQuantiles.m.Load(key); ok {
+		return v.(float64), nil
 	}
-	q = computeStudentTQuantile(p, df)
-	tQuantiles.Lock()
-	if len(tQuantiles.m) < maxCachedQuantiles {
-		tQuantiles.m[key] = q
-	}
-	tQuantiles.Unlock()
+	q := computeStudentTQuantile(p, df)
+	tQuantiles.remember(key, q)
 	return q, nil
 }
 
@@ -203,7 +196,7 @@ func criticalSlot(p, df float64) *atomic.Uint64 {
 	return nil
 }
 
-// The t quantile costs tens of microseconds (an inverse incomplete beta),
+// The t quantile costs over a microsecond (several incomplete beta values),
 // and an audit asks for the same few (level, df) pairs over and over: a
 // literature of claims has 95% intervals and a few hundred distinct df. So
 // quantiles are remembered, up to a bound that keeps hostile input (every
@@ -213,10 +206,32 @@ type quantileKey struct{ p, df float64 }
 
 const maxCachedQuantiles = 1 << 14
 
-var tQuantiles = struct {
-	sync.RWMutex
-	m map[quantileKey]float64
-}{m: map[quantileKey]float64{}}
+// tQuantiles is the memo. sync.Map reads take no lock, so the workers of a
+// streamed audit do not contend for it; n counts the entries against the
+// bound, and full, once set, keeps a miss from writing anything shared.
+var tQuantiles tQuantileMemo
+
+type tQuantileMemo struct {
+	m    sync.Map // quantileKey → float64
+	n    atomic.Int64
+	full atomic.Bool
+}
+
+// remember keeps q for key unless the memo is full. The count is taken
+// before the store, so that racing workers cannot pass the bound.
+func (memo *tQuantileMemo) remember(key quantileKey, q float64) {
+	if memo.full.Load() {
+		return
+	}
+	if memo.n.Add(1) > maxCachedQuantiles {
+		memo.n.Add(-1)
+		memo.full.Store(true)
+		return
+	}
+	if _, loaded := memo.m.LoadOrStore(key, q); loaded {
+		memo.n.Add(-1)
+	}
+}
 
 // StudentTCriticalValue returns t_(1−α/2, df) for a two-sided confidence
 // level given as a proportion.

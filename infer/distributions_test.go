@@ -200,11 +200,18 @@ func TestStudentTQuantileMemo(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	tQuantiles.RLock()
-	n := len(tQuantiles.m)
-	tQuantiles.RUnlock()
+	n := 0
+	tQuantiles.m.Range(func(any, any) bool { n++; return true })
 	if n > maxCachedQuantiles {
 		t.Errorf("the t quantile memo holds %d entries, more than its bound %d", n, maxCachedQuantiles)
+	}
+	if !tQuantiles.full.Load() {
+		t.Error("the t quantile memo is at its bound but not marked full, so misses still take its write lock")
+	}
+	// A miss once full is still computed, and equals the computation.
+	got, _ := StudentTFromTwoSidedP(0.0123, 777.5)
+	if want, _ := studentTQuantile(0.0123, 777.5); got != want {
+		t.Errorf("a t quantile missed once the memo is full = %v, want %v", got, want)
 	}
 }
 
