@@ -8,28 +8,43 @@ import (
 )
 
 // TestCSVNumberMatchesStrconv checks appendCSVNumber against strconv's 'g'
-// format with ten digits, the reference its short-decimal path must equal
-// byte for byte: short decimals of every scale it tries, their neighbouring
-// doubles, whole numbers around 10^10, and random doubles of every
-// magnitude. It also checks that the short path is taken where it should
-// be, so that the comparison is not only of strconv with itself.
+// format with ten digits, the reference its quick path must equal byte for
+// byte: random doubles of every magnitude and of a report's magnitudes,
+// short decimals, their neighbouring doubles, the decades' edges, values
+// that round up into the next decade, and exact ties. It also checks that
+// the quick path is taken where it should be, so that the comparison is not
+// only of strconv with itself.
 func TestCSVNumberMatchesStrconv(t *testing.T) {
 	rng := rand.New(rand.NewPCG(20261202, 8))
 	tenth := 0.1 // a variable, so that tenth+0.2 is formed in float64, not exactly as a constant
-
+	next := func(x float64) []float64 {
+		return []float64{x, math.Nextafter(x, math.Inf(1)), math.Nextafter(x, math.Inf(-1))}
+	}
 	var xs []float64
-	for range 200000 {
-		d := rng.IntN(6) // one more decimal than the short path tries
+	for range 300000 {
+		d := rng.IntN(8)
 		m := float64(rng.Int64N([]int64{10, 1000, 1e6, 1e10, 1e12}[rng.IntN(5)]))
 		x := m / math.Pow(10, float64(d))
 		if rng.IntN(2) == 0 {
 			x = -x
 		}
-		xs = append(xs, x, math.Nextafter(x, math.Inf(1)), math.Nextafter(x, math.Inf(-1)))
-		xs = append(xs, math.Float64frombits(rng.Uint64()), rng.NormFloat64()*math.Pow(10, float64(rng.IntN(30)-15)))
+		xs = append(xs, next(x)...)
+		xs = append(xs, math.Float64frombits(rng.Uint64()), rng.NormFloat64()*math.Pow(10, float64(rng.IntN(30)-15)),
+			rng.Float64(), rng.ExpFloat64()*1e-3)
 	}
-	xs = append(xs, 0, math.Copysign(0, -1), 1, -1, 0.05, tenth+0.2, 1e-4, 1.5e-4, 9.9999e-5, 9999999999, 1e10, 10000000001,
-		999999999.9, 99999999.99, 123456.7891, 5e-324, math.MaxFloat64, math.Inf(1), math.Inf(-1))
+	for e := -6; e <= 11; e++ {
+		p := math.Pow(10, float64(e))
+		xs = append(xs, next(p)...)
+		xs = append(xs, next(-p)...)
+		xs = append(xs, next(p*(1-5e-11))...) // rounds up into the next decade
+		xs = append(xs, next(p*9.9999999995)...)
+	}
+	// Exact ties at the tenth digit: k + 1/2 over a power of two, scaled.
+	for _, x := range []float64{1234567890.5, 123456789.25, 0.5, 0.125, 1.0000000005, 2.0000000005} {
+		xs = append(xs, next(x)...)
+	}
+	xs = append(xs, 0, math.Copysign(0, -1), 1, -1, 0.05, tenth+0.2, 9999999999, 9999999999.5, 1e10, 10000000001,
+		999999999.9, 99999999.99, 123456.7891, 5e-324, math.MaxFloat64)
 	for _, x := range xs {
 		if !Number(x).Known() {
 			continue // written empty
@@ -41,11 +56,12 @@ func TestCSVNumberMatchesStrconv(t *testing.T) {
 	}
 	for _, c := range []struct {
 		x     float64
-		short bool
-	}{{0.05, true}, {95, true}, {-0.0001, true}, {1.25, true}, {9999999999, true}, {123456.7891, true},
-		{0.00005, false}, {1e10, false}, {tenth + 0.2, false}, {0.12345, false}, {1.0 / 3, false}, {0, false}} {
-		if _, ok := appendShortDecimal(nil, c.x); ok != c.short {
-			t.Errorf("appendShortDecimal(%v) taken = %v, want %v", c.x, ok, c.short)
+		quick bool
+	}{{0.05, true}, {95, true}, {-0.0001, true}, {1.25, true}, {9999999999, true}, {0.6014352834, true},
+		{-0.2121123358, true}, {1.0 / 3, true}, {tenth + 0.2, true}, {0.00005, false}, {1e10, false},
+		{9999999999.5, false}, {1234567890.5, false}, {0, false}, {math.Inf(1), false}} {
+		if _, ok := appendTenDigitsQuick(nil, c.x); ok != c.quick {
+			t.Errorf("appendTenDigitsQuick(%v) taken = %v, want %v", c.x, ok, c.quick)
 		}
 	}
 }
@@ -63,5 +79,31 @@ func BenchmarkCSVNumber(b *testing.B) {
 				buf = appendCSVNumber(buf[:0], Number(bc.xs[i%len(bc.xs)]))
 			}
 		})
+		b.Run(bc.name+"-strconv", func(b *testing.B) {
+			var buf []byte
+			for i := range b.N {
+				buf = strconv.AppendFloat(buf[:0], bc.xs[i%len(bc.xs)], 'g', 10, 64)
+			}
+		})
 	}
+}
+
+// FuzzCSVNumber compares appendCSVNumber with strconv's ten-digit 'g'
+// format on any double, from its bits or as a decimal scaled by a power of
+// ten (where the ties and the decade edges are).
+func FuzzCSVNumber(f *testing.F) {
+	for _, x := range []float64{0.05, 1234567890.5, 9999999999.5, 0.0001, 123.456, -0.6014352834} {
+		f.Add(math.Float64bits(x), int64(0), int8(0))
+	}
+	f.Add(uint64(0), int64(12345678905), int8(-10))
+	f.Fuzz(func(t *testing.T, bits uint64, mantissa int64, exp int8) {
+		for _, x := range []float64{math.Float64frombits(bits), float64(mantissa) * math.Pow(10, float64(exp%24))} {
+			if !Number(x).Known() {
+				continue
+			}
+			if got, want := string(appendCSVNumber(nil, Number(x))), strconv.FormatFloat(x, 'g', 10, 64); got != want {
+				t.Fatalf("appendCSVNumber(%v) = %q, want %q", x, got, want)
+			}
+		}
+	})
 }
