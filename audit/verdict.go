@@ -257,7 +257,7 @@ func appendNum(b []byte, x float64) []byte {
 		}
 		return append(b, "−∞"...)
 	}
-	return strconv.AppendFloat(b, x, 'g', 4, 64)
+	return appendSignificant(b, x, 4)
 }
 
 // formatP writes a p-value the way reports print them: three decimals,
@@ -275,7 +275,7 @@ func appendP(b []byte, p float64) []byte {
 	case p < 0.001:
 		return append(b, "< 0.001"...)
 	}
-	return strconv.AppendFloat(b, p, 'f', 3, 64)
+	return appendThreeDecimals(b, p)
 }
 
 func pStatement(p float64) string {

@@ -7,21 +7,21 @@ import (
 	"testing"
 )
 
-// TestCSVNumberMatchesStrconv checks appendCSVNumber against strconv's 'g'
-// format with ten digits, the reference its quick path must equal byte for
-// byte: random doubles of every magnitude and of a report's magnitudes,
+// TestSignificantMatchesStrconv checks appendSignificant, for every
+// precision it takes, and appendCSVNumber against strconv's 'g' format, the
+// reference its quick path must equal byte for byte: random doubles of every magnitude and of a report's magnitudes,
 // short decimals, their neighbouring doubles, the decades' edges, values
 // that round up into the next decade, and exact ties. It also checks that
 // the quick path is taken where it should be, so that the comparison is not
 // only of strconv with itself.
-func TestCSVNumberMatchesStrconv(t *testing.T) {
+func TestSignificantMatchesStrconv(t *testing.T) {
 	rng := rand.New(rand.NewPCG(20261202, 8))
 	tenth := 0.1 // a variable, so that tenth+0.2 is formed in float64, not exactly as a constant
 	next := func(x float64) []float64 {
 		return []float64{x, math.Nextafter(x, math.Inf(1)), math.Nextafter(x, math.Inf(-1))}
 	}
 	var xs []float64
-	for range 300000 {
+	for range 100000 {
 		d := rng.IntN(8)
 		m := float64(rng.Int64N([]int64{10, 1000, 1e6, 1e10, 1e12}[rng.IntN(5)]))
 		x := m / math.Pow(10, float64(d))
@@ -53,6 +53,11 @@ func TestCSVNumberMatchesStrconv(t *testing.T) {
 		if want := strconv.FormatFloat(x, 'g', 10, 64); got != want {
 			t.Fatalf("appendCSVNumber(%v) = %q, want %q", x, got, want)
 		}
+		for prec := 1; prec <= 10; prec++ {
+			if got, want := string(appendSignificant(nil, x, prec)), strconv.FormatFloat(x, 'g', prec, 64); got != want {
+				t.Fatalf("appendSignificant(%v, %d) = %q, want %q", x, prec, got, want)
+			}
+		}
 	}
 	for _, c := range []struct {
 		x     float64
@@ -60,8 +65,35 @@ func TestCSVNumberMatchesStrconv(t *testing.T) {
 	}{{0.05, true}, {95, true}, {-0.0001, true}, {1.25, true}, {9999999999, true}, {0.6014352834, true},
 		{-0.2121123358, true}, {1.0 / 3, true}, {tenth + 0.2, true}, {0.00005, false}, {1e10, false},
 		{9999999999.5, false}, {1234567890.5, false}, {0, false}, {math.Inf(1), false}} {
-		if _, ok := appendTenDigitsQuick(nil, c.x); ok != c.quick {
-			t.Errorf("appendTenDigitsQuick(%v) taken = %v, want %v", c.x, ok, c.quick)
+		if _, ok := appendSignificantQuick(nil, c.x, 10); ok != c.quick {
+			t.Errorf("appendSignificantQuick(%v, 10) taken = %v, want %v", c.x, ok, c.quick)
+		}
+	}
+	for _, c := range []struct {
+		x     float64
+		quick bool
+	}{{0.05, true}, {-0.2121123358, true}, {9999, true}, {9999.4, true}, {9999.6, false}, {12345, false}, {0.00005, false}} {
+		if _, ok := appendSignificantQuick(nil, c.x, 4); ok != c.quick {
+			t.Errorf("appendSignificantQuick(%v, 4) taken = %v, want %v", c.x, ok, c.quick)
+		}
+	}
+}
+
+// TestThreeDecimalsMatchesStrconv checks appendThreeDecimals against
+// strconv's 'f' format with three decimals: p-values, their neighbouring
+// doubles, exact ties (0.0625 is 62.5 thousandths), and values outside the
+// quick range.
+func TestThreeDecimalsMatchesStrconv(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20261202, 3))
+	xs := []float64{0, math.Copysign(0, -1), 0.0005, 0.0015, 0.0625, 0.1875, 0.9995, 1, 999.9995, 1000, 1000.0001, -0.001,
+		1e-300, math.NaN(), math.Inf(1)}
+	for range 200000 {
+		x := []float64{rng.Float64(), rng.Float64() * 1000, float64(rng.IntN(2001)) / 2000, rng.ExpFloat64() * 1e-3}[rng.IntN(4)]
+		xs = append(xs, x, math.Nextafter(x, 2000), math.Nextafter(x, -1))
+	}
+	for _, x := range xs {
+		if got, want := string(appendThreeDecimals(nil, x)), strconv.FormatFloat(x, 'f', 3, 64); got != want {
+			t.Fatalf("appendThreeDecimals(%v) = %q, want %q", x, got, want)
 		}
 	}
 }
@@ -88,21 +120,25 @@ func BenchmarkCSVNumber(b *testing.B) {
 	}
 }
 
-// FuzzCSVNumber compares appendCSVNumber with strconv's ten-digit 'g'
-// format on any double, from its bits or as a decimal scaled by a power of
+// FuzzCSVNumber compares appendSignificant with strconv's 'g' format, at
+// ten digits and at the precision the input picks, on any double, from its bits or as a decimal scaled by a power of
 // ten (where the ties and the decade edges are).
 func FuzzCSVNumber(f *testing.F) {
 	for _, x := range []float64{0.05, 1234567890.5, 9999999999.5, 0.0001, 123.456, -0.6014352834} {
-		f.Add(math.Float64bits(x), int64(0), int8(0))
+		f.Add(math.Float64bits(x), int64(0), int8(0), uint8(4))
 	}
-	f.Add(uint64(0), int64(12345678905), int8(-10))
-	f.Fuzz(func(t *testing.T, bits uint64, mantissa int64, exp int8) {
+	f.Add(uint64(0), int64(12345678905), int8(-10), uint8(10))
+	f.Fuzz(func(t *testing.T, bits uint64, mantissa int64, exp int8, prec uint8) {
+		p := 1 + int(prec%10)
 		for _, x := range []float64{math.Float64frombits(bits), float64(mantissa) * math.Pow(10, float64(exp%24))} {
 			if !Number(x).Known() {
 				continue
 			}
 			if got, want := string(appendCSVNumber(nil, Number(x))), strconv.FormatFloat(x, 'g', 10, 64); got != want {
 				t.Fatalf("appendCSVNumber(%v) = %q, want %q", x, got, want)
+			}
+			if got, want := string(appendSignificant(nil, x, p)), strconv.FormatFloat(x, 'g', p, 64); got != want {
+				t.Fatalf("appendSignificant(%v, %d) = %q, want %q", x, p, got, want)
 			}
 		}
 	})
