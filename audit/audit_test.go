@@ -23,7 +23,7 @@ func printed(s string) extract.Printed {
 	if i := strings.IndexByte(s, '.'); i >= 0 {
 		dec = len(s) - i - 1
 	}
-	return extract.Printed{Value: v, Decimals: dec, Bound: extract.Exact, Text: s}
+	return extract.Printed{Value: v, Decimals: int32(dec), Bound: extract.Exact, Text: s}
 }
 
 type coefSpec struct {

@@ -15,7 +15,7 @@ import (
 // one claim.
 func exampleInput() *extract.Input {
 	num := func(s string, v float64) extract.Printed {
-		return extract.Printed{Value: v, Decimals: len(s) - strings.IndexByte(s, '.') - 1, Bound: extract.Exact, Text: s}
+		return extract.Printed{Value: v, Decimals: int32(len(s) - strings.IndexByte(s, '.') - 1), Bound: extract.Exact, Text: s}
 	}
 	coef := func(row int, label, group, est string, e float64, se string, s float64) extract.Coefficient {
 		return extract.Coefficient{Position: extract.Position{Sheet: "coefficients", Row: row}, Study: "Invented 2024",

@@ -61,7 +61,7 @@ func TestParseReported(t *testing.T) {
 			if r.P.Bound != tt.pBound || (tt.p != none && math.Abs(r.P.Value-tt.p) > 1e-12) {
 				t.Errorf("ParseReported(%q) p = %v (%v), want %v (%v)", tt.in, r.P.Value, r.P.Bound, tt.p, tt.pBound)
 			}
-			if r.Estimate.Decimals != tt.estimateDigits {
+			if int(r.Estimate.Decimals) != tt.estimateDigits {
 				t.Errorf("ParseReported(%q) estimate decimals = %d, want %d", tt.in, r.Estimate.Decimals, tt.estimateDigits)
 			}
 		})

@@ -260,7 +260,7 @@ func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
 			return
 		}
 		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
-			dst.Value, dst.Decimals, dst.Bound, dst.Text = v, dec, Exact, s
+			dst.Value, dst.Decimals, dst.Bound, dst.Text = v, int32(dec), Exact, s
 			return
 		}
 	}
@@ -284,7 +284,7 @@ func cellNumber(c sheetCell, kind numberKind) (Printed, error) {
 			return Printed{Bound: Absent}, nil
 		}
 		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
-			return Printed{Value: v, Decimals: dec, Bound: Exact, Text: s}, nil
+			return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, nil
 		}
 	}
 	return cellNumberGeneral(c, kind)
@@ -311,7 +311,7 @@ func cellNumberGeneral(c sheetCell, kind numberKind) (Printed, error) {
 	if reason != "" {
 		return Printed{}, &ParseError{Text: c.Display, Kind: ErrMalformedNumber, Reason: reason}
 	}
-	p := Printed{Value: v, Decimals: dec, Bound: Exact, DecimalsFromDisplay: true, Text: trimSpace(c.Display)}
+	p := Printed{Value: v, Decimals: int32(dec), Bound: Exact, DecimalsFromDisplay: true, Text: trimSpace(c.Display)}
 	if kind == kindP && (v < 0 || v > 1) {
 		return Printed{}, &ParseError{Text: p.Text, Kind: ErrMalformedP, Reason: "a p-value must lie between 0 and 1"}
 	}

@@ -59,7 +59,7 @@ func TestParseInterval(t *testing.T) {
 			if err != nil {
 				t.Fatalf("ParseIntervalLevel(%q) error %v", tt.text, err)
 			}
-			if iv.Low.Value != tt.low || iv.High.Value != tt.high || iv.Low.Decimals != tt.decLo || iv.High.Decimals != tt.decHi || level != tt.level {
+			if iv.Low.Value != tt.low || iv.High.Value != tt.high || int(iv.Low.Decimals) != tt.decLo || int(iv.High.Decimals) != tt.decHi || level != tt.level {
 				t.Errorf("ParseIntervalLevel(%q) = [%v (dec %d), %v (dec %d)] level %v, want [%v (dec %d), %v (dec %d)] level %v",
 					tt.text, iv.Low.Value, iv.Low.Decimals, iv.High.Value, iv.High.Decimals, level, tt.low, tt.decLo, tt.high, tt.decHi, tt.level)
 			}

@@ -112,7 +112,7 @@ func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
 		return Printed{Bound: Absent}, nil
 	}
 	if v, dec, ok := plainNumeral(s); ok {
-		return Printed{Value: v, Decimals: dec, Bound: Exact, Text: s}, nil
+		return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, nil
 	}
 	return parsePrintedGeneral(s, mode, kind)
 }
@@ -139,7 +139,7 @@ func parsePrintedGeneral(text string, mode numberMode, kind error) (Printed, err
 	if reason != "" {
 		return Printed{}, &ParseError{Text: s, Kind: kind, Reason: reason}
 	}
-	return Printed{Value: v, Decimals: dec, Bound: Exact, Stars: stars, Text: s}, nil
+	return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Stars: int16(min(stars, math.MaxInt16)), Text: s}, nil
 }
 
 // trimSpace trims white space, including the non-breaking and thin spaces

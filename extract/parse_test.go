@@ -74,7 +74,7 @@ func TestParseNumber(t *testing.T) {
 			if err != nil {
 				t.Fatalf("ParseNumber(%q) error %v, want %v", tt.text, err, tt.value)
 			}
-			if math.Abs(got.Value-tt.value) > 1e-12*math.Max(1, math.Abs(tt.value)) || got.Decimals != tt.decimals || got.Stars != tt.stars || got.Bound != Exact {
+			if math.Abs(got.Value-tt.value) > 1e-12*math.Max(1, math.Abs(tt.value)) || int(got.Decimals) != tt.decimals || int(got.Stars) != tt.stars || got.Bound != Exact {
 				t.Errorf("ParseNumber(%q) = {%v, dec %d, stars %d, %v}, want {%v, dec %d, stars %d, exact}",
 					tt.text, got.Value, got.Decimals, got.Stars, got.Bound, tt.value, tt.decimals, tt.stars)
 			}

@@ -6,7 +6,7 @@ import (
 )
 
 // Bound tells what kind of statement a printed number makes.
-type Bound int
+type Bound uint8
 
 const (
 	// Absent means the cell was blank: nothing was printed.
@@ -44,17 +44,22 @@ func (b Bound) String() string {
 // into a numeric spreadsheet cell has lost its trailing zeros). Text keeps the
 // cell as it was written, for notes and messages.
 type Printed struct {
-	Value    float64
-	Decimals int
-	Bound    Bound
-	// Stars is the number of trailing significance stars ("0.21**" has 2).
-	Stars int
+	Value float64
+	Text  string
+	// The fields below are sized to keep a Printed to 32 bytes: a paired
+	// row holds twenty of them, and a million rows stream through memory.
+	// A cell is far shorter than 2³¹ bytes (MaxRecordBytes), so Decimals
+	// holds any count of its digits.
+	Decimals int32
+	// Stars is the number of trailing significance stars ("0.21**" has 2),
+	// at most math.MaxInt16.
+	Stars int16
+	Bound Bound
 	// DecimalsFromDisplay is true when the cell was numeric in a workbook
 	// and Decimals was taken from its displayed text: trailing zeros the
 	// author typed may have been dropped, so the printed precision may have
 	// been finer. The wider rounding interval is the conservative reading.
 	DecimalsFromDisplay bool
-	Text                string
 }
 
 // Present reports whether something was printed.
@@ -70,7 +75,7 @@ func (p Printed) HalfUnit() float64 {
 	if p.Decimals < 0 {
 		return 0
 	}
-	if p.Decimals < len(negativePow10) {
+	if int(p.Decimals) < len(negativePow10) {
 		return 0.5 * negativePow10[p.Decimals]
 	}
 	return 0.5 * math.Pow(10, -float64(p.Decimals))

@@ -10,7 +10,7 @@ import (
 // that no rounding interval moves by a bit.
 func TestHalfUnitTable(t *testing.T) {
 	for d := -1; d <= 40; d++ {
-		p := Printed{Value: 1, Decimals: d, Bound: Exact}
+		p := Printed{Value: 1, Decimals: int32(d), Bound: Exact}
 		want := 0.5 * math.Pow(10, -float64(d))
 		if d < 0 {
 			want = 0

@@ -42,7 +42,7 @@ func TestParseP(t *testing.T) {
 			if err != nil {
 				t.Fatalf("ParseP(%q) error %v", tt.text, err)
 			}
-			if got.Value != tt.value || got.Decimals != tt.decimals || got.Bound != tt.bound {
+			if got.Value != tt.value || int(got.Decimals) != tt.decimals || got.Bound != tt.bound {
 				t.Errorf("ParseP(%q) = {%v, dec %d, %v}, want {%v, dec %d, %v}", tt.text, got.Value, got.Decimals, got.Bound, tt.value, tt.decimals, tt.bound)
 			}
 		})

@@ -23,7 +23,7 @@ func num(s string) Printed {
 	if err != nil {
 		panic(err)
 	}
-	return Printed{Value: v, Decimals: dec, Bound: Exact, Text: s}
+	return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}
 }
 
 func TestReconstructSources(t *testing.T) {

@@ -70,7 +70,7 @@ func TestWorkbookDecimals(t *testing.T) {
 				return
 			}
 			e := c.Estimate
-			if len(c.Problems) > 0 || e.Value != tt.value || e.Decimals != tt.decimals || e.DecimalsFromDisplay != tt.fromDisplay {
+			if len(c.Problems) > 0 || e.Value != tt.value || int(e.Decimals) != tt.decimals || e.DecimalsFromDisplay != tt.fromDisplay {
 				t.Errorf("estimate of %s = {%v, dec %d, fromDisplay %v} %s, want {%v, dec %d, fromDisplay %v}",
 					tt.label, e.Value, e.Decimals, e.DecimalsFromDisplay, problemTexts(c.Problems), tt.value, tt.decimals, tt.fromDisplay)
 			}
