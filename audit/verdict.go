@@ -300,10 +300,15 @@ func formatAlpha(a float64) string {
 }
 
 // The default α and its confidence level as the notes print them, made
-// once: nearly every claim's notes print one of them.
+// once: nearly every claim's notes print one of them. The level is formed
+// from a variable, in float64 as appendLevel forms it, not by Go's exact
+// constant arithmetic.
 var (
 	defaultAlphaText = strconv.FormatFloat(extract.DefaultAlpha, 'g', -1, 64)
-	defaultLevelText = strconv.FormatFloat(100*(1-extract.DefaultAlpha), 'g', -1, 64)
+	defaultLevelText = func() string {
+		alpha := extract.DefaultAlpha
+		return strconv.FormatFloat(100*(1-alpha), 'g', -1, 64)
+	}()
 )
 
 // appendLevel appends the confidence level 100(1 − α) as %g prints it.
