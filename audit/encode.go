@@ -40,11 +40,16 @@ func csvNeedsQuotes(s string) bool {
 	if s == "" {
 		return false
 	}
-	if s == `\.` || hasCSVSpecial(s) {
+	// A leading space, as unicode.IsSpace has it: for an ASCII byte that is
+	// the space and \t through \r.
+	if c := s[0]; c < utf8.RuneSelf {
+		if c == ' ' || (c >= '\t' && c <= '\r') {
+			return true
+		}
+	} else if r, _ := utf8.DecodeRuneInString(s); unicode.IsSpace(r) {
 		return true
 	}
-	r, _ := utf8.DecodeRuneInString(s)
-	return unicode.IsSpace(r)
+	return s == `\.` || hasCSVSpecial(s)
 }
 
 // hasCSVSpecial reports whether s holds a comma, quote, CR or LF. In a long
@@ -113,7 +118,7 @@ func appendCSVClaim(dst []byte, c *ClaimResult, extra []string) []byte {
 	number(c.P)
 	number(c.PRange[0])
 	number(c.PRange[1])
-	dst = strconv.AppendFloat(append(dst, ','), c.Alpha, 'g', -1, 64)
+	dst = append(append(dst, ','), formatAlpha(c.Alpha)...)
 	plain(c.Basis)
 	plain(c.Published)
 	plain(c.Recomputed)

@@ -148,7 +148,7 @@ func TestClaimJSONMatchesEncodingJSON(t *testing.T) {
 // encoding/csv on text that needs quoting, guarding or neither.
 func TestCSVEncoderMatchesEncodingCSV(t *testing.T) {
 	texts := []string{"", "plain", "a,b", `say "x"`, "line\nbreak", "cr\rhere", " lead", "\u00a0nbsp", `\.`,
-		"=SUM(A1)", "+1", "-2", "@x", "\tt", "\rr", "'q", "é", "\xff",
+		"=SUM(A1)", "+1", "-2", "@x", "\tt", "\rr", "'q", "é", "\xff", "\vv", "\ff", "\nn", "\u0085x", "\u2003em", "\x1fus", "!x",
 		strings.Repeat("long ", 8), strings.Repeat("long ", 8) + ",", strings.Repeat("x", 31) + "\"",
 		strings.Repeat("x", 32) + "\r", strings.Repeat("y", 40) + "\n" + "z"}
 	for _, s := range texts {
