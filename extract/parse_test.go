@@ -195,3 +195,16 @@ func BenchmarkParseNumber(b *testing.B) {
 		}
 	}
 }
+
+// TestStarsClamped checks that a cell with more significance stars than a
+// Printed counts (math.MaxInt16) still reads, with the count at its cap,
+// rather than wrapping to a negative count.
+func TestStarsClamped(t *testing.T) {
+	p, err := ParseNumber("0.21" + strings.Repeat("*", 40000))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Value != 0.21 || p.Stars != math.MaxInt16 {
+		t.Errorf("ParseNumber(0.21 and 40000 stars) = value %v, %d stars; want 0.21, %d", p.Value, p.Stars, math.MaxInt16)
+	}
+}
