@@ -259,8 +259,8 @@ func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
 		if s == "" {
 			return
 		}
-		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
-			dst.Value, dst.Decimals, dst.Bound, dst.Text = v, int32(dec), Exact, s
+		if p, ok := plainPrinted(s, kind); ok {
+			*dst = p
 			return
 		}
 	}
@@ -277,17 +277,27 @@ func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
 // the displayed text, with DecimalsFromDisplay set.
 func cellNumber(c sheetCell, kind numberKind) (Printed, error) {
 	if !c.Numeric {
-		// The common plain numeral, read as every kind reads it (a p must
-		// lie in [0, 1]); cellNumberGeneral gives the same.
 		s := trimSpace(c.Text)
 		if s == "" {
 			return Printed{Bound: Absent}, nil
 		}
-		if v, dec, ok := plainNumeral(s); ok && (kind != kindP || (v >= 0 && v <= 1)) {
-			return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, nil
+		if p, ok := plainPrinted(s, kind); ok {
+			return p, nil
 		}
 	}
 	return cellNumberGeneral(c, kind)
+}
+
+// plainPrinted reads s, trimmed and not empty, when it is a plain numeral
+// (plainNumeral) that kind accepts as it is (a p must lie in [0, 1]), as
+// cellNumberGeneral would read it; it reports false otherwise. Nearly every
+// numeric cell of a large input is read here.
+func plainPrinted(s string, kind numberKind) (Printed, bool) {
+	v, dec, ok := plainNumeral(s)
+	if !ok || (kind == kindP && !(v >= 0 && v <= 1)) {
+		return Printed{}, false
+	}
+	return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, true
 }
 
 // cellNumberGeneral is cellNumber for any cell.

@@ -110,8 +110,8 @@ func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
 	if s == "" {
 		return Printed{Bound: Absent}, nil
 	}
-	if v, dec, ok := plainNumeral(s); ok {
-		return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, nil
+	if p, ok := plainPrinted(s, kindNumber); ok {
+		return p, nil
 	}
 	return parsePrintedGeneral(s, mode, kind)
 }
