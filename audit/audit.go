@@ -123,7 +123,7 @@ func (a *auditor) load(in *extract.Input) {
 			continue
 		}
 		a.coef[k] = c
-		if isRegression(c) {
+		if extract.IsRegressionMeasure(c.Measure) {
 			mk := modelOf(c)
 			a.modelSize[mk]++
 			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
@@ -148,10 +148,6 @@ func (a *auditor) loadPair(first, second *extract.Coefficient) {
 			a.pairConflicts[i] = consistencyProblems(c)
 		}
 	}
-}
-
-func isRegression(c *extract.Coefficient) bool {
-	return c.Measure == extract.MeasureB || c.Measure == extract.MeasureBeta
 }
 
 // kept lists the coefficients lookups can return: every one but the
@@ -215,7 +211,7 @@ func countModelSizes(sizes map[modelKey]int, rows []extract.PairedClaim) {
 			if k == 1 && c.Study == pc.First.Study && c.Label == pc.First.Label {
 				continue
 			}
-			if isRegression(c) {
+			if extract.IsRegressionMeasure(c.Measure) {
 				sizes[modelOf(c)]++
 			}
 		}

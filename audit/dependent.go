@@ -28,7 +28,7 @@ func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.C
 			return
 		}
 	}
-	if r.Relation == SameModel && (r.Measure == extract.MeasureB || r.Measure == extract.MeasureBeta) && src != nil {
+	if r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure) && src != nil {
 		if a.regressionFromTable(r, c1, c2, src) {
 			return
 		}

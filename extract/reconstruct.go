@@ -243,7 +243,7 @@ const smallDF = 100
 // regression coefficient with n printed and no df. Only then does
 // Reconstruct's modelSize matter, so a caller may skip counting otherwise.
 func DerivesDFFromModelSize(c *Coefficient) bool {
-	return !dfPrinted(c) && c.N.IsExact() && (c.Measure == MeasureB || c.Measure == MeasureBeta)
+	return !dfPrinted(c) && c.N.IsExact() && IsRegressionMeasure(c.Measure)
 }
 
 func dfPrinted(c *Coefficient) bool { return c.DF.IsExact() && c.DF.Value > 0 }

@@ -23,6 +23,10 @@ var Measures = []string{MeasureB, MeasureBeta, MeasureR, MeasureOR, MeasureRR, M
 // IsRatioMeasure reports whether a measure is analysed on the log scale.
 func IsRatioMeasure(m string) bool { return m == MeasureOR || m == MeasureRR || m == MeasureHR }
 
+// IsRegressionMeasure reports whether a measure is a regression coefficient
+// (unstandardized or standardized), one of a model's listed coefficients.
+func IsRegressionMeasure(m string) bool { return m == MeasureB || m == MeasureBeta }
+
 // Published verdicts of the claims sheet's published column.
 const (
 	PublishedDiffer       = "differ"
