@@ -37,19 +37,21 @@ func appendCSVQuoted(dst []byte, s string) []byte {
 }
 
 func csvNeedsQuotes(s string) bool {
+	return leadsWithSpace(s) || s == `\.` || hasCSVSpecial(s)
+}
+
+// leadsWithSpace reports whether s starts with white space as
+// unicode.IsSpace has it, which encoding/csv quotes: for an ASCII byte the
+// space and \t through \r.
+func leadsWithSpace(s string) bool {
 	if s == "" {
 		return false
 	}
-	// A leading space, as unicode.IsSpace has it: for an ASCII byte that is
-	// the space and \t through \r.
 	if c := s[0]; c < utf8.RuneSelf {
-		if c == ' ' || (c >= '\t' && c <= '\r') {
-			return true
-		}
-	} else if r, _ := utf8.DecodeRuneInString(s); unicode.IsSpace(r) {
-		return true
+		return c == ' ' || (c >= '\t' && c <= '\r')
 	}
-	return s == `\.` || hasCSVSpecial(s)
+	r, _ := utf8.DecodeRuneInString(s)
+	return unicode.IsSpace(r)
 }
 
 // hasCSVSpecial reports whether s holds a comma, quote, CR or LF. In a long
@@ -160,8 +162,7 @@ func appendNotesCell(dst []byte, notes []string) []byte {
 		quote = quote || hasCSVSpecial(n)
 	}
 	if !guard {
-		r, _ := utf8.DecodeRuneInString(head)
-		quote = quote || unicode.IsSpace(r)
+		quote = quote || leadsWithSpace(head)
 	}
 	if quote {
 		dst = append(dst, '"')
