@@ -267,13 +267,17 @@ type jsonObject struct {
 	n      int
 }
 
-func (o *jsonObject) key(k string) {
+// elem starts the next member or array element on its own line.
+func (o *jsonObject) elem() {
 	if o.n > 0 {
 		o.dst = append(o.dst, ',')
 	}
 	o.n++
-	o.dst = append(o.dst, '\n')
-	o.dst = append(o.dst, o.indent...)
+	o.dst = append(append(o.dst, '\n'), o.indent...)
+}
+
+func (o *jsonObject) key(k string) {
+	o.elem()
 	o.dst = append(o.dst, '"')
 	o.dst = append(o.dst, k...)
 	o.dst = append(o.dst, `": `...)
@@ -284,16 +288,12 @@ func (o *jsonObject) num(k string, v Number) { o.key(k); o.dst = appendJSONNumbe
 
 // numbers appends an array of numbers, one per line.
 func (o *jsonObject) numbers(k string, vs ...Number) {
-	o.key(k)
-	o.dst = append(o.dst, '[')
-	for i, v := range vs {
-		if i > 0 {
-			o.dst = append(o.dst, ',')
-		}
-		o.dst = append(append(append(o.dst, '\n'), o.indent...), "  "...)
-		o.dst = appendJSONNumber(o.dst, v)
+	arr := o.open(k, '[')
+	for _, v := range vs {
+		arr.elem()
+		arr.dst = appendJSONNumber(arr.dst, v)
 	}
-	o.dst = append(append(append(o.dst, '\n'), o.indent...), ']')
+	o.close(arr, ']')
 }
 
 // open starts a nested object or array member; close ends it.
@@ -354,12 +354,8 @@ func appendClaimJSON(dst []byte, c *ClaimResult, prefix string) []byte {
 	o.str("recomputed", c.Recomputed)
 	o.str("outcome", c.Outcome)
 	notes := o.open("notes", '[')
-	for i, n := range c.Notes {
-		if i > 0 {
-			notes.dst = append(notes.dst, ',')
-		}
-		notes.n++
-		notes.dst = append(append(notes.dst, '\n'), notes.indent...)
+	for _, n := range c.Notes {
+		notes.elem()
 		notes.dst = appendJSONString(notes.dst, n)
 	}
 	o.close(notes, ']')
@@ -376,11 +372,7 @@ func appendClaimJSON(dst []byte, c *ClaimResult, prefix string) []byte {
 		arr := o.open("alternatives", '[')
 		for i := range c.Alternatives {
 			al := &c.Alternatives[i]
-			if i > 0 {
-				arr.dst = append(arr.dst, ',')
-			}
-			arr.n++
-			arr.dst = append(append(arr.dst, '\n'), arr.indent...)
+			arr.elem()
 			arr.dst = append(arr.dst, '{')
 			in := &jsonObject{dst: arr.dst, indent: deeper(arr.indent)}
 			in.str("method", al.Method)
