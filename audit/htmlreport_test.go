@@ -233,15 +233,7 @@ func TestHTMLPrintStylesheet(t *testing.T) {
 
 // BenchmarkWriteHTML measures the page of 10,000 claims.
 func BenchmarkWriteHTML(b *testing.B) {
-	base := Audit(reportInput(), DefaultOptions)
-	rep := &Report{Alpha: base.Alpha, Cautions: Cautions}
-	for len(rep.Claims) < 10000 {
-		for _, c := range base.Claims {
-			c.Row = len(rep.Claims) + 2
-			rep.Claims = append(rep.Claims, c)
-		}
-	}
-	rep.Summary = summarize(rep.Claims)
+	rep := tenThousandClaims()
 	b.ReportAllocs()
 	for b.Loop() {
 		if err := WriteHTML(io.Discard, rep); err != nil {

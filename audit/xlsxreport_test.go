@@ -29,6 +29,21 @@ var injectionTexts = []string{
 	"\r=1+1",
 }
 
+// tenThousandClaims is the audit of reportInput repeated to 10,000 claims,
+// numbered as rows of one sheet: the report the writers' benchmarks time.
+func tenThousandClaims() *Report {
+	base := Audit(reportInput(), DefaultOptions)
+	rep := &Report{Alpha: base.Alpha, Cautions: Cautions}
+	for len(rep.Claims) < 10000 {
+		for _, c := range base.Claims {
+			c.Row = len(rep.Claims) + 2
+			rep.Claims = append(rep.Claims, c)
+		}
+	}
+	rep.Summary = summarize(rep.Claims)
+	return rep
+}
+
 // reportInput is an invented input: one study per injection text, each with
 // two independent coefficients and one claim whose study, claim id, first
 // label and extra column carry the text. The second estimates vary so
@@ -320,16 +335,7 @@ func TestTableSheetName(t *testing.T) {
 
 // BenchmarkWriteXLSX measures the workbook of 10,000 claims.
 func BenchmarkWriteXLSX(b *testing.B) {
-	in := reportInput()
-	base := Audit(in, DefaultOptions)
-	rep := &Report{Alpha: base.Alpha, Cautions: Cautions}
-	for len(rep.Claims) < 10000 {
-		for _, c := range base.Claims {
-			c.Row = len(rep.Claims) + 2
-			rep.Claims = append(rep.Claims, c)
-		}
-	}
-	rep.Summary = summarize(rep.Claims)
+	rep := tenThousandClaims()
 	b.ReportAllocs()
 	for b.Loop() {
 		if err := WriteXLSX(io.Discard, rep, nil); err != nil {

@@ -157,3 +157,9 @@ func problemTexts(problems []*CellError) string {
 	}
 	return b.String()
 }
+
+// pairedProblems lists the problems of a paired row, its claim's and both
+// coefficients', as problemTexts does; "" when there are none.
+func pairedProblems(pc PairedClaim) string {
+	return problemTexts(pc.Claim.Problems) + problemTexts(pc.First.Problems) + problemTexts(pc.Second.Problems)
+}

@@ -37,18 +37,7 @@ func allocated(f func()) uint64 {
 // independent apart from back references, which here stay within a copy).
 func deflateFlushed(t *testing.T, data []byte) []byte {
 	t.Helper()
-	var b bytes.Buffer
-	w, err := flate.NewWriter(&b, flate.BestCompression)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if _, err := w.Write(data); err != nil {
-		t.Fatal(err)
-	}
-	if err := w.Flush(); err != nil {
-		t.Fatal(err)
-	}
-	return b.Bytes()
+	return compress(t, data, (*flate.Writer).Flush)
 }
 
 // finalBlock is an empty stored block with the final bit set (RFC 1951

@@ -99,9 +99,8 @@ func BenchmarkPairedFile(b *testing.B) {
 			if err != nil {
 				b.Fatal(err)
 			}
-			if len(pc.Claim.Problems)+len(pc.First.Problems)+len(pc.Second.Problems) != 0 {
-				b.Fatalf("row %d has problems:%s%s%s", pc.Claim.Row, problemTexts(pc.Claim.Problems),
-					problemTexts(pc.First.Problems), problemTexts(pc.Second.Problems))
+			if p := pairedProblems(pc); p != "" {
+				b.Fatalf("row %d has problems:%s", pc.Claim.Row, p)
 			}
 			rows++
 		}

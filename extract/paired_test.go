@@ -135,8 +135,8 @@ func TestPairedReaderStream(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if len(pc.Claim.Problems)+len(pc.First.Problems)+len(pc.Second.Problems) != 0 {
-			t.Fatalf("row %d problems:%s%s%s", pc.Claim.Row, problemTexts(pc.Claim.Problems), problemTexts(pc.First.Problems), problemTexts(pc.Second.Problems))
+		if p := pairedProblems(pc); p != "" {
+			t.Fatalf("row %d problems:%s", pc.Claim.Row, p)
 		}
 		if pc.Claim.Row != count+2 || pc.First.P.Bound != Below || pc.Second.N.Value != 2345 || pc.Claim.First != pc.Claim.Claim+"/a" {
 			t.Fatalf("row %d = %+v, want row %d, p < .001, second n 2,345 read as 2345, label <claim>/a", count+2, pc, count+2)

@@ -214,7 +214,15 @@ type rawMember struct {
 	crc      uint32
 }
 
+// deflate compresses data into a complete deflate stream.
 func deflate(t *testing.T, data []byte) []byte {
+	t.Helper()
+	return compress(t, data, (*flate.Writer).Close)
+}
+
+// compress deflates data at the best compression and ends the stream with
+// finish: Close for a complete stream, Flush for one that can be continued.
+func compress(t *testing.T, data []byte, finish func(*flate.Writer) error) []byte {
 	t.Helper()
 	var b bytes.Buffer
 	w, err := flate.NewWriter(&b, flate.BestCompression)
@@ -224,7 +232,7 @@ func deflate(t *testing.T, data []byte) []byte {
 	if _, err := w.Write(data); err != nil {
 		t.Fatal(err)
 	}
-	if err := w.Close(); err != nil {
+	if err := finish(w); err != nil {
 		t.Fatal(err)
 	}
 	return b.Bytes()
