@@ -69,10 +69,10 @@ func appendSignificantQuick(dst []byte, x float64, prec int) ([]byte, bool) {
 	} else {
 		s = ax / significantScale[-k]
 	}
-	if f := s - math.Floor(s); math.Abs(f-0.5) < 4e-6 {
+	m, ok := roundedClearOfTie(s)
+	if !ok {
 		return dst, false
 	}
-	m := uint64(math.Floor(s + 0.5))
 	lo, hi := uint64(significantScale[prec-1]), uint64(significantScale[prec])
 	if m == hi {
 		m, e = lo, e+1
@@ -113,6 +113,17 @@ func appendSignificantQuick(dst []byte, x float64, prec int) ([]byte, bool) {
 	}
 }
 
+// roundedClearOfTie returns the integer nearest s ≥ 0, a scaled number
+// whose one rounding error is far below the guard, and false when s lies
+// within 4·10⁻⁶ of a half integer: there the exact value may round the
+// other way, and strconv is left to decide.
+func roundedClearOfTie(s float64) (uint64, bool) {
+	if f := s - math.Floor(s); math.Abs(f-0.5) < 4e-6 {
+		return 0, false
+	}
+	return uint64(math.Floor(s + 0.5)), true
+}
+
 // appendThreeDecimals appends x as strconv.AppendFloat(dst, x, 'f', 3, 64)
 // does, byte for byte: quickly for 0 ≤ x ≤ 1000 (p-values), as
 // appendSignificantQuick argues (x·1000 rounds once, to within 2⁻³³ for
@@ -122,11 +133,10 @@ func appendThreeDecimals(dst []byte, x float64) []byte {
 	if !(x >= 0 && x <= 1000) || (x == 0 && math.Signbit(x)) {
 		return strconv.AppendFloat(dst, x, 'f', 3, 64)
 	}
-	s := x * 1000
-	if f := s - math.Floor(s); math.Abs(f-0.5) < 4e-6 {
+	m, ok := roundedClearOfTie(x * 1000)
+	if !ok {
 		return strconv.AppendFloat(dst, x, 'f', 3, 64)
 	}
-	m := uint64(math.Floor(s + 0.5))
 	dst = append(strconv.AppendUint(dst, m/1000, 10), '.')
 	frac := m % 1000
 	return append(dst, byte('0'+frac/100), byte('0'+frac/10%10), byte('0'+frac%10))
