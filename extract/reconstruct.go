@@ -181,16 +181,10 @@ func (rc *Reconstructed) transform(x float64) float64 {
 // float64 (a test checks that they agree).
 func namedQuantile(what string, df float64) string {
 	if math.IsNaN(df) {
-		switch what {
-		// The common ones, without allocating.
-		case "ci_low, ci_high":
-			return "ci_low, ci_high (normal)"
-		case "ci":
-			return "ci (normal)"
-		case "estimate, p":
-			return "estimate, p (normal)"
-		case "estimate, p bound":
-			return "estimate, p bound (normal)"
+		for i, n := range quantileNames {
+			if what == n {
+				return normalQuantileNames[i] // the common ones, without allocating
+			}
 		}
 		return what + " (normal)"
 	}
@@ -200,12 +194,7 @@ func namedQuantile(what string, df float64) string {
 			return *s
 		}
 	}
-	var buf [96]byte
-	b := append(buf[:0], what...)
-	b = append(b, " (t, df "...)
-	b = strconv.AppendFloat(b, df, 'g', -1, 64)
-	b = append(b, ')')
-	s := string(b)
+	s := textWithNumber(what, " (t, df ", df, ")")
 	if slot != nil {
 		slot.Store(&s)
 	}
@@ -216,6 +205,14 @@ func namedQuantile(what string, df float64) string {
 // to name; with a whole df up to maxNamedDF the name is made once and kept
 // in a slot read without a lock, as the SE of nearly every row is named.
 var quantileNames = [...]string{"ci_low, ci_high", "ci", "estimate, p", "estimate, p bound"}
+
+// normalQuantileNames are the quantileNames with the normal quantile.
+var normalQuantileNames = func() (names [len(quantileNames)]string) {
+	for i, n := range quantileNames {
+		names[i] = n + " (normal)"
+	}
+	return names
+}()
 
 const maxNamedDF = 4096
 
@@ -256,14 +253,14 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	switch {
 	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
 		if n-2 < smallDF {
-			rc.Notes = append(rc.Notes, dfNote(c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
+			rc.Notes = append(rc.Notes, textWithNumber(c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
 		}
 		return n - 2
 	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
-				rc.Notes = append(rc.Notes, dfNote(c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = "+strconv.FormatFloat(k, 'g', -1, 64)+" coefficients listed for its model; unlisted covariates would lower it"))
+				rc.Notes = append(rc.Notes, textWithNumber(c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = "+strconv.FormatFloat(k, 'g', -1, 64)+" coefficients listed for its model; unlisted covariates would lower it"))
 			}
 			return n - k - 1
 		}
@@ -271,13 +268,14 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	return math.NaN()
 }
 
-// dfNote is label+before+df+after, with df as %g prints it, in one
-// allocation: the note is written for most small-sample rows.
-func dfNote(label, before string, df float64, after string) string {
+// textWithNumber is head+mid+x+tail, with x as %g prints it, in one
+// allocation: the df notes and the names of SE sources are written for
+// most rows.
+func textWithNumber(head, mid string, x float64, tail string) string {
 	var buf [128]byte
-	b := append(append(buf[:0], label...), before...)
-	b = strconv.AppendFloat(b, df, 'g', -1, 64)
-	return string(append(b, after...))
+	b := append(append(buf[:0], head...), mid...)
+	b = strconv.AppendFloat(b, x, 'g', -1, 64)
+	return string(append(b, tail...))
 }
 
 // fromInterval takes the SE from the interval rc.CI, whose limits' rounding
