@@ -78,8 +78,8 @@ func appendSafeText(dst []byte, s string) []byte {
 	return appendCSVField(dst, safeText(s))
 }
 
-// appendCSVNumber appends a number as num writes it: ten significant digits,
-// empty when not known.
+// appendCSVNumber appends a number with ten significant digits, as
+// strconv's 'g' format writes them; nothing when it is not known.
 func appendCSVNumber(dst []byte, n Number) []byte {
 	if !n.Known() {
 		return dst
