@@ -122,6 +122,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 		return Summary{}, fmt.Errorf("reading %s: %w", path, err)
 	}
 	defer f.Close()
+	defer relaxCollector()()
 	pr, err := extract.NewPairedReader(bufio.NewReaderSize(f, 1<<16), path)
 	if err != nil {
 		return Summary{}, err
