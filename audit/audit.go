@@ -276,11 +276,25 @@ func relationOf(c1, c2 *extract.Coefficient) string {
 
 // claim audits one claims row.
 func (a *auditor) claim(cl *extract.Claim) ClaimResult {
-	r := ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
+	var r ClaimResult
+	a.claimInto(&r, cl)
+	return r
+}
+
+// claimInto is claim writing its result into r, overwritten whole but for
+// the backing array of r.Notes, which is reused: a streamed batch fills
+// the same results again for every batch, and the notes slice was one
+// allocation a claim.
+func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
+	notes := r.Notes[:0]
+	if notes == nil {
+		notes = make([]string, 0, 6)
+	}
+	*r = ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
 		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
 		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
-		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: make([]string, 0, 6),
+		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: notes,
 		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
 	if r.Alpha == 0 {
 		r.Alpha = extract.DefaultAlpha
@@ -289,7 +303,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 		for _, p := range cl.Problems {
 			r.Notes = append(r.Notes, "This claims row could not be read: "+cellMessage(p)+".")
 		}
-		return r.finish(Incomplete)
+		r.Outcome = Incomplete
+		return
 	}
 	c1, err1 := a.lookup(cl.Study, cl.First)
 	c2, err2 := a.lookup(cl.Study, cl.Second)
@@ -299,7 +314,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 		}
 	}
 	if err1 != nil || err2 != nil {
-		return r.finish(Incomplete)
+		r.Outcome = Incomplete
+		return
 	}
 	bad := false
 	for _, c := range []*extract.Coefficient{c1, c2} {
@@ -309,13 +325,15 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 		}
 	}
 	if bad {
-		return r.finish(Incomplete)
+		r.Outcome = Incomplete
+		return
 	}
 	r.Relation = relationOf(c1, c2)
 	r.Measure = c1.Measure
 	if c1.Measure != c2.Measure {
 		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
-		return r.finish(Incomplete)
+		r.Outcome = Incomplete
+		return
 	}
 	rc1, e1 := extract.Reconstruct(c1, a.modelSizeOf(c1))
 	rc2, e2 := extract.Reconstruct(c2, a.modelSizeOf(c2))
@@ -329,7 +347,8 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 		}
 	}
 	if e1 != nil || e2 != nil {
-		return r.finish(Incomplete)
+		r.Outcome = Incomplete
+		return
 	}
 	// How each SE was taken from the printed numbers, unless the model is
 	// rebuilt from the correlation table, which then gives the SEs.
@@ -346,7 +365,7 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
-	r.Overlap = overlapOf(&rc1, &rc2, &r)
+	r.Overlap = overlapOf(&rc1, &rc2, r)
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range a.conflictsOf(c) {
@@ -355,9 +374,9 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 	}
 
 	if r.Relation == Independent {
-		a.independent(&r, c1, c2, &rc1, &rc2)
+		a.independent(r, c1, c2, &rc1, &rc2)
 	} else {
-		a.dependent(&r, cl, c1, c2, &rc1, &rc2)
+		a.dependent(r, cl, c1, c2, &rc1, &rc2)
 		if strings.HasSuffix(r.Method, "from-correlation-table") {
 			r.Notes = append(r.Notes[:readNotes], r.Notes[readEnd:]...)
 			// The basis notes speak of the rebuilt estimates too.
@@ -366,18 +385,11 @@ func (a *auditor) claim(cl *extract.Claim) ClaimResult {
 			rc1.DF, rc2.DF = float64(r.DF), float64(r.DF)
 		}
 	}
-	basisNotes(&r, cl, c1, c2, &rc1, &rc2)
+	basisNotes(r, cl, c1, c2, &rc1, &rc2)
 	if len(conflicts) > 0 {
 		r.Notes = append(r.Notes, conflicts...)
 		r.conflict = true
 	}
-	return r
-}
-
-// finish sets the outcome and returns the result.
-func (r ClaimResult) finish(outcome string) ClaimResult {
-	r.Outcome = outcome
-	return r
 }
 
 func sideOf(label string, rc extract.Reconstructed, err error) Side {

@@ -38,7 +38,9 @@ type ClaimSink interface {
 	Begin(extra []string) error
 	// AppendClaim appends the encoding of claim c, the index-th of the
 	// stream counting from 0, to dst. It is called from several goroutines
-	// at once and must not change the sink.
+	// at once and must not change the sink. c and what it holds are reused
+	// for later claims once the call returns, so the sink must not keep
+	// them.
 	AppendClaim(dst []byte, c *ClaimResult, index int) []byte
 	// Write writes encoded claims.
 	Write(p []byte) (int, error)
@@ -304,7 +306,14 @@ func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 		for i := s; i < e; i++ {
 			pc := &b.rows[i]
 			a.loadPair(&pc.First, &pc.Second)
-			b.claims = append(b.claims, a.claim(&pc.Claim))
+			// A recycled batch's results are filled again in place (see
+			// claimInto); they are not cleared.
+			if len(b.claims) < cap(b.claims) {
+				b.claims = b.claims[:len(b.claims)+1]
+			} else {
+				b.claims = append(b.claims, ClaimResult{})
+			}
+			a.claimInto(&b.claims[len(b.claims)-1], &pc.Claim)
 			// The problems in the order auditor.problems gives them.
 			b.keep(cellProblems(pc.First.Problems))
 			b.keep(cellProblems(pc.Second.Problems))
