@@ -55,6 +55,9 @@ type auditor struct {
 	pairRun   []extract.PairedClaim
 	pairSizes map[modelKey]int
 	sizesOf   *extract.PairedClaim
+	// notes holds the text of the notes of the claims audited; the results
+	// point to it, not to the auditor.
+	notes *noteText
 }
 
 // Audit audits every claims row of in, in order, and collects every problem
@@ -290,12 +293,15 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 	if notes == nil {
 		notes = make([]string, 0, 6)
 	}
+	if a.notes == nil {
+		a.notes = new(noteText)
+	}
 	*r = ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
 		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
 		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
 		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: notes,
-		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
+		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan, notes: a.notes}
 	if r.Alpha == 0 {
 		r.Alpha = extract.DefaultAlpha
 	}

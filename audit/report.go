@@ -125,6 +125,9 @@ type ClaimResult struct {
 	conflict bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
+	// notes holds the text of the notes built for the claim (nil: plain
+	// strings).
+	notes *noteText
 }
 
 // AdjustedPValues are a claim's p adjusted for multiplicity over the claims
