@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sync"
 	"sync/atomic"
 
 	"gonum.org/v1/gonum/mathext"
@@ -141,12 +140,12 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 		slot.Store(math.Float64bits(q))
 		return q, nil
 	}
-	key := quantileKey{p, df}
-	if v, ok := tQuantiles.m.Load(key); ok {
-		return v.(float64), nil
+	memo := tQuantileSlotOf(p, df)
+	if q, ok := memo.load(p, df); ok {
+		return q, nil
 	}
 	q := computeStudentTQuantile(p, df)
-	tQuantiles.remember(key, q)
+	memo.store(p, df, q)
 	return q, nil
 }
 
@@ -202,40 +201,58 @@ func criticalSlot(p, df float64) *atomic.Uint64 {
 // and an audit asks for the same few (p, df) pairs over and over: the
 // critical values of a literature's intervals (kept in criticalQuantiles)
 // and the quantiles of p-values printed as bounds ("< 0.001") or to few
-// digits. So quantiles are remembered, up to a bound that keeps hostile or
-// merely large input (every row a new df) from growing memory; past it they
-// are computed each time. 4,096 entries take under a megabyte; a bound of
-// 16,384 raised a streamed audit's peak from 34 to 37 MB for hits no real
-// literature makes. A remembered value is the computed one, bit for bit.
-type quantileKey struct{ p, df float64 }
+// digits. So quantiles are remembered in a table of fixed size,
+// direct-mapped: a pair hashes to one slot, and a new pair there replaces
+// the old. Memory stays fixed whatever the input (every row a new df), and
+// a lookup costs a few atomic loads, which matters because a large
+// literature mostly misses: a map with a bound (the former memo) held the
+// first 4,096 pairs for good and spent a fortieth of a streamed audit's
+// time on lookups that failed. A remembered value is the computed one, bit
+// for bit.
+const tQuantileSlots = 1 << 12
 
-const maxCachedQuantiles = 1 << 12
-
-// tQuantiles is the memo. sync.Map reads take no lock, so the workers of a
-// streamed audit do not contend for it; n counts the entries against the
-// bound, and full, once set, keeps a miss from writing anything shared.
-var tQuantiles tQuantileMemo
-
-type tQuantileMemo struct {
-	m    sync.Map // quantileKey → float64
-	n    atomic.Int64
-	full atomic.Bool
+// tQuantileSlot holds one remembered (p, df, t) as float64 bits, guarded
+// by a sequence count in the manner of a seqlock: a writer takes the slot
+// by moving seq from even to odd and gives it back even, and a reader
+// trusts what it read only when seq was the same even number before and
+// after. Every field is atomic, so workers share the table without locks
+// or data races.
+type tQuantileSlot struct {
+	seq       atomic.Uint64
+	p, df, tq atomic.Uint64
 }
 
-// remember keeps q for key unless the memo is full. The count is taken
-// before the store, so that racing workers cannot pass the bound.
-func (memo *tQuantileMemo) remember(key quantileKey, q float64) {
-	if memo.full.Load() {
+var tQuantiles [tQuantileSlots]tQuantileSlot
+
+// tQuantileSlotOf returns the slot of (p, df).
+func tQuantileSlotOf(p, df float64) *tQuantileSlot {
+	h := math.Float64bits(p)*0x9E3779B97F4A7C15 ^ math.Float64bits(df)*0xC2B2AE3D27D4EB4F
+	return &tQuantiles[(h^h>>29)%tQuantileSlots]
+}
+
+// load returns the remembered t of (p, df), if the slot holds that pair.
+func (s *tQuantileSlot) load(p, df float64) (float64, bool) {
+	seq := s.seq.Load()
+	if seq == 0 || seq&1 == 1 {
+		return 0, false
+	}
+	sp, sdf, t := s.p.Load(), s.df.Load(), s.tq.Load()
+	if s.seq.Load() != seq || sp != math.Float64bits(p) || sdf != math.Float64bits(df) {
+		return 0, false
+	}
+	return math.Float64frombits(t), true
+}
+
+// store remembers t for (p, df), unless another worker is writing the slot.
+func (s *tQuantileSlot) store(p, df, t float64) {
+	seq := s.seq.Load()
+	if seq&1 == 1 || !s.seq.CompareAndSwap(seq, seq+1) {
 		return
 	}
-	if memo.n.Add(1) > maxCachedQuantiles {
-		memo.n.Add(-1)
-		memo.full.Store(true)
-		return
-	}
-	if _, loaded := memo.m.LoadOrStore(key, q); loaded {
-		memo.n.Add(-1)
-	}
+	s.p.Store(math.Float64bits(p))
+	s.df.Store(math.Float64bits(df))
+	s.tq.Store(math.Float64bits(t))
+	s.seq.Store(seq + 2)
 }
 
 // StudentTCriticalValue returns t_(1−α/2, df) for a two-sided confidence

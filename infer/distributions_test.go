@@ -139,8 +139,8 @@ func TestDistributionErrors(t *testing.T) {
 }
 
 // TestStudentTQuantileMemo checks that a remembered t quantile is the
-// computed one bit for bit, from several goroutines at once, and that the
-// memo stops growing at its bound.
+// computed one bit for bit, from several goroutines at once and when pairs
+// replace each other in the memo's slots.
 func TestStudentTQuantileMemo(t *testing.T) {
 	var wg sync.WaitGroup
 	errs := make(chan string, 64)
@@ -169,7 +169,7 @@ func TestStudentTQuantileMemo(t *testing.T) {
 		t.Error(e)
 	}
 	// The critical values of the usual levels at whole df have slots of
-	// their own; other p and df go to the map. The levels' p are formed at
+	// their own; other p and df go to the memo. The levels' p are formed at
 	// run time, as StudentTCriticalValue forms them.
 	l95, l90, l99 := 0.95, 0.90, 0.99
 	p95, p90, p99 := 1-l95, 1-l90, 1-l99
@@ -195,23 +195,19 @@ func TestStudentTQuantileMemo(t *testing.T) {
 			t.Errorf("critical value (%v, %v): slot %v, returned %v, computed %v", c.p, c.df, math.Float64frombits(slot.Load()), got, want)
 		}
 	}
-	for i := range maxCachedQuantiles + 10 {
-		if _, err := StudentTFromTwoSidedP(0.05, 1000+float64(i)); err != nil {
-			t.Fatal(err)
+	// The memo keeps a pair until another hashes to its slot, and what it
+	// returns is the computation, bit for bit, whether remembered or not,
+	// also when workers fill it at once.
+	first, _ := StudentTFromTwoSidedP(0.0371, 123)
+	if got, ok := tQuantileSlotOf(0.0371, 123).load(0.0371, 123); !ok || got != first {
+		t.Errorf("the t quantile memo does not hold the pair just computed: %v, %v", got, ok)
+	}
+	for i := range 3 * tQuantileSlots {
+		p, df := 0.001*float64(1+i%997), float64(3+(i*7)%2000)
+		got, _ := StudentTFromTwoSidedP(p, df)
+		if want := computeStudentTQuantile(p, df); got != want {
+			t.Fatalf("t quantile (%v, %v) = %v from the memo, %v computed", p, df, got, want)
 		}
-	}
-	n := 0
-	tQuantiles.m.Range(func(any, any) bool { n++; return true })
-	if n > maxCachedQuantiles {
-		t.Errorf("the t quantile memo holds %d entries, more than its bound %d", n, maxCachedQuantiles)
-	}
-	if !tQuantiles.full.Load() {
-		t.Error("the t quantile memo is at its bound but not marked full, so misses still take its write lock")
-	}
-	// A miss once full is still computed, and equals the computation.
-	got, _ := StudentTFromTwoSidedP(0.0123, 777.5)
-	if want, _ := studentTQuantile(0.0123, 777.5); got != want {
-		t.Errorf("a t quantile missed once the memo is full = %v, want %v", got, want)
 	}
 }
 
