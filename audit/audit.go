@@ -293,6 +293,10 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 	if notes == nil {
 		notes = make([]string, 0, 6)
 	}
+	// The notes of the result before are let go: each keeps a chunk of
+	// noteText alive, and a slot's stale notes would hold chunks of
+	// batches long written.
+	clear(notes[:cap(notes)])
 	if a.notes == nil {
 		a.notes = new(noteText)
 	}
