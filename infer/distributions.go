@@ -115,7 +115,7 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 }
 
 // StudentTFromTwoSidedP returns the |t| with df degrees of freedom whose
-// two-sided p-value is p: the root of StudentTTwoSidedP, found by Newton's
+// two-sided p-value is p: the root of StudentTTwoSidedP, found by Halley's
 // method in log coordinates (see studentTQuantile), so that the two
 // functions invert each other to the tail function's own accuracy, down to
 // p = 1e-300. gonum's StudentsT.Quantile is used only if that iteration

@@ -304,10 +304,11 @@ func TestStudentTAgainstReference(t *testing.T) {
 
 // TestStudentTQuantileRoundTrip checks that the quantile inverts the tail
 // function for the closed forms (df 1 and 2, Abramowitz & Stegun 1964,
-// 26.7.3–4) and for fractional df, where the Newton iteration runs, from
-// p = 1 to 1e-300.
+// 26.7.3–4) and for fractional and whole df, where the iteration runs
+// (at df 20 and above it mostly ends after one step), from p = 1 to
+// 1e-300.
 func TestStudentTQuantileRoundTrip(t *testing.T) {
-	for _, df := range []float64{1, 2, 2.5, 3.7, 7.5} {
+	for _, df := range []float64{1, 2, 2.5, 3.7, 7.5, 20, 30, 98, 500, 2000} {
 		for _, p := range []float64{1, 0.999, 0.5, 0.05, 1e-3, 1e-12, 1e-100, 1e-300} {
 			q, err := StudentTFromTwoSidedP(p, df)
 			if err != nil {
