@@ -80,20 +80,35 @@ func appendSignificantQuick(dst []byte, x float64, prec int) ([]byte, bool) {
 	if m < lo || m >= hi || e >= prec {
 		return dst, false
 	}
+	// M's digits, right-aligned in digits[:prec]. Past five digits the low
+	// five are split off by one 64-bit division and the rest is 32-bit
+	// arithmetic; low five that are all zeros (a short printed number at
+	// ten digits) are not written at all.
 	var digits [10]byte
-	i := prec
-	for m >= 100 { // two digits a step
-		k := 2 * (m % 100)
+	nd, i := prec, prec
+	if prec > 5 {
+		lo := uint32(m % 100000)
+		m /= 100000
+		i -= 5
+		if lo == 0 {
+			nd = i
+		} else {
+			h, k := lo/100, 2*(lo%100)
+			digits[i+3], digits[i+4] = twoDigits[k], twoDigits[k+1]
+			k = 2 * (h % 100)
+			digits[i+1], digits[i+2] = twoDigits[k], twoDigits[k+1]
+			digits[i] = byte('0' + h/100)
+		}
+	}
+	w := uint32(m)
+	for ; i >= 2; i -= 2 { // two digits a step
+		k := 2 * (w % 100)
 		digits[i-2], digits[i-1] = twoDigits[k], twoDigits[k+1]
-		m /= 100
-		i -= 2
+		w /= 100
 	}
-	if m >= 10 {
-		digits[0], digits[1] = twoDigits[2*m], twoDigits[2*m+1]
-	} else {
-		digits[0] = byte('0' + m)
+	if i == 1 {
+		digits[0] = byte('0' + w)
 	}
-	nd := prec
 	for digits[nd-1] == '0' {
 		nd--
 	}
@@ -117,11 +132,14 @@ func appendSignificantQuick(dst []byte, x float64, prec int) ([]byte, bool) {
 // whose one rounding error is far below the guard, and false when s lies
 // within 4·10⁻⁶ of a half integer: there the exact value may round the
 // other way, and strconv is left to decide.
+//
+// s is below 2⁴⁰ wherever it is called, so conversion to int64, which
+// truncates, is its floor, without math.Floor's call.
 func roundedClearOfTie(s float64) (uint64, bool) {
-	if f := s - math.Floor(s); math.Abs(f-0.5) < 4e-6 {
+	if f := s - float64(int64(s)); math.Abs(f-0.5) < 4e-6 {
 		return 0, false
 	}
-	return uint64(math.Floor(s + 0.5)), true
+	return uint64(int64(s + 0.5)), true
 }
 
 // appendThreeDecimals appends x as strconv.AppendFloat(dst, x, 'f', 3, 64)
