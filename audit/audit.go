@@ -57,7 +57,7 @@ type auditor struct {
 	sizesOf   *extract.PairedClaim
 	// notes holds the text of the notes of the claims audited; the results
 	// point to it, not to the auditor.
-	notes *noteText
+	notes *extract.TextChunks
 }
 
 // Audit audits every claims row of in, in order, and collects every problem
@@ -294,11 +294,11 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 		notes = make([]string, 0, 6)
 	}
 	// The notes of the result before are let go: each keeps a chunk of
-	// noteText alive, and a slot's stale notes would hold chunks of
+	// text alive, and a slot's stale notes would hold chunks of
 	// batches long written.
 	clear(notes[:cap(notes)])
 	if a.notes == nil {
-		a.notes = new(noteText)
+		a.notes = new(extract.TextChunks)
 	}
 	*r = ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,

@@ -59,7 +59,7 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) stri
 		}
 	}
 	b = append(b, "). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."...)
-	return r.notes.text(b)
+	return r.notes.String(b)
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says

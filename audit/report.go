@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"math"
 	"strconv"
+
+	"coefaudit/extract"
 )
 
 // Outcomes of a claim, as defined in the output contract.
@@ -127,7 +129,7 @@ type ClaimResult struct {
 	family int
 	// notes holds the text of the notes built for the claim (nil: plain
 	// strings).
-	notes *noteText
+	notes *extract.TextChunks
 }
 
 // AdjustedPValues are a claim's p adjusted for multiplicity over the claims

@@ -62,6 +62,8 @@ type PairedReader struct {
 	row           sheetRow
 	rr            rowReading
 	err           error
+	// labels holds the text of the rows' unique labels.
+	labels TextChunks
 }
 
 // NewPairedReader reads the header of a paired CSV from r; name is the file
@@ -122,9 +124,11 @@ func (p *PairedReader) Next() (pc PairedClaim, err error) {
 }
 
 // ReadInto is Next writing the claim into *pc, which it overwrites whole:
-// a caller holding many claims saves copying each. On an error *pc is the
-// zero PairedClaim.
+// a caller holding many claims saves copying each. The storage of the
+// unknown columns (Extra) of the claim *pc held before is reused, so that
+// claim's Extra must not be kept. On an error *pc is the zero PairedClaim.
 func (p *PairedReader) ReadInto(pc *PairedClaim) error {
+	reuse := pc.Claim.Extra
 	*pc = PairedClaim{}
 	if p.err != nil {
 		return p.err
@@ -141,7 +145,7 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 	rr := &p.rr
 	rr.start(p.cols, &p.row, Position{File: p.name})
 	readClaimInto(rr, &p.claim, false, &pc.Claim)
-	pc.Claim.Extra = rr.extra()
+	pc.Claim.Extra = rr.extraInto(reuse)
 	claimProblems := rr.problems
 
 	rr.problems = nil
@@ -150,7 +154,7 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 	readCoefficientInto(rr, &p.second, &pc.Second)
 	pc.First.Study, pc.Second.Study = pc.Claim.Study, pc.Claim.Study
 	pc.First.Extra, pc.Second.Extra = pc.Claim.Extra, pc.Claim.Extra
-	pc.First.Label, pc.Second.Label = pairedLabels(pc.Claim.Claim, pc.First.Label, pc.Second.Label)
+	pc.First.Label, pc.Second.Label = pairedLabels(&p.labels, pc.Claim.Claim, pc.First.Label, pc.Second.Label)
 	pc.Claim.First, pc.Claim.Second = pc.First.Label, pc.Second.Label
 	if pc.First.Label == pc.Second.Label {
 		rr.problems = claimProblems
@@ -162,25 +166,20 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 }
 
 // pairedLabels makes the two labels of a claim unique per claim,
-// "<claim>/<label>" with "first" and "second" for blank labels, in one
-// allocation.
-func pairedLabels(claim, first, second string) (string, string) {
+// "<claim>/<label>" with "first" and "second" for blank labels, as one
+// string of text (which may be nil: one allocation).
+func pairedLabels(text *TextChunks, claim, first, second string) (string, string) {
 	if first == "" {
 		first = "first"
 	}
 	if second == "" {
 		second = "second"
 	}
-	n := len(claim) + 1 + len(first)
-	var b strings.Builder
-	b.Grow(n + len(claim) + 1 + len(second))
-	b.WriteString(claim)
-	b.WriteByte('/')
-	b.WriteString(first)
-	b.WriteString(claim)
-	b.WriteByte('/')
-	b.WriteString(second)
-	both := b.String()
+	var buf [128]byte
+	b := append(append(append(buf[:0], claim...), '/'), first...)
+	n := len(b)
+	b = append(append(append(b, claim...), '/'), second...)
+	both := text.String(b)
 	return both[:n], both[n:]
 }
 

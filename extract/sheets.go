@@ -104,17 +104,25 @@ func (r *rowReading) textOr(i, j int) string {
 // extra collects the unknown columns of the row. Names and Values share
 // one allocation of their own, so that no two rows (which other goroutines
 // may hold) share a slice; Names is full, so that appending to it copies.
-func (r *rowReading) extra() Extra {
+func (r *rowReading) extra() Extra { return r.extraInto(Extra{}) }
+
+// extraInto is extra writing into the storage of reuse when it has the
+// row's number of columns: a streamed reader fills the same rows again.
+func (r *rowReading) extraInto(reuse Extra) Extra {
 	n := len(r.cols.extra)
 	if n == 0 {
 		return Extra{}
 	}
-	both := make([]string, 2*n)
-	copy(both, r.cols.extraNames)
-	for k, i := range r.cols.extra {
-		both[n+k] = r.text(i)
+	names, values := reuse.Names, reuse.Values
+	if len(names) != n || len(values) != n {
+		both := make([]string, 2*n)
+		names, values = both[:n:n], both[n:]
 	}
-	return Extra{Names: both[:n:n], Values: both[n:]}
+	copy(names, r.cols.extraNames)
+	for k, i := range r.cols.extra {
+		values[k] = r.text(i)
+	}
+	return Extra{Names: names, Values: values}
 }
 
 // readCoefficient reads one coefficient from the row. It validates what is
