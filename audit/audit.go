@@ -53,7 +53,7 @@ type auditor struct {
 	// model's regression coefficients are counted (into pairSizes, for the
 	// run whose first row is sizesOf) when a derived df first needs them.
 	pairRun   []extract.PairedClaim
-	pairSizes map[modelKey]int
+	pairSizes modelSizes
 	sizesOf   *extract.PairedClaim
 	// notes holds the text of the notes of the claims audited; the results
 	// point to it, not to the auditor.
@@ -194,20 +194,33 @@ func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
 		return a.modelSize[modelOf(c)]
 	}
 	if len(a.pairRun) > 0 && a.sizesOf != &a.pairRun[0] {
-		if a.pairSizes == nil {
-			a.pairSizes = map[modelKey]int{}
-		}
-		countModelSizes(a.pairSizes, a.pairRun)
+		a.pairSizes.count(a.pairRun)
 		a.sizesOf = &a.pairRun[0]
 	}
-	return a.pairSizes[modelOf(c)]
+	return a.pairSizes.of(modelOf(c))
 }
 
-// countModelSizes counts the regression coefficients of each model in
-// rows, as load counts them: a coefficient repeating its row's other label
-// is not counted again.
-func countModelSizes(sizes map[modelKey]int, rows []extract.PairedClaim) {
-	clear(sizes)
+// modelSizes counts the regression coefficients of each model over a run
+// of paired rows: in a list searched in order while the models are few (a
+// study fits a handful, and hashing three strings a row cost a fortieth of
+// a streamed audit), in a map past that.
+type modelSizes struct {
+	few  []modelCount
+	many map[modelKey]int
+}
+
+type modelCount struct {
+	model modelKey
+	n     int
+}
+
+// fewModels is the most models modelSizes lists before it turns to a map.
+const fewModels = 8
+
+// count counts the coefficients of rows, as load counts them: a
+// coefficient repeating its row's other label is not counted again.
+func (m *modelSizes) count(rows []extract.PairedClaim) {
+	m.few, m.many = m.few[:0], nil
 	for i := range rows {
 		pc := &rows[i]
 		for k, c := range []*extract.Coefficient{&pc.First, &pc.Second} {
@@ -215,10 +228,45 @@ func countModelSizes(sizes map[modelKey]int, rows []extract.PairedClaim) {
 				continue
 			}
 			if extract.IsRegressionMeasure(c.Measure) {
-				sizes[modelOf(c)]++
+				m.add(modelOf(c))
 			}
 		}
 	}
+}
+
+func (m *modelSizes) add(k modelKey) {
+	if m.many != nil {
+		m.many[k]++
+		return
+	}
+	for i := range m.few {
+		if m.few[i].model == k {
+			m.few[i].n++
+			return
+		}
+	}
+	if len(m.few) < fewModels {
+		m.few = append(m.few, modelCount{k, 1})
+		return
+	}
+	m.many = make(map[modelKey]int, 2*fewModels)
+	for _, e := range m.few {
+		m.many[e.model] = e.n
+	}
+	m.many[k]++
+}
+
+// of returns the count of model k.
+func (m *modelSizes) of(k modelKey) int {
+	if m.many != nil {
+		return m.many[k]
+	}
+	for _, e := range m.few {
+		if e.model == k {
+			return e.n
+		}
+	}
+	return 0
 }
 
 // conflictsOf lists the problems of c's printed numbers that contradict
