@@ -18,10 +18,26 @@ import (
 // quote it: when it holds a comma, quote, CR or LF, starts with a space, or
 // is `\.`.
 func appendCSVField(dst []byte, s string) []byte {
-	if !csvNeedsQuotes(s) {
+	if plainShortCell(s) || !csvNeedsQuotes(s) {
 		return append(dst, s...)
 	}
 	return append(appendCSVQuoted(append(dst, '"'), s), '"')
+}
+
+// plainShortCell reports whether s, most cells of a report (labels, methods,
+// outcomes), is short and needs no quotes by one scan: it starts with a
+// printable ASCII byte other than the backslash (so neither white space
+// nor `\.`) and holds no comma, quote, CR or LF. False says nothing.
+func plainShortCell(s string) bool {
+	if len(s) == 0 || len(s) >= 32 || s[0] <= ' ' || s[0] >= utf8.RuneSelf || s[0] == '\\' {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c <= ',' && (c == ',' || c == '"' || c == '\n' || c == '\r') {
+			return false
+		}
+	}
+	return true
 }
 
 // appendCSVQuoted appends s with its quotes doubled.
@@ -75,7 +91,10 @@ func hasCSVSpecial(s string) bool {
 // appendSafeText appends a text cell as safeText guards it and encoding/csv
 // quotes it. Only a guarded cell, which is rare, costs the concatenation.
 func appendSafeText(dst []byte, s string) []byte {
-	return appendCSVField(dst, safeText(s))
+	if s != "" && isGuarded(s[0]) {
+		return appendCSVField(dst, "'"+s)
+	}
+	return appendCSVField(dst, s)
 }
 
 // appendCSVNumber appends a number with ten significant digits, as
@@ -84,7 +103,10 @@ func appendCSVNumber(dst []byte, n Number) []byte {
 	if !n.Known() {
 		return dst
 	}
-	return appendSignificant(dst, float64(n), 10)
+	if out, ok := appendSignificantQuick(dst, float64(n), 10); ok {
+		return out
+	}
+	return strconv.AppendFloat(dst, float64(n), 'g', 10, 64)
 }
 
 // appendCSVClaim appends one claim's CSV row and its line end, with the

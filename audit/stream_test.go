@@ -147,7 +147,7 @@ func TestClaimJSONMatchesEncodingJSON(t *testing.T) {
 // TestCSVEncoderMatchesEncodingCSV checks the CSV field writer against
 // encoding/csv on text that needs quoting, guarding or neither.
 func TestCSVEncoderMatchesEncodingCSV(t *testing.T) {
-	texts := []string{"", "plain", "a,b", `say "x"`, "line\nbreak", "cr\rhere", " lead", "\u00a0nbsp", `\.`,
+	texts := []string{"", "plain", "a,b", `say "x"`, "line\nbreak", "cr\rhere", " lead", "\u00a0nbsp", `\.`, `\.x`, `\a`, "~x",
 		"=SUM(A1)", "+1", "-2", "@x", "\tt", "\rr", "'q", "é", "\xff", "\vv", "\ff", "\nn", "\u0085x", "\u2003em", "\x1fus", "!x",
 		strings.Repeat("long ", 8), strings.Repeat("long ", 8) + ",", strings.Repeat("x", 31) + "\"",
 		strings.Repeat("x", 32) + "\r", strings.Repeat("y", 40) + "\n" + "z"}
