@@ -70,7 +70,7 @@ func Audit(in *extract.Input, opts Options) *Report {
 	for i := range in.Claims {
 		rep.Claims = append(rep.Claims, a.claim(&in.Claims[i]))
 	}
-	finishClaims(rep.Claims, opts, true)
+	finishClaims(rep.Claims, opts, true, true)
 	rep.Problems = a.problems(in)
 	rep.Summary = summarize(rep.Claims)
 	return rep
@@ -78,9 +78,12 @@ func Audit(in *extract.Input, opts Options) *Report {
 
 // finishClaims adjusts the claims' p within each study, decides their
 // outcomes and, when asked, writes their methods paragraphs (which the CSV
-// and JSON reports do not carry).
-func finishClaims(claims []ClaimResult, opts Options, methods bool) {
-	adjustWithinStudies(claims)
+// and JSON reports do not carry). The adjusted p are computed only when the
+// outcome uses them or showAdjusted says the report shows them.
+func finishClaims(claims []ClaimResult, opts Options, methods, showAdjusted bool) {
+	if showAdjusted || (opts.Adjust != AdjustNone && opts.Adjust != "") {
+		adjustWithinStudies(claims)
+	}
 	for i := range claims {
 		claims[i].settle(opts.Adjust)
 		if methods {

@@ -321,7 +321,7 @@ func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 			b.keep(a.pairConflicts[0])
 			b.keep(a.pairConflicts[1])
 		}
-		finishClaims(b.claims[s:e], opts, false)
+		finishClaims(b.claims[s:e], opts, false, showsAdjustedP(sink))
 	}
 	if b.counts == nil {
 		b.counts = map[string]int{}
@@ -342,6 +342,14 @@ func (b *streamBatch) recycle() {
 	b.omitted, b.err = 0, nil
 }
 
+// showsAdjustedP reports whether sink's encoding of a claim shows its
+// adjusted p-values (the JSON does, the CSV does not); a sink that does not
+// say is taken to.
+func showsAdjustedP(sink ClaimSink) bool {
+	s, ok := sink.(interface{ showsAdjustedP() bool })
+	return !ok || s.showsAdjustedP()
+}
+
 // CSVSink writes a streamed audit as the CSV report, one row per claim.
 type CSVSink struct {
 	w     *bufio.Writer
@@ -357,6 +365,9 @@ func (s *CSVSink) Begin(extra []string) error {
 	_, err := s.w.Write(appendCSVHeader(nil, extra))
 	return err
 }
+
+// The CSV rows have no column of adjusted p-values.
+func (s *CSVSink) showsAdjustedP() bool { return false }
 
 // AppendClaim appends one claim's row.
 func (s *CSVSink) AppendClaim(dst []byte, c *ClaimResult, _ int) []byte {
