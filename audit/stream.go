@@ -3,6 +3,7 @@ package audit
 import (
 	"bufio"
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -10,6 +11,8 @@ import (
 	"os"
 	"runtime"
 	"sync"
+
+	"golang.org/x/sync/semaphore"
 
 	"coefaudit/extract"
 )
@@ -24,7 +27,7 @@ const MaxStreamProblems = 10000
 // study (no paper prints that many comparisons; a file whose study column
 // was left constant does) is adjusted in blocks of this many claims, and a
 // problem says so: holding it whole would make memory grow with the file.
-const MaxStreamFamily = 5000
+const MaxStreamFamily = 1000
 
 // streamBatchClaims is how many claims a streamed audit hands a worker at
 // once (whole runs of a study, so a batch may hold more).
@@ -76,6 +79,8 @@ type streamBatch struct {
 	runs   []int
 	claims []ClaimResult
 	out    []byte
+	// weight is what the batch holds of the in-flight bound.
+	weight int64
 	counts map[string]int
 	keptProblems
 	// err is a read error after the batch's rows; it ends the stream.
@@ -148,15 +153,22 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	var problems keptProblems
 	problems.keep(cellProblems(pr.Problems()))
 	workers := runtime.GOMAXPROCS(0)
+	// What is in flight is bounded in claims, not in batches: a batch holds
+	// whole runs of a study, and in a file whose study column was left
+	// constant every batch is MaxStreamFamily claims long (bounding the
+	// batches let such a file take 300 MB). A batch longer than the bound
+	// goes alone.
+	limit := int64(2*workers+1) * streamBatchClaims
+	ctx, quit := context.WithCancel(context.Background())
+	defer quit()
 	var (
-		todo   = make(chan *streamBatch, workers)
-		done   = make(chan *streamBatch, workers)
-		tokens = make(chan struct{}, 2*workers+1) // batches in flight
-		quit   = make(chan struct{})
-		free   = sync.Pool{New: func() any { return new(streamBatch) }}
-		wg     sync.WaitGroup
+		todo     = make(chan *streamBatch, workers)
+		done     = make(chan *streamBatch, workers)
+		inFlight = semaphore.NewWeighted(limit)
+		free     = sync.Pool{New: func() any { return new(streamBatch) }}
+		wg       sync.WaitGroup
 	)
-	go readBatches(pr, &first, atEnd, todo, tokens, quit, &free)
+	go readBatches(ctx, pr, &first, atEnd, todo, inFlight, limit, &free)
 	for range workers {
 		wg.Add(1)
 		go func() {
@@ -166,7 +178,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 				w.audit(b, opts, sink)
 				select {
 				case done <- b:
-				case <-quit:
+				case <-ctx.Done():
 				}
 			}
 		}()
@@ -195,11 +207,11 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 			if failure == nil && b.err != nil {
 				failure = b.err
 			}
+			inFlight.Release(b.weight)
 			b.recycle()
 			free.Put(b)
-			<-tokens
 			if failure != nil {
-				close(quit)
+				quit()
 				break
 			}
 		}
@@ -211,10 +223,11 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 }
 
 // readBatches reads the paired rows into batches of whole study runs and
-// sends them to todo, taking a token for each so that only so many are in
-// flight; it closes todo after the last or when quit is closed.
-func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd bool, todo chan<- *streamBatch,
-	tokens chan struct{}, quit <-chan struct{}, free *sync.Pool) {
+// sends them to todo, each taking its claims (at most limit) from inFlight
+// so that only so many are in flight; it closes todo after the last or
+// when ctx is cancelled.
+func readBatches(ctx context.Context, pr *extract.PairedReader, first *extract.PairedClaim, atEnd bool,
+	todo chan<- *streamBatch, inFlight *semaphore.Weighted, limit int64, free *sync.Pool) {
 	defer close(todo)
 	var (
 		seq, index, runLen int
@@ -222,18 +235,20 @@ func readBatches(pr *extract.PairedReader, first *extract.PairedClaim, atEnd boo
 		b                  *streamBatch
 	)
 	send := func() bool {
+		b.weight = min(int64(len(b.rows)), limit)
+		if inFlight.Acquire(ctx, b.weight) != nil {
+			return false
+		}
 		select {
 		case todo <- b:
 			b = nil
 			return true
-		case <-quit:
+		case <-ctx.Done():
 			return false
 		}
 	}
 	start := func() bool {
-		select {
-		case tokens <- struct{}{}:
-		case <-quit:
+		if ctx.Err() != nil {
 			return false
 		}
 		b = free.Get().(*streamBatch)

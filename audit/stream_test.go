@@ -13,6 +13,7 @@ import (
 	"runtime"
 	"slices"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -212,6 +213,62 @@ func TestStreamLongStudy(t *testing.T) {
 	}
 	if len(rep.Problems) != 1 || rep.Problems[0].Row != MaxStreamFamily+2 || rep.Problems[0].Column != "study" {
 		t.Errorf("problems %+v, want one at row %d, column study", rep.Problems, MaxStreamFamily+2)
+	}
+}
+
+// countingSink encodes a claim as one byte and counts, as claims are
+// encoded, the most encoded but not yet written; Write is slow, so that
+// the reader and the workers run as far ahead as the stream lets them.
+type countingSink struct {
+	mu                      sync.Mutex
+	encoded, written, ahead int
+}
+
+func (s *countingSink) Begin([]string) error { return nil }
+func (s *countingSink) AppendClaim(dst []byte, _ *ClaimResult, _ int) []byte {
+	s.mu.Lock()
+	s.encoded++
+	s.ahead = max(s.ahead, s.encoded-s.written)
+	s.mu.Unlock()
+	return append(dst, 'x')
+}
+func (s *countingSink) Write(p []byte) (int, error) {
+	time.Sleep(2 * time.Millisecond)
+	s.mu.Lock()
+	s.written += len(p)
+	s.mu.Unlock()
+	return len(p), nil
+}
+func (s *countingSink) Finish(Summary, []Problem, int) error { return nil }
+
+// TestStreamBoundsClaimsInFlight checks that what a stream holds is
+// bounded in claims, not in batches: in a file whose study column was left
+// constant every batch is a block of MaxStreamFamily claims, and bounding
+// the batches let 2·CPUs+1 such blocks be in flight (300 MB for a million
+// claims). At most the bound in claims, or one block alone, may be encoded
+// ahead of what is written, and every claim is still written once.
+func TestStreamBoundsClaimsInFlight(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("study,claim,published,first_measure,first_estimate,first_se,second_measure,second_group,second_estimate,second_se\n")
+	n := 12 * MaxStreamFamily
+	for i := range n {
+		fmt.Fprintf(&b, "One,c%d,differ,md,0.%02d,0.10,md,other,0.10,0.10\n", i, i%100)
+	}
+	path := filepath.Join(t.TempDir(), "one-study.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	var sink countingSink
+	sum, err := StreamPaired(path, DefaultOptions, &sink)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Claims != n || sink.written != n {
+		t.Fatalf("%d claims in the summary and %d written, want %d", sum.Claims, sink.written, n)
+	}
+	limit := (2*runtime.GOMAXPROCS(0) + 1) * streamBatchClaims
+	if bound := max(limit, MaxStreamFamily+streamBatchClaims); sink.ahead > bound {
+		t.Errorf("%d claims were encoded ahead of the output, more than the bound %d", sink.ahead, bound)
 	}
 }
 

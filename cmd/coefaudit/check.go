@@ -158,7 +158,7 @@ on every CPU and written in input order, in memory that does not grow with
 the file, so a whole literature of claims can be checked at once. A
 study's claims are then taken together (for the multiplicity adjustment,
 and for the k of a df derived as n − k − 1) only while its rows are
-contiguous, and at most 5,000 in a row; sort the file by study first.`,
+contiguous, and at most 1,000 in a row; sort the file by study first.`,
 		Example: `  coefaudit check review.xlsx
   coefaudit check review.xlsx --format json --out audit.json
   coefaudit check extracted/ --format csv > audit.csv
