@@ -157,7 +157,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	// whole runs of a study, and in a file whose study column was left
 	// constant every batch is MaxStreamFamily claims long (bounding the
 	// batches let such a file take 300 MB). A batch longer than the bound
-	// goes alone.
+	// goes alone; the one being filled is outside it.
 	limit := int64(2*workers+1) * streamBatchClaims
 	ctx, quit := context.WithCancel(context.Background())
 	defer quit()

@@ -7,8 +7,8 @@ import "math"
 // StudentTTwoSidedP(t, df) = p, found by Halley's method (Newton's with a
 // second-derivative correction) on log p as a function of log t. In those
 // coordinates the tail of the t distribution is a straight line
-// (p ∝ t^−df), so the iteration converges
-// from the far tail as well as from the centre. It starts from the
+// (p ∝ t^−df), so the iteration converges from the far tail as well as
+// from the centre. It starts from the
 // Cornish–Fisher expansion of t in the normal quantile z (Abramowitz &
 // Stegun 1964, 26.7.5), good in the centre, or, when that is more than 10%
 // off in p and the other is nearer, from the leading term of the tail,
@@ -52,7 +52,6 @@ func studentTQuantile(p, df float64) (float64, bool) {
 			t, q = tail, qt
 		}
 	}
-	prev := math.Inf(1)
 	for i := range 60 {
 		if i > 0 {
 			q, _ = StudentTTwoSidedP(t, df)
@@ -77,23 +76,13 @@ func studentTQuantile(p, df float64) (float64, bool) {
 		step = math.Max(-1, math.Min(1, step))
 		t *= math.Exp(-step)
 		// A step below 1e-6 leaves an error of the order of 1e-18, far
-		// below the tail function's own accuracy, so t is not checked
+		// below the tail function's own accuracy (about 1e-12 at very
+		// large df, where the steps stop shrinking), so t is not checked
 		// again: near the centre and at large df the Cornish–Fisher start
 		// is that close, and one tail value does.
 		if math.Abs(step) < 1e-6 {
 			return t, true
 		}
-		// Convergence is quadratic, so after a step below 1e-12 the error
-		// is at the level of the tail function's own rounding, which keeps
-		// later steps from shrinking further.
-		// With very large df the tail function itself is good to only
-		// about 1e-12, and the steps stop shrinking above that: a step
-		// that fails to halve the last, once both are small, is that
-		// floor.
-		if math.Abs(step) < 1e-12 || (math.Abs(step) < 1e-9 && math.Abs(step) > prev/2) {
-			return t, true
-		}
-		prev = math.Abs(step)
 	}
 	return 0, false
 }
