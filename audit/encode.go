@@ -18,26 +18,10 @@ import (
 // quote it: when it holds a comma, quote, CR or LF, starts with a space, or
 // is `\.`.
 func appendCSVField(dst []byte, s string) []byte {
-	if plainShortCell(s) || !csvNeedsQuotes(s) {
+	if !csvNeedsQuotes(s) {
 		return append(dst, s...)
 	}
 	return append(appendCSVQuoted(append(dst, '"'), s), '"')
-}
-
-// plainShortCell reports whether s, most cells of a report (labels, methods,
-// outcomes), is short and needs no quotes by one scan: it starts with a
-// printable ASCII byte other than the backslash (so neither white space
-// nor `\.`) and holds no comma, quote, CR or LF. False says nothing.
-func plainShortCell(s string) bool {
-	if len(s) == 0 || len(s) >= 32 || s[0] <= ' ' || s[0] >= utf8.RuneSelf || s[0] == '\\' {
-		return false
-	}
-	for i := 0; i < len(s); i++ {
-		if c := s[i]; c <= ',' && (c == ',' || c == '"' || c == '\n' || c == '\r') {
-			return false
-		}
-	}
-	return true
 }
 
 // appendCSVQuoted appends s with its quotes doubled.
@@ -52,7 +36,14 @@ func appendCSVQuoted(dst []byte, s string) []byte {
 	}
 }
 
+// csvNeedsQuotes reports whether encoding/csv would quote s. A cell that
+// starts with a printable ASCII byte other than the backslash, as most do,
+// can neither lead with white space nor be `\.`, and only its bytes are
+// looked at.
 func csvNeedsQuotes(s string) bool {
+	if s != "" && s[0] > ' ' && s[0] < utf8.RuneSelf && s[0] != '\\' {
+		return hasCSVSpecial(s)
+	}
 	return leadsWithSpace(s) || s == `\.` || hasCSVSpecial(s)
 }
 
@@ -91,10 +82,7 @@ func hasCSVSpecial(s string) bool {
 // appendSafeText appends a text cell as safeText guards it and encoding/csv
 // quotes it. Only a guarded cell, which is rare, costs the concatenation.
 func appendSafeText(dst []byte, s string) []byte {
-	if s != "" && isGuarded(s[0]) {
-		return appendCSVField(dst, "'"+s)
-	}
-	return appendCSVField(dst, s)
+	return appendCSVField(dst, safeText(s))
 }
 
 // appendCSVNumber appends a number with ten significant digits, as
@@ -103,10 +91,7 @@ func appendCSVNumber(dst []byte, n Number) []byte {
 	if !n.Known() {
 		return dst
 	}
-	if out, ok := appendSignificantQuick(dst, float64(n), 10); ok {
-		return out
-	}
-	return strconv.AppendFloat(dst, float64(n), 'g', 10, 64)
+	return appendSignificant(dst, float64(n), 10)
 }
 
 // appendCSVClaim appends one claim's CSV row and its line end, with the
