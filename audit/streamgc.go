@@ -24,24 +24,23 @@ const (
 // policy once and the last to end restores what was there before.
 var streamGC struct {
 	sync.Mutex
-	running            int
-	percent, limit     int64
-	userSetCollector   bool
-	checkedEnvironment bool
+	running        int
+	percent, limit int64
 }
+
+// userSetCollector reports whether the environment sets the collector.
+var userSetCollector = sync.OnceValue(func() bool {
+	return os.Getenv("GOGC") != "" || os.Getenv("GOMEMLIMIT") != ""
+})
 
 // relaxCollector applies the streaming collector policy and returns the
 // function that restores the previous one.
 func relaxCollector() (restore func()) {
-	streamGC.Lock()
-	defer streamGC.Unlock()
-	if !streamGC.checkedEnvironment {
-		streamGC.userSetCollector = os.Getenv("GOGC") != "" || os.Getenv("GOMEMLIMIT") != ""
-		streamGC.checkedEnvironment = true
-	}
-	if streamGC.userSetCollector {
+	if userSetCollector() {
 		return func() {}
 	}
+	streamGC.Lock()
+	defer streamGC.Unlock()
 	if streamGC.running == 0 {
 		streamGC.percent = int64(debug.SetGCPercent(streamGCPercent))
 		streamGC.limit = debug.SetMemoryLimit(streamMemoryLimit)
