@@ -81,7 +81,7 @@ func Audit(in *extract.Input, opts Options) *Report {
 // and JSON reports do not carry). The adjusted p are computed only when the
 // outcome uses them or showAdjusted says the report shows them.
 func finishClaims(claims []ClaimResult, opts Options, methods, showAdjusted bool) {
-	if showAdjusted || (opts.Adjust != AdjustNone && opts.Adjust != "") {
+	if showAdjusted || opts.Adjust == AdjustHolm || opts.Adjust == AdjustBH {
 		adjustWithinStudies(claims)
 	}
 	for i := range claims {

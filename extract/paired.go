@@ -166,8 +166,8 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 }
 
 // pairedLabels makes the two labels of a claim unique per claim,
-// "<claim>/<label>" with "first" and "second" for blank labels, as one
-// string of text (which may be nil: one allocation).
+// "<claim>/<label>" with "first" and "second" for blank labels, as the two
+// halves of one string that text makes (a nil text allocates it).
 func pairedLabels(text *TextChunks, claim, first, second string) (string, string) {
 	if first == "" {
 		first = "first"

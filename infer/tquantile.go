@@ -8,10 +8,10 @@ import "math"
 // second-derivative correction) on log p as a function of log t. In those
 // coordinates the tail of the t distribution is a straight line
 // (p ∝ t^−df), so the iteration converges from the far tail as well as
-// from the centre. It starts from the
-// Cornish–Fisher expansion of t in the normal quantile z (Abramowitz &
-// Stegun 1964, 26.7.5), good in the centre, or, when that is more than 10%
-// off in p and the other is nearer, from the leading term of the tail,
+// from the centre. It starts from the Cornish–Fisher expansion of t in the
+// normal quantile z (Abramowitz & Stegun 1964, 26.7.5), good in the
+// centre, or, when that is more than 10% off in p and the other is nearer,
+// from the leading term of the tail,
 // p ≈ 2 c df^((df−1)/2) t^−df with c = Γ((df+1)/2) / (√(df π) Γ(df/2)),
 // good far out. df = 1 and 2 have
 // closed forms (A&S 26.7.3, 26.7.4 rearranged):
