@@ -153,6 +153,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	var problems keptProblems
 	problems.keep(cellProblems(pr.Problems()))
 	workers := runtime.GOMAXPROCS(0)
+	showAdjusted := showsAdjustedP(sink)
 	// What is in flight is bounded in claims, not in batches: a batch holds
 	// whole runs of a study, and in a file whose study column was left
 	// constant every batch is MaxStreamFamily claims long (bounding the
@@ -173,7 +174,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := &streamWorker{auditor: &auditor{}}
+			w := &streamWorker{auditor: &auditor{}, showAdjusted: showAdjusted}
 			for b := range todo {
 				w.audit(b, opts, sink)
 				select {
@@ -309,6 +310,8 @@ func readBatches(ctx context.Context, pr *extract.PairedReader, first *extract.P
 // streamWorker audits batches, one claim's pair at a time.
 type streamWorker struct {
 	auditor *auditor
+	// showAdjusted is set when the sink shows the adjusted p-values.
+	showAdjusted bool
 }
 
 func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
@@ -336,7 +339,7 @@ func (w *streamWorker) audit(b *streamBatch, opts Options, sink ClaimSink) {
 			b.keep(a.pairConflicts[0])
 			b.keep(a.pairConflicts[1])
 		}
-		finishClaims(b.claims[s:e], opts, false, showsAdjustedP(sink))
+		finishClaims(b.claims[s:e], opts, false, w.showAdjusted)
 	}
 	if b.counts == nil {
 		b.counts = map[string]int{}
