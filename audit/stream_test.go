@@ -266,7 +266,7 @@ func TestStreamBoundsClaimsInFlight(t *testing.T) {
 	if sum.Claims != n || sink.written != n {
 		t.Fatalf("%d claims in the summary and %d written, want %d", sum.Claims, sink.written, n)
 	}
-	limit := (2*runtime.GOMAXPROCS(0) + 1) * streamBatchClaims
+	limit := int(streamInFlightLimit(streamWorkers()))
 	if bound := max(limit, MaxStreamFamily+streamBatchClaims); sink.ahead > bound {
 		t.Errorf("%d claims were encoded ahead of the output, more than the bound %d", sink.ahead, bound)
 	}
