@@ -58,6 +58,9 @@ type auditor struct {
 	// notes holds the text of the notes of the claims audited; the results
 	// point to it, not to the auditor.
 	notes *extract.TextChunks
+	// rebuilt holds the two coefficients of the claim being audited, as
+	// Reconstruct rebuilt them; its storage is reused claim after claim.
+	rebuilt [2]extract.Reconstructed
 }
 
 // Audit audits every claims row of in, in order, and collects every problem
@@ -396,8 +399,9 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 		r.Outcome = Incomplete
 		return
 	}
-	rc1, e1 := extract.Reconstruct(c1, a.modelSizeOf(c1))
-	rc2, e2 := extract.Reconstruct(c2, a.modelSizeOf(c2))
+	rc1, rc2 := &a.rebuilt[0], &a.rebuilt[1]
+	e1 := extract.ReconstructInto(rc1, c1, a.modelSizeOf(c1))
+	e2 := extract.ReconstructInto(rc2, c2, a.modelSizeOf(c2))
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale
@@ -426,7 +430,7 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
-	r.Overlap = overlapOf(&rc1, &rc2, r)
+	r.Overlap = overlapOf(rc1, rc2, r)
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range a.conflictsOf(c) {
@@ -435,9 +439,9 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 	}
 
 	if r.Relation == Independent {
-		a.independent(r, c1, c2, &rc1, &rc2)
+		a.independent(r, c1, c2, rc1, rc2)
 	} else {
-		a.dependent(r, cl, c1, c2, &rc1, &rc2)
+		a.dependent(r, cl, c1, c2, rc1, rc2)
 		if strings.HasSuffix(r.Method, "from-correlation-table") {
 			r.Notes = append(r.Notes[:readNotes], r.Notes[readEnd:]...)
 			// The basis notes speak of the rebuilt estimates too.
@@ -446,14 +450,14 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 			rc1.DF, rc2.DF = float64(r.DF), float64(r.DF)
 		}
 	}
-	basisNotes(r, cl, c1, c2, &rc1, &rc2)
+	basisNotes(r, cl, c1, c2, rc1, rc2)
 	if len(conflicts) > 0 {
 		r.Notes = append(r.Notes, conflicts...)
 		r.conflict = true
 	}
 }
 
-func sideOf(label string, rc extract.Reconstructed, err error) Side {
+func sideOf(label string, rc *extract.Reconstructed, err error) Side {
 	s := Side{Label: label, Estimate: Number(rc.Estimate), SE: nan, SEFrom: rc.SEFrom}
 	if err == nil {
 		s.SE = Number(rc.SE)

@@ -62,15 +62,25 @@ type Reconstructed struct {
 // correlations use the normal, as their intervals are large-sample Wald or
 // Fisher-z intervals.
 func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
-	rc := Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
-		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()}}
+	var rc Reconstructed
+	err := ReconstructInto(&rc, c, modelSize)
+	return rc, err
+}
+
+// ReconstructInto is Reconstruct writing into rc, whose Notes storage it
+// reuses: a streamed audit rebuilds two coefficients a claim, and the
+// Reconstructed (some 200 bytes) is then neither built nor copied out.
+func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int) error {
+	*rc = Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
+		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()},
+		Notes: rc.Notes[:0]}
 	level := c.CILevel
 	if level == 0 {
 		level = DefaultCILevel
 	}
 	rc.Level = level / 100
 	if !c.Estimate.IsExact() {
-		return rc, errNoEstimate
+		return errNoEstimate
 	}
 	if c.N.IsExact() {
 		rc.N = c.N.Value
@@ -84,9 +94,9 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	var err error
 	rc.Estimate, rc.EstimateRange, err = rc.onScale(c.Measure, c.Estimate)
 	if err != nil {
-		return rc, err
+		return err
 	}
-	rc.DF = chooseDF(c, modelSize, &rc)
+	rc.DF = chooseDF(c, modelSize, rc)
 
 	// The limits' rounding intervals on the scale, kept for fromInterval.
 	var loR, hiR infer.Range
@@ -94,7 +104,7 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 		lo, lr, err1 := rc.onScale(c.Measure, c.CI.Low)
 		hi, hr, err2 := rc.onScale(c.Measure, c.CI.High)
 		if err := errors.Join(err1, err2); err != nil {
-			return rc, err
+			return err
 		}
 		rc.CI, loR, hiR = [2]float64{lo, hi}, lr, hr
 	}
@@ -121,21 +131,21 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 		}
 	case c.CI.Present():
 		if err := rc.fromInterval(c, loR, hiR); err != nil {
-			return rc, err
+			return err
 		}
 	case c.Stat.IsExact() && c.Stat.Value != 0:
 		rc.fromStatistic(c)
 	case c.P.IsExact() || c.P.Bound == Below:
 		if err := rc.fromP(c); err != nil {
-			return rc, err
+			return err
 		}
 	default:
 		if c.P.Bound == NotSignificant || c.P.Bound == Above {
-			return rc, fmt.Errorf("%w: only %q printed for p, which bounds nothing useful", ErrNoStandardError, c.P.Text)
+			return fmt.Errorf("%w: only %q printed for p, which bounds nothing useful", ErrNoStandardError, c.P.Text)
 		}
-		return rc, errNothingPrinted
+		return errNothingPrinted
 	}
-	return rc, nil
+	return nil
 }
 
 // The two commonest reasons for no SE, made once: a file of a million rows
