@@ -448,6 +448,7 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 			rc1.Estimate, rc1.SE = float64(r.First.Estimate), float64(r.First.SE)
 			rc2.Estimate, rc2.SE = float64(r.Second.Estimate), float64(r.Second.SE)
 			rc1.DF, rc2.DF = float64(r.DF), float64(r.DF)
+			rc1.PrintedP, rc2.PrintedP = math.NaN(), math.NaN()
 		}
 	}
 	basisNotes(r, cl, c1, c2, rc1, rc2)

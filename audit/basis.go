@@ -26,13 +26,19 @@ func basisNotes(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, 
 	}
 }
 
-// ownP is an estimate's own two-sided p against 0.
-func ownP(rc *extract.Reconstructed) float64 {
+// ownP is an estimate's own two-sided p against 0. When its SE was taken
+// from its printed p, that p is its own (recomputing it would give it back
+// to within 1e-12, and a p printed as α would fall either side of α by the
+// round-trip's noise); below is set when only a bound "< p" was printed.
+func ownP(rc *extract.Reconstructed) (p float64, below bool) {
+	if !math.IsNaN(rc.PrintedP) {
+		return rc.PrintedP, rc.PBelow
+	}
 	p, err := infer.StudentTTwoSidedP(rc.Estimate/rc.SE, dfOrInf(rc.DF))
 	if err != nil {
-		return math.NaN()
+		return math.NaN(), false
 	}
-	return p
+	return p, false
 }
 
 func dfOrInf(df float64) float64 {
@@ -50,12 +56,21 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) stri
 		if i > 0 {
 			b = append(b, "; "...)
 		}
-		p := ownP(rc)
-		b = appendPStatement(append(append(b, rc.Label...), ": "...), p)
-		if p < r.Alpha {
-			b = append(b, ", significant"...)
-		} else {
-			b = append(b, ", not significant"...)
+		b = append(append(b, rc.Label...), ": "...)
+		switch p, below := ownP(rc); {
+		case below:
+			b = strconv.AppendFloat(append(b, "p < "...), p, 'g', -1, 64)
+			if p <= r.Alpha {
+				b = append(b, ", significant"...)
+			} else {
+				b = append(b, ", not known whether significant"...)
+			}
+		case math.IsNaN(p):
+			b = append(b, "own p not known"...)
+		case p < r.Alpha:
+			b = append(appendPStatement(b, p), ", significant"...)
+		default:
+			b = append(appendPStatement(b, p), ", not significant"...)
 		}
 	}
 	b = append(b, "). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."...)

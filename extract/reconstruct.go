@@ -37,6 +37,12 @@ type Reconstructed struct {
 	// SE from the estimate and its p or statistic), so that a p range built
 	// from both is a safe outer bound rather than exact.
 	SEExactRange bool
+	// PrintedP is the two-sided p the SE was taken from, when it came from
+	// the printed p (the bound, when only "< x" was printed, and then
+	// PBelow is set), and NaN otherwise: the estimate's own p is then the
+	// printed one, with no tail to compute.
+	PrintedP float64
+	PBelow   bool
 	// DF is the df used for the t quantile, NaN when the normal was used.
 	DF float64
 	// N is the printed n, NaN when blank.
@@ -73,7 +79,7 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int) error {
 	*rc = Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
 		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()},
-		Notes: rc.Notes[:0]}
+		PrintedP: math.NaN(), Notes: rc.Notes[:0]}
 	level := c.CILevel
 	if level == 0 {
 		level = DefaultCILevel
@@ -363,6 +369,7 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 		rc.SE = math.Abs(rc.Estimate) / qb
 		rc.SERange = infer.Range{Lo: rc.SE * 1e-6, Hi: aHi / qb}
 		rc.SEFrom = namedQuantile("estimate, p bound", rc.DF)
+		rc.PrintedP, rc.PBelow = c.P.Value, true
 		var buf [160]byte
 		b := strconv.AppendQuote(append(append(buf[:0], c.Label...), ": only "...), c.P.Text)
 		b = strconv.AppendFloat(append(b, " was printed, so the SE "...), rc.SE, 'g', 4, 64)
@@ -388,6 +395,7 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 	}
 	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / qHi, Hi: hi}
 	rc.SEFrom = namedQuantile("estimate, p", rc.DF)
+	rc.PrintedP = c.P.Value
 	return nil
 }
 
