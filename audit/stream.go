@@ -176,8 +176,9 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 	// What is in flight is bounded in claims, not in batches: a batch holds
 	// whole runs of a study, and in a file whose study column was left
 	// constant every batch is MaxStreamFamily claims long (bounding the
-	// batches let such a file take 300 MB). A batch longer than the bound
-	// goes alone; the one being filled is outside it.
+	// batches let such a file take 300 MB). A batch longer than half the
+	// bound counts as half, so that two workers can audit such blocks at
+	// once; the one being filled is outside it.
 	limit := streamInFlightLimit(workers)
 	ctx, quit := context.WithCancel(context.Background())
 	defer quit()
@@ -255,7 +256,7 @@ func readBatches(ctx context.Context, pr *extract.PairedReader, first *extract.P
 		b                  *streamBatch
 	)
 	send := func() bool {
-		b.weight = min(int64(len(b.rows)), limit)
+		b.weight = min(int64(len(b.rows)), limit/2)
 		if inFlight.Acquire(ctx, b.weight) != nil {
 			return false
 		}

@@ -245,7 +245,7 @@ func (s *countingSink) Finish(Summary, []Problem, int) error { return nil }
 // bounded in claims, not in batches: in a file whose study column was left
 // constant every batch is a block of MaxStreamFamily claims, and bounding
 // the batches let 2·CPUs+1 such blocks be in flight (300 MB for a million
-// claims). At most the bound in claims, or one block alone, may be encoded
+// claims). At most the bound in claims, or two blocks, may be encoded
 // ahead of what is written, and every claim is still written once.
 func TestStreamBoundsClaimsInFlight(t *testing.T) {
 	var b strings.Builder
@@ -267,7 +267,7 @@ func TestStreamBoundsClaimsInFlight(t *testing.T) {
 		t.Fatalf("%d claims in the summary and %d written, want %d", sum.Claims, sink.written, n)
 	}
 	limit := int(streamInFlightLimit(streamWorkers()))
-	if bound := max(limit, MaxStreamFamily+streamBatchClaims); sink.ahead > bound {
+	if bound := max(limit, 2*MaxStreamFamily); sink.ahead > bound {
 		t.Errorf("%d claims were encoded ahead of the output, more than the bound %d", sink.ahead, bound)
 	}
 }
