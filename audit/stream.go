@@ -208,6 +208,7 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 
 	summary := Summary{Counts: map[string]int{}}
 	pending := map[int]*streamBatch{}
+	var spare []byte
 	next := 0
 	var failure error
 	for b := range done {
@@ -218,19 +219,27 @@ func StreamPaired(path string, opts Options, sink ClaimSink) (Summary, error) {
 		for b := pending[next]; b != nil; b = pending[next] {
 			delete(pending, next)
 			next++
-			_, failure = sink.Write(b.out)
 			summary.Claims += len(b.rows)
 			for o, n := range b.counts {
 				summary.Counts[o] += n
 			}
 			problems.keep(b.kept)
 			problems.omitted += b.omitted
-			if failure == nil && b.err != nil {
-				failure = b.err
-			}
+			readErr := b.err
+			// The batch's rows and results go back before its output is
+			// written, which takes a while for a file, so that the reader
+			// and the workers go on meanwhile; the output is kept in the
+			// writer's own buffer, traded for the batch's.
+			out := b.out
+			b.out = spare
 			inFlight.Release(b.weight)
 			b.recycle()
 			free.Put(b)
+			_, failure = sink.Write(out)
+			spare = out[:0]
+			if failure == nil && readErr != nil {
+				failure = readErr
+			}
 			if failure != nil {
 				quit()
 				break
