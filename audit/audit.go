@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"coefaudit/extract"
@@ -506,7 +507,10 @@ func overlapOf(rc1, rc2 *extract.Reconstructed, r *ClaimResult) *OverlapResult {
 		return nil
 	}
 	if rc1.Level != rc2.Level {
-		r.Notes = append(r.Notes, fmt.Sprintf("The two intervals have different levels (%g%% and %g%%), so their overlap is not read.", 100*rc1.Level, 100*rc2.Level))
+		var buf [128]byte
+		b := strconv.AppendFloat(append(buf[:0], "The two intervals have different levels ("...), 100*rc1.Level, 'g', -1, 64)
+		b = strconv.AppendFloat(append(b, "% and "...), 100*rc2.Level, 'g', -1, 64)
+		r.Notes = append(r.Notes, r.notes.String(append(b, "%), so their overlap is not read."...)))
 		return nil
 	}
 	o, err := infer.CIOverlap(rc1.Estimate, rc1.CI[0], rc1.CI[1], rc2.Estimate, rc2.CI[0], rc2.CI[1], rc1.Level)

@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 
@@ -92,29 +91,49 @@ func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 	case float64(o.Proportion) <= 0.5:
 		rule = "a difference at p ≤ .05 (an overlap of at most half the mean margin of error)"
 	}
-	var unmet []string
-	if r.Relation != Independent {
-		unmet = append(unmet, "the estimates come from one sample, so the rule does not apply at all")
+	// Appended into one buffer, as the note can be written for every claim.
+	var buf [1024]byte
+	b := append(buf[:0], "The paper read the overlap of the two intervals. The proportion overlap is "...)
+	b = strconv.AppendFloat(b, float64(o.Proportion), 'f', 2, 64)
+	b = append(b, " of the mean margin of error, which implies p ≈ "...)
+	b = appendP(b, float64(o.ImpliedP))
+	b = append(b, " for independent estimates; the rule of eye (Cumming & Finch 2005) says "...)
+	b = append(append(b, rule...), ". "...)
+	conditions := len(b)
+	unmet := func() {
+		if len(b) == conditions {
+			b = append(b, "The rule's conditions do not all hold: "...)
+		} else {
+			b = append(b, "; "...)
+		}
 	}
-	for _, rc := range []*extract.Reconstructed{rc1, rc2} {
+	if r.Relation != Independent {
+		unmet()
+		b = append(b, "the estimates come from one sample, so the rule does not apply at all"...)
+	}
+	for _, rc := range [2]*extract.Reconstructed{rc1, rc2} {
 		switch {
 		case math.IsNaN(rc.N):
-			unmet = append(unmet, fmt.Sprintf("n of %s is not printed, so n ≥ 10 cannot be checked", rc.Label))
+			unmet()
+			b = append(append(append(b, "n of "...), rc.Label...), " is not printed, so n ≥ 10 cannot be checked"...)
 		case rc.N < 10:
-			unmet = append(unmet, fmt.Sprintf("n of %s is %g, below 10", rc.Label, rc.N))
+			unmet()
+			b = append(append(append(b, "n of "...), rc.Label...), " is "...)
+			b = append(strconv.AppendFloat(b, rc.N, 'g', -1, 64), ", below 10"...)
 		}
 	}
 	if o.marginRatio > 2 {
-		unmet = append(unmet, fmt.Sprintf("the margins of error differ by a factor of %.2f, more than 2", o.marginRatio))
+		unmet()
+		b = append(b, "the margins of error differ by a factor of "...)
+		b = append(strconv.AppendFloat(b, o.marginRatio, 'f', 2, 64), ", more than 2"...)
 	}
-	cond := "The rule's conditions hold (independent estimates, n ≥ 10 each, margins within a factor of 2)."
-	if len(unmet) > 0 {
-		cond = "The rule's conditions do not all hold: " + joinSemicolon(unmet) + "."
+	if len(b) == conditions {
+		b = append(b, "The rule's conditions hold (independent estimates, n ≥ 10 each, margins within a factor of 2)."...)
+	} else {
+		b = append(b, '.')
 	}
-	return "The paper read the overlap of the two intervals. The proportion overlap is " +
-		strconv.FormatFloat(float64(o.Proportion), 'f', 2, 64) + " of the mean margin of error, which implies p ≈ " +
-		formatP(float64(o.ImpliedP)) + " for independent estimates; the rule of eye (Cumming & Finch 2005) says " +
-		rule + ". " + cond + " The proper test of the difference decides the outcome."
+	b = append(b, " The proper test of the difference decides the outcome."...)
+	return r.notes.String(b)
 }
 
 // publishedPNote compares the paper's p for the difference with the
@@ -125,24 +144,17 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 	if !r.PRange[0].Known() {
 		pr = infer.Point(float64(r.P))
 	}
+	var buf [512]byte
+	b := append(append(buf[:0], "The paper's p for the difference ("...), pp.Text...)
 	if hi >= pr.Lo && lo <= pr.Hi {
-		return "The paper's p for the difference (" + pp.Text + ") agrees with the recomputed one."
+		return r.notes.String(append(b, ") agrees with the recomputed one."...))
 	}
-	msg := "The paper's p for the difference (" + pp.Text + ") disagrees with the recomputed " + formatP(float64(r.P)) +
-		" (from " + formatP(pr.Lo) + " to " + formatP(pr.Hi) + " within rounding)"
+	b = appendP(append(b, ") disagrees with the recomputed "...), float64(r.P))
+	b = appendP(append(b, " (from "...), pr.Lo)
+	b = appendP(append(b, " to "...), pr.Hi)
+	b = append(b, " within rounding)"...)
 	if hi >= pr.Lo/2 && lo <= pr.Hi/2 {
-		msg += "; it matches a one-sided p, half the two-sided one"
+		b = append(b, "; it matches a one-sided p, half the two-sided one"...)
 	}
-	return msg + "."
-}
-
-func joinSemicolon(parts []string) string {
-	out := ""
-	for i, p := range parts {
-		if i > 0 {
-			out += "; "
-		}
-		out += p
-	}
-	return out
+	return r.notes.String(append(b, '.'))
 }
