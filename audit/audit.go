@@ -401,8 +401,8 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 		return
 	}
 	rc1, rc2 := &a.rebuilt[0], &a.rebuilt[1]
-	e1 := extract.ReconstructInto(rc1, c1, a.modelSizeOf(c1))
-	e2 := extract.ReconstructInto(rc2, c2, a.modelSizeOf(c2))
+	e1 := extract.ReconstructInto(rc1, c1, a.modelSizeOf(c1), a.notes)
+	e2 := extract.ReconstructInto(rc2, c2, a.modelSizeOf(c2), a.notes)
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale

@@ -43,6 +43,8 @@ type Reconstructed struct {
 	// printed one, with no tail to compute.
 	PrintedP float64
 	PBelow   bool
+	// text, when set, holds the text of the notes.
+	text *TextChunks
 	// DF is the df used for the t quantile, NaN when the normal was used.
 	DF float64
 	// N is the printed n, NaN when blank.
@@ -69,17 +71,18 @@ type Reconstructed struct {
 // Fisher-z intervals.
 func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	var rc Reconstructed
-	err := ReconstructInto(&rc, c, modelSize)
+	err := ReconstructInto(&rc, c, modelSize, nil)
 	return rc, err
 }
 
 // ReconstructInto is Reconstruct writing into rc, whose Notes storage it
-// reuses: a streamed audit rebuilds two coefficients a claim, and the
-// Reconstructed (some 200 bytes) is then neither built nor copied out.
-func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int) error {
+// reuses, with the text of the notes in text when it is not nil: a
+// streamed audit rebuilds two coefficients a claim, and the Reconstructed
+// (some 200 bytes) is then neither built nor copied out.
+func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *TextChunks) error {
 	*rc = Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
 		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()},
-		PrintedP: math.NaN(), Notes: rc.Notes[:0]}
+		PrintedP: math.NaN(), Notes: rc.Notes[:0], text: text}
 	level := c.CILevel
 	if level == 0 {
 		level = DefaultCILevel
@@ -133,7 +136,7 @@ func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int) error {
 		rc.SEFrom = "se"
 		rc.SEExactRange = true
 		if rc.Scale != ScaleAsPrinted {
-			rc.Notes = append(rc.Notes, c.Label+": the printed SE is taken to be on the "+rc.Scale+" scale")
+			rc.noteOnScale(c.Label, ": the printed SE is taken to be on the ")
 		}
 	case c.CI.Present():
 		if err := rc.fromInterval(c, loR, hiR); err != nil {
@@ -269,14 +272,19 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	switch {
 	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
 		if n-2 < smallDF {
-			rc.Notes = append(rc.Notes, textWithNumber(c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
+			var buf [128]byte
+			b := strconv.AppendFloat(append(append(buf[:0], c.Label...), ": df taken as n − 2 = "...), n-2, 'g', -1, 64)
+			rc.note(append(b, " (two groups)"...))
 		}
 		return n - 2
 	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
-				rc.Notes = append(rc.Notes, textWithNumber(c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = "+strconv.FormatFloat(k, 'g', -1, 64)+" coefficients listed for its model; unlisted covariates would lower it"))
+				var buf [192]byte
+				b := strconv.AppendFloat(append(append(buf[:0], c.Label...), ": df taken as n − k − 1 = "...), n-k-1, 'g', -1, 64)
+				b = strconv.AppendFloat(append(b, " with the k = "...), k, 'g', -1, 64)
+				rc.note(append(b, " coefficients listed for its model; unlisted covariates would lower it"...))
 			}
 			return n - k - 1
 		}
@@ -285,13 +293,24 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 }
 
 // textWithNumber is head+mid+x+tail, with x as %g prints it, in one
-// allocation: the df notes and the names of SE sources are written for
-// most rows.
+// allocation: the names of SE sources are written for most rows.
 func textWithNumber(head, mid string, x float64, tail string) string {
 	var buf [128]byte
 	b := append(append(buf[:0], head...), mid...)
 	b = strconv.AppendFloat(b, x, 'g', -1, 64)
 	return string(append(b, tail...))
+}
+
+// note appends b as a note, its text kept in rc.text when that is set.
+func (rc *Reconstructed) note(b []byte) {
+	rc.Notes = append(rc.Notes, rc.text.String(b))
+}
+
+// noteOnScale notes label+what+rc.Scale+" scale".
+func (rc *Reconstructed) noteOnScale(label, what string) {
+	var buf [128]byte
+	b := append(append(append(buf[:0], label...), what...), rc.Scale...)
+	rc.note(append(b, " scale"...))
 }
 
 // fromInterval takes the SE from the interval rc.CI, whose limits' rounding
@@ -327,8 +346,11 @@ func (rc *Reconstructed) fromInterval(c *Coefficient, loR, hiR infer.Range) erro
 			scale = " on the " + rc.Scale + " scale"
 		}
 		rc.SEFrom = namedQuantile(from+", mean of the two half-widths", rc.DF)
-		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: asymmetric interval%s (SE %.4g from the lower half, %.4g from the upper); the SE is their mean and the p range covers both",
-			c.Label, scale, seLo, seHi))
+		var buf [256]byte
+		b := append(append(append(buf[:0], c.Label...), ": asymmetric interval"...), scale...)
+		b = strconv.AppendFloat(append(b, " (SE "...), seLo, 'g', 4, 64)
+		b = strconv.AppendFloat(append(b, " from the lower half, "...), seHi, 'g', 4, 64)
+		rc.note(append(b, " from the upper); the SE is their mean and the p range covers both"...))
 		return nil
 	}
 	rc.SEFrom = namedQuantile(from, rc.DF)
@@ -346,7 +368,7 @@ func (rc *Reconstructed) fromStatistic(c *Coefficient) {
 	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / tHi, Hi: aHi / tLo}
 	rc.SEFrom = "estimate, stat"
 	if rc.Scale != ScaleAsPrinted {
-		rc.Notes = append(rc.Notes, c.Label+": the statistic is taken to be estimate/SE on the "+rc.Scale+" scale")
+		rc.noteOnScale(c.Label, ": the statistic is taken to be estimate/SE on the ")
 	}
 }
 
@@ -373,7 +395,7 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 		var buf [160]byte
 		b := strconv.AppendQuote(append(append(buf[:0], c.Label...), ": only "...), c.P.Text)
 		b = strconv.AppendFloat(append(b, " was printed, so the SE "...), rc.SE, 'g', 4, 64)
-		rc.Notes = append(rc.Notes, string(append(b, " taken from it is the largest the bound allows"...)))
+		rc.note(append(b, " taken from it is the largest the bound allows"...))
 		return nil
 	}
 	pq, err := q(c.P.Value)

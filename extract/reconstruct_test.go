@@ -46,10 +46,11 @@ func TestReconstructSources(t *testing.T) {
 			Coefficient{Label: "women", Measure: MeasureRR, Estimate: num("2.15"), CI: Interval{Low: num("1.33"), High: num("3.47")}},
 			0, 0.244637, 3e-5, "ci_low, ci_high (normal)", ScaleLog, math.NaN(), ""},
 		// Constructed: 0.30 (0.05, 0.45) has halves 0.25 and 0.15, beyond any rounding;
-		// the SE is the mean, 0.40/3.919928.
+		// the SE is the mean, 0.40/3.919928, and the halves give 0.25/1.959964 and 0.15/1.959964.
 		{"asymmetric interval",
 			Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}},
-			0, 0.40 / 3.919928, 1e-6, "ci_low, ci_high, mean of the two half-widths (normal)", ScaleAsPrinted, math.NaN(), "asymmetric"},
+			0, 0.40 / 3.919928, 1e-6, "ci_low, ci_high, mean of the two half-widths (normal)", ScaleAsPrinted, math.NaN(),
+			"boot: asymmetric interval (SE 0.1276 from the lower half, 0.07653 from the upper); the SE is their mean"},
 		// Altman & Bland (2011) BMJ 343:d2090: "P=0.032", Est 17, SE 7.940 via the note's
 		// polynomial; the exact normal quantile gives 17/2.1444 (PUBLISHED-VALUES §1.1).
 		{"Altman Bland 2011 from p",
