@@ -153,12 +153,13 @@ mean that what was printed cannot decide the claim: add them with
 malformed row is a problem in the report, not an input error: its claim is
 incomplete.
 
-A paired CSV written as csv or json is streamed: its rows are read, audited
-on every CPU and written in input order, in memory that does not grow with
-the file, so a whole literature of claims can be checked at once. A
-study's claims are then taken together (for the multiplicity adjustment,
-and for the k of a df derived as n − k − 1) only while its rows are
-contiguous, and at most 1,000 in a row; sort the file by study first.`,
+A paired CSV written as csv or json is streamed: its rows are read,
+audited on every CPU (up to four) and written in input order, in memory
+that does not grow with the file, so a whole literature of claims can be
+checked at once. A study's claims are then taken together (for the
+multiplicity adjustment, and for the k of a df derived as n − k − 1) only
+while its rows are contiguous, and at most 1,000 in a row; sort the file
+by study first.`,
 		Example: `  coefaudit check review.xlsx
   coefaudit check review.xlsx --format json --out audit.json
   coefaudit check extracted/ --format csv > audit.csv
