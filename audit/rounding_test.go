@@ -109,23 +109,20 @@ func TestBasisNotes(t *testing.T) {
 func TestSignificanceSplitPrintedP(t *testing.T) {
 	other := coefSpec{label: "b", measure: "other", group: "g2", est: "10", se: "10"}
 	tests := []struct {
-		name    string
-		est     string
-		p, stat extract.Printed
-		want    string
+		name string
+		p    extract.Printed
+		want string
 	}{
-		{"p printed as alpha", "25", printed("0.050"), extract.Printed{}, "a: p = 0.050, not significant"},
-		{"p just below alpha", "25", printed("0.049"), extract.Printed{}, "a: p = 0.049, significant"},
-		{"bound below alpha", "25", extract.Printed{Value: 0.001, Text: "<0.001", Decimals: 3, Bound: extract.Below}, extract.Printed{}, "a: p < 0.001, significant"},
-		{"bound at alpha", "25", extract.Printed{Value: 0.05, Text: "<.05", Decimals: 2, Bound: extract.Below}, extract.Printed{}, "a: p < 0.05, significant"},
-		{"bound above alpha", "25", extract.Printed{Value: 0.1, Text: "<0.10", Decimals: 2, Bound: extract.Below}, extract.Printed{}, "a: p < 0.1, not known whether significant"},
-		// A zero estimate with a statistic gives an SE of 0 and no p.
-		{"zero estimate with a statistic", "-0.00", extract.Printed{}, printed("-0.04"), "a: own p not known"},
+		{"p printed as alpha", printed("0.050"), "a: p = 0.050, not significant"},
+		{"p just below alpha", printed("0.049"), "a: p = 0.049, significant"},
+		{"bound below alpha", extract.Printed{Value: 0.001, Text: "<0.001", Decimals: 3, Bound: extract.Below}, "a: p < 0.001, significant"},
+		{"bound at alpha", extract.Printed{Value: 0.05, Text: "<.05", Decimals: 2, Bound: extract.Below}, "a: p < 0.05, significant"},
+		{"bound above alpha", extract.Printed{Value: 0.1, Text: "<0.10", Decimals: 2, Bound: extract.Below}, "a: p < 0.1, not known whether significant"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			c1 := coefficient("S", 2, coefSpec{label: "a", measure: "other", group: "g1", est: tt.est})
-			c1.P, c1.Stat = tt.p, tt.stat
+			c1 := coefficient("S", 2, coefSpec{label: "a", measure: "other", group: "g1", est: "25"})
+			c1.P = tt.p
 			c2 := coefficient("S", 3, other)
 			cl := claim("S", "c", 2, "a", "b", "differ", "significance-split")
 			rep := Audit(&extract.Input{Coefficients: []extract.Coefficient{c1, c2}, Claims: []extract.Claim{cl}}, DefaultOptions)

@@ -143,6 +143,13 @@ func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *Tex
 			return err
 		}
 	case c.Stat.IsExact() && c.Stat.Value != 0:
+		if rc.Estimate == 0 {
+			where := "printed as " + c.Estimate.Text
+			if rc.Scale != ScaleAsPrinted {
+				where = c.Estimate.Text + ", 0 on the " + rc.Scale + " scale"
+			}
+			return fmt.Errorf("%w: the estimate is %s, so estimate/statistic gives an SE of 0", ErrNoStandardError, where)
+		}
 		rc.fromStatistic(c)
 	case c.P.IsExact() || c.P.Bound == Below:
 		if err := rc.fromP(c); err != nil {

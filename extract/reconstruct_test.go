@@ -148,6 +148,9 @@ func TestReconstructFailures(t *testing.T) {
 		{"ns only", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.2"), P: Printed{Bound: NotSignificant, Text: "ns", Decimals: -1}}, `"ns"`},
 		{"no estimate", Coefficient{Label: "x", Measure: MeasureB, SE: num("0.1")}, "no estimate"},
 		{"ratio of zero", Coefficient{Label: "x", Measure: MeasureOR, Estimate: num("0"), SE: num("0.1")}, "log scale"},
+		{"zero estimate with a statistic", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("-0.00"), Stat: num("-0.04")}, "printed as -0.00, so estimate/statistic gives an SE of 0"},
+		{"ratio of one with a statistic", Coefficient{Label: "x", Measure: MeasureOR, Estimate: num("1.00"), Stat: num("0.3")}, "1.00, 0 on the log scale"},
+		{"zero estimate with a p", Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.00"), P: num("0.97")}, "fixes no scale"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -59,7 +59,7 @@ func IndependentDifference(e1, se1, e2, se2, level float64) (Difference, error) 
 // regression: the residual df) and the normal otherwise.
 func CorrelatedDifference(e1, se1, e2, se2, rho, df, level float64) (Difference, error) {
 	if !validSE(se1) || !validSE(se2) {
-		return Difference{}, fmt.Errorf("standard errors %v and %v: %w", se1, se2, ErrStandardError)
+		return Difference{}, fmt.Errorf("standard errors %.4g and %.4g: %w", se1, se2, ErrStandardError)
 	}
 	if !(rho >= -1 && rho <= 1) {
 		return Difference{}, fmt.Errorf("sampling correlation %v: %w", rho, ErrCorrelation)
@@ -163,7 +163,7 @@ func DifferencePRange(dr, ser Range, df float64) (Range, error) {
 // covariance, every verdict reachable inside this range is possible.
 func AdmissibleVarianceRange(se1, se2 float64) (Range, error) {
 	if !validSE(se1) || !validSE(se2) {
-		return Range{}, fmt.Errorf("standard errors %v and %v: %w", se1, se2, ErrStandardError)
+		return Range{}, fmt.Errorf("standard errors %.4g and %.4g: %w", se1, se2, ErrStandardError)
 	}
 	return Range{(se1 - se2) * (se1 - se2), (se1 + se2) * (se1 + se2)}, nil
 }
