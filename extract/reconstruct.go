@@ -280,8 +280,7 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
 		if n-2 < smallDF {
 			var buf [128]byte
-			b := strconv.AppendFloat(append(append(buf[:0], c.Label...), ": df taken as n − 2 = "...), n-2, 'g', -1, 64)
-			rc.note(append(b, " (two groups)"...))
+			rc.note(appendTextWithNumber(buf[:0], c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
 		}
 		return n - 2
 	case DerivesDFFromModelSize(c):
@@ -289,8 +288,8 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
 				var buf [192]byte
-				b := strconv.AppendFloat(append(append(buf[:0], c.Label...), ": df taken as n − k − 1 = "...), n-k-1, 'g', -1, 64)
-				b = strconv.AppendFloat(append(b, " with the k = "...), k, 'g', -1, 64)
+				b := appendTextWithNumber(buf[:0], c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = ")
+				b = strconv.AppendFloat(b, k, 'g', -1, 64)
 				rc.note(append(b, " coefficients listed for its model; unlisted covariates would lower it"...))
 			}
 			return n - k - 1
@@ -303,9 +302,13 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 // allocation: the names of SE sources are written for most rows.
 func textWithNumber(head, mid string, x float64, tail string) string {
 	var buf [128]byte
-	b := append(append(buf[:0], head...), mid...)
-	b = strconv.AppendFloat(b, x, 'g', -1, 64)
-	return string(append(b, tail...))
+	return string(appendTextWithNumber(buf[:0], head, mid, x, tail))
+}
+
+// appendTextWithNumber appends head+mid+x+tail to b, with x as %g prints it.
+func appendTextWithNumber(b []byte, head, mid string, x float64, tail string) []byte {
+	b = append(append(b, head...), mid...)
+	return append(strconv.AppendFloat(b, x, 'g', -1, 64), tail...)
 }
 
 // note appends b as a note, its text kept in rc.text when that is set.
