@@ -98,7 +98,7 @@ any number of cores.`,
 	fl.BoolVar(&f.opts.Unstandardized, "unstandardized", false, "compare the coefficients in the variables' units instead of standardized ones")
 	fl.IntVar(&f.opts.Workers, "workers", 0, "goroutines to use (default: every core); the result does not depend on it")
 	fl.StringVarP(&f.format, "format", "f", "table", "output format: table or json")
-	fl.StringVarP(&f.out, "out", "o", "", "write the report to this file instead of standard output")
+	fl.StringVarP(&f.out, "out", "o", "", "write the report to this file (- or nothing: standard output; a device or FIFO is written in place)")
 	return cmd
 }
 

@@ -38,7 +38,7 @@ var defaultFailOn = []string{audit.Unsupported, audit.Missed, audit.Reversed, au
 
 func (o *reportOptions) bind(cmd *cobra.Command) {
 	cmd.Flags().StringVarP(&o.format, "format", "f", "table", "output format: table, json, csv, md, xlsx (needs --out) or html")
-	cmd.Flags().StringVarP(&o.out, "out", "o", "", "write the report to this file instead of standard output")
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "write the report to this file (- or nothing: standard output; a device or FIFO is written in place)")
 	cmd.Flags().StringVar(&o.adjust, "adjust", audit.DefaultOptions.Adjust, "multiplicity adjustment deciding outcomes: none, holm or bh")
 	cmd.RegisterFlagCompletionFunc("format", cobra.FixedCompletions(reportFormats, cobra.ShellCompDirectiveNoFileComp))
 	cmd.RegisterFlagCompletionFunc("adjust", cobra.FixedCompletions([]string{audit.AdjustNone, audit.AdjustHolm, audit.AdjustBH}, cobra.ShellCompDirectiveNoFileComp))

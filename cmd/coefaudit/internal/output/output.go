@@ -1,12 +1,18 @@
 // Package output writes a report either to standard output or to a file,
-// safely: a file is written under a temporary name beside its destination
-// and renamed into place only when complete, and never over the input.
+// safely: a regular file is written under a temporary name beside its
+// destination and renamed into place only when complete, and never over the
+// input. A destination that exists and is not a regular file (a device such
+// as /dev/null, a FIFO, /dev/stdout) is written in place, never replaced; a
+// symbolic link is followed, never replaced.
 package output
 
 import (
+	"crypto/rand"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 )
@@ -17,22 +23,33 @@ var ErrOutIsInput = errors.New("the output file is the input file")
 // ErrExists is returned by Create when the file already exists.
 var ErrExists = errors.New("file already exists")
 
+// ErrNotWritable is returned for a destination that is neither a regular
+// file nor something that can be written in place (a directory, a socket).
+var ErrNotWritable = errors.New("not a file that a report can be written to")
+
+// maxSymlinks bounds the links followed when resolving a dangling link, as
+// the kernel's own limit (MAXSYMLINKS) does.
+const maxSymlinks = 40
+
 // Target is where a report goes. Write to it, then Close to finish or
 // Abort to throw a half-written file away.
 type Target struct {
-	w    io.Writer
-	tmp  *os.File
-	dest string
+	w     io.Writer
+	tmp   *os.File // a regular file being written under a temporary name
+	dest  string   // where tmp is renamed to
+	mode  fs.FileMode
+	keep  bool     // dest existed: give tmp its mode
+	inPos *os.File // a non-regular destination opened in place
 }
 
 // Write implements io.Writer.
 func (t *Target) Write(p []byte) (int, error) { return t.w.Write(p) }
 
-// Open returns a Target writing to stdout when out is empty, else to the
-// file out. It refuses an out that names the input (or one of the files of
-// an input folder).
+// Open returns a Target writing to stdout when out is empty or "-", else to
+// the file out. It refuses an out that names the input (or one of the files
+// of an input folder).
 func Open(stdout io.Writer, out, input string) (*Target, error) {
-	if out == "" {
+	if out == "" || out == "-" {
 		return &Target{w: stdout}, nil
 	}
 	if same(out, input) {
@@ -56,33 +73,120 @@ func Create(path string) (*Target, error) {
 	return openFile(path)
 }
 
+// openFile decides how dest is written. What the path finally names (after
+// every symbolic link) decides: a regular file or nothing is written through
+// a temporary file renamed over it; a device or FIFO is opened in place.
 func openFile(dest string) (*Target, error) {
-	dir := filepath.Dir(dest)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(dest)+".tmp-*")
-	if err != nil {
+	st, err := os.Stat(dest)
+	switch {
+	case err == nil && st.Mode().IsRegular():
+		real, err := filepath.EvalSymlinks(dest)
+		if err != nil {
+			return nil, fmt.Errorf("cannot write %s: %w", dest, err)
+		}
+		return createTemp(dest, real, st.Mode().Perm(), true)
+	case err == nil && st.IsDir():
+		return nil, fmt.Errorf("cannot write %s: it is a directory: %w", dest, ErrNotWritable)
+	case err == nil && st.Mode()&fs.ModeSocket != 0:
+		return nil, fmt.Errorf("cannot write %s: it is a socket: %w", dest, ErrNotWritable)
+	case err == nil:
+		// A device, a FIFO or a terminal: written in place, as a shell's
+		// redirection would, and never replaced by a regular file.
+		f, err := os.OpenFile(dest, os.O_WRONLY, 0)
+		if err != nil {
+			return nil, fmt.Errorf("cannot write %s: %w", dest, err)
+		}
+		return &Target{w: f, inPos: f}, nil
+	case errors.Is(err, fs.ErrNotExist):
+		real, err := resolveDangling(dest)
+		if err != nil {
+			return nil, fmt.Errorf("cannot write %s: %w", dest, err)
+		}
+		return createTemp(dest, real, 0, false)
+	default:
 		return nil, fmt.Errorf("cannot write %s: %w", dest, err)
 	}
-	return &Target{w: tmp, tmp: tmp, dest: dest}, nil
 }
 
-// Close finishes the output: for a file, syncs and renames it into place.
+// resolveDangling follows the symbolic links of a path whose final target
+// does not exist yet, so that the new file is created where the link points
+// and the link itself is left alone.
+func resolveDangling(path string) (string, error) {
+	for range maxSymlinks {
+		fi, err := os.Lstat(path)
+		if errors.Is(err, fs.ErrNotExist) {
+			return path, nil
+		}
+		if err != nil {
+			return "", err
+		}
+		if fi.Mode()&fs.ModeSymlink == 0 {
+			return path, nil
+		}
+		link, err := os.Readlink(path)
+		if err != nil {
+			return "", err
+		}
+		if !filepath.IsAbs(link) {
+			link = filepath.Join(filepath.Dir(path), link)
+		}
+		path = link
+	}
+	return "", fmt.Errorf("more than %d symbolic links", maxSymlinks)
+}
+
+// createTemp opens a new file beside real. It is created with mode 0666, so
+// that the process's umask gives it the mode any new file of the user gets;
+// keep gives it an existing file's mode instead when it is renamed.
+func createTemp(shown, real string, mode fs.FileMode, keep bool) (*Target, error) {
+	dir, base := filepath.Dir(real), filepath.Base(real)
+	for range 100 {
+		var b [6]byte
+		if _, err := rand.Read(b[:]); err != nil {
+			return nil, fmt.Errorf("cannot write %s: %w", shown, err)
+		}
+		name := filepath.Join(dir, "."+base+".tmp-"+hex.EncodeToString(b[:]))
+		f, err := os.OpenFile(name, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o666)
+		if errors.Is(err, fs.ErrExist) {
+			continue
+		}
+		if err != nil {
+			return nil, fmt.Errorf("cannot write %s: %w", shown, err)
+		}
+		return &Target{w: f, tmp: f, dest: real, mode: mode, keep: keep}, nil
+	}
+	return nil, fmt.Errorf("cannot write %s: no free temporary name beside it", shown)
+}
+
+// Close finishes the output: for a regular file, syncs and renames it into
+// place; for a destination written in place, closes it.
 func (t *Target) Close() error {
+	if t.inPos != nil {
+		if err := t.inPos.Close(); err != nil {
+			return fmt.Errorf("writing %s: %w", t.inPos.Name(), err)
+		}
+		return nil
+	}
 	if t.tmp == nil {
 		return nil
 	}
 	name := t.tmp.Name()
-	if err := t.tmp.Sync(); err != nil {
+	fail := func(err error) error {
 		t.tmp.Close()
 		os.Remove(name)
 		return fmt.Errorf("writing %s: %w", t.dest, err)
 	}
+	if t.keep {
+		if err := t.tmp.Chmod(t.mode); err != nil {
+			return fail(err)
+		}
+	}
+	if err := t.tmp.Sync(); err != nil {
+		return fail(err)
+	}
 	if err := t.tmp.Close(); err != nil {
 		os.Remove(name)
 		return fmt.Errorf("writing %s: %w", t.dest, err)
-	}
-	if err := os.Chmod(name, 0o644); err != nil {
-		os.Remove(name)
-		return err
 	}
 	if err := os.Rename(name, t.dest); err != nil {
 		os.Remove(name)
@@ -91,8 +195,12 @@ func (t *Target) Close() error {
 	return nil
 }
 
-// Abort discards a partly written file.
+// Abort discards a partly written file. A destination written in place is
+// only closed: what reached a device or FIFO cannot be taken back.
 func (t *Target) Abort() {
+	if t.inPos != nil {
+		t.inPos.Close()
+	}
 	if t.tmp != nil {
 		t.tmp.Close()
 		os.Remove(t.tmp.Name())
