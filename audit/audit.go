@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
-	"strconv"
 	"strings"
 
 	"coefaudit/extract"
@@ -31,7 +30,7 @@ var DefaultOptions = Options{Adjust: AdjustNone}
 // coefKey identifies a coefficient: its study and label.
 type coefKey struct{ study, label string }
 
-// auditor holds what every claim's audit looks up.
+// auditor holds what every claim's audit of one study looks up.
 type auditor struct {
 	coef       map[coefKey]*extract.Coefficient
 	duplicated map[coefKey]bool
@@ -43,56 +42,31 @@ type auditor struct {
 	modelPredictors map[modelKey][]string
 	// corr holds the correlation tables by sample.
 	corr map[[2]string]*corrSource
-
-	// pair, when set, holds the only two coefficients (loadPair), and the
-	// maps above are not used.
-	pair           []*extract.Coefficient
-	pairBuf        [2]*extract.Coefficient
-	pairDuplicated bool
-	pairConflicts  [2][]Problem
-	// pairRun holds the paired rows of the pair's study, over which a
-	// model's regression coefficients are counted (into pairSizes, for the
-	// run whose first row is sizesOf) when a derived df first needs them.
-	pairRun   []extract.PairedClaim
-	pairSizes modelSizes
-	sizesOf   *extract.PairedClaim
-	// notes holds the text of the notes of the claims audited; the results
-	// point to it, not to the auditor.
-	notes *extract.TextChunks
-	// rebuilt holds the two coefficients of the claim being audited, as
-	// Reconstruct rebuilt them; its storage is reused claim after claim.
-	rebuilt [2]extract.Reconstructed
 }
 
-// Audit audits every claims row of in, in order, and collects every problem
-// of the input. It never fails: a claim that cannot be tested gets the
-// outcome incomplete with notes saying why.
+// Audit audits every study of an input held in memory, in the order
+// extract.Source gives them, and collects every problem of the input. It
+// never fails: a claim that cannot be tested gets the outcome incomplete
+// with notes saying why.
 func Audit(in *extract.Input, opts Options) *Report {
-	a := newAuditor(in)
-	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions,
-		Claims: make([]ClaimResult, 0, len(in.Claims))}
-	for i := range in.Claims {
-		rep.Claims = append(rep.Claims, a.claim(&in.Claims[i]))
-	}
-	finishClaims(rep.Claims, opts, true, true)
-	rep.Problems = a.problems(in)
-	rep.Summary = summarize(rep.Claims)
+	src := extract.FromInput(in)
+	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions, Claims: []ClaimResult{}}
+	rep.Summary, _ = Run(src.Studies(), opts, func(res StudyResult) error {
+		rep.Claims = append(rep.Claims, res.Claims...)
+		rep.Problems = append(rep.Problems, res.Problems...)
+		return nil
+	})
+	rep.Problems = append(append([]Problem{}, cellProblems(src.Problems())...), rep.Problems...)
 	return rep
 }
 
-// finishClaims adjusts the claims' p within each study, decides their
-// outcomes and, when asked, writes their methods paragraphs (which the CSV
-// and JSON reports do not carry). The adjusted p are computed only when the
-// outcome uses them or showAdjusted says the report shows them.
-func finishClaims(claims []ClaimResult, opts Options, methods, showAdjusted bool) {
-	if showAdjusted || opts.Adjust == AdjustHolm || opts.Adjust == AdjustBH {
-		adjustWithinStudies(claims)
-	}
+// finishClaims adjusts the claims' p within their study (one family),
+// decides their outcomes and writes their methods paragraphs.
+func finishClaims(claims []ClaimResult, opts Options) {
+	adjustFamily(claims)
 	for i := range claims {
 		claims[i].settle(opts.Adjust)
-		if methods {
-			claims[i].Methods = methodsText(&claims[i])
-		}
+		claims[i].Methods = methodsText(&claims[i])
 	}
 }
 
@@ -102,20 +76,10 @@ func newAuditor(in *extract.Input) *auditor {
 	return a
 }
 
-// load makes the auditor look up in's coefficients, emptying and reusing
-// its maps.
+// load makes the auditor look up in's coefficients.
 func (a *auditor) load(in *extract.Input) {
-	a.pair = nil
-	if a.coef == nil {
-		a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[modelKey]int{}
-		a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
-	} else {
-		clear(a.coef)
-		clear(a.duplicated)
-		clear(a.modelSize)
-		clear(a.conflicts)
-		clear(a.modelPredictors)
-	}
+	a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[modelKey]int{}
+	a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
 	a.corr = nil
 	if len(in.Correlations) > 0 || len(in.Tables) > 0 {
 		a.corr = correlationSources(in)
@@ -143,162 +107,29 @@ func (a *auditor) load(in *extract.Input) {
 	}
 }
 
-// loadPair makes the auditor look up the two coefficients of one paired
-// claim, first and second, without its maps: a streamed audit does this a
-// million times. It answers every lookup as load would for the rows of
-// pairRun, which the caller sets to the claim's study run.
-func (a *auditor) loadPair(first, second *extract.Coefficient) {
-	a.pair = a.pairBuf[:0]
-	a.pair = append(a.pair, first, second)
-	a.pairDuplicated = coefKey{first.Study, first.Label} == coefKey{second.Study, second.Label}
-	a.corr = nil
-	for i, c := range a.pair {
-		a.pairConflicts[i] = nil
-		if len(c.Problems) == 0 {
-			a.pairConflicts[i] = consistencyProblems(c)
-		}
-	}
-}
-
-// kept lists the coefficients lookups can return: every one but the
-// repeats of a label.
-func (a *auditor) keptPair() []*extract.Coefficient {
-	if a.pairDuplicated {
-		return a.pair[:1]
-	}
-	return a.pair
-}
-
 // find returns the coefficient with key k, the first when it repeats.
 func (a *auditor) find(k coefKey) (*extract.Coefficient, bool) {
-	if a.pair == nil {
-		c, ok := a.coef[k]
-		return c, ok
-	}
-	for _, c := range a.keptPair() {
-		if (coefKey{c.Study, c.Label}) == k {
-			return c, true
-		}
-	}
-	return nil, false
+	c, ok := a.coef[k]
+	return c, ok
 }
 
-func (a *auditor) isDuplicated(k coefKey) bool {
-	if a.pair == nil {
-		return a.duplicated[k]
-	}
-	return a.pairDuplicated && (coefKey{a.pair[0].Study, a.pair[0].Label}) == k
-}
+func (a *auditor) isDuplicated(k coefKey) bool { return a.duplicated[k] }
 
 // modelSizeOf is the number of regression coefficients listed for c's
-// model: over the input, or for a paired claim over its study's rows
-// (pairRun), counted the first time a derived df asks.
+// model in the study.
 func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
 	if !extract.DerivesDFFromModelSize(c) {
 		return 0 // Reconstruct does not use it
 	}
-	if a.pair == nil {
-		return a.modelSize[modelOf(c)]
-	}
-	if len(a.pairRun) > 0 && a.sizesOf != &a.pairRun[0] {
-		a.pairSizes.count(a.pairRun)
-		a.sizesOf = &a.pairRun[0]
-	}
-	return a.pairSizes.of(modelOf(c))
-}
-
-// modelSizes counts the regression coefficients of each model over a run
-// of paired rows: in a list searched in order while the models are few (a
-// study fits a handful, and hashing three strings a row cost a fortieth of
-// a streamed audit), in a map past that.
-type modelSizes struct {
-	few  []modelCount
-	many map[modelKey]int
-}
-
-type modelCount struct {
-	model modelKey
-	n     int
-}
-
-// fewModels is the most models modelSizes lists before it turns to a map.
-const fewModels = 8
-
-// count counts the coefficients of rows, as load counts them: a
-// coefficient repeating its row's other label is not counted again.
-func (m *modelSizes) count(rows []extract.PairedClaim) {
-	m.few, m.many = m.few[:0], nil
-	for i := range rows {
-		pc := &rows[i]
-		for k, c := range []*extract.Coefficient{&pc.First, &pc.Second} {
-			if k == 1 && c.Study == pc.First.Study && c.Label == pc.First.Label {
-				continue
-			}
-			if extract.IsRegressionMeasure(c.Measure) {
-				m.add(modelOf(c))
-			}
-		}
-	}
-}
-
-func (m *modelSizes) add(k modelKey) {
-	if m.many != nil {
-		m.many[k]++
-		return
-	}
-	for i := range m.few {
-		if m.few[i].model == k {
-			m.few[i].n++
-			return
-		}
-	}
-	if len(m.few) < fewModels {
-		m.few = append(m.few, modelCount{k, 1})
-		return
-	}
-	m.many = make(map[modelKey]int, 2*fewModels)
-	for _, e := range m.few {
-		m.many[e.model] = e.n
-	}
-	m.many[k]++
-}
-
-// of returns the count of model k.
-func (m *modelSizes) of(k modelKey) int {
-	if m.many != nil {
-		return m.many[k]
-	}
-	for _, e := range m.few {
-		if e.model == k {
-			return e.n
-		}
-	}
-	return 0
+	return a.modelSize[modelOf(c)]
 }
 
 // conflictsOf lists the problems of c's printed numbers that contradict
 // each other.
-func (a *auditor) conflictsOf(c *extract.Coefficient) []Problem {
-	if a.pair == nil {
-		return a.conflicts[c]
-	}
-	for i, o := range a.pair {
-		if o == c {
-			return a.pairConflicts[i]
-		}
-	}
-	return nil
-}
+func (a *auditor) conflictsOf(c *extract.Coefficient) []Problem { return a.conflicts[c] }
 
-// predictorsOf lists a model's predictors in input order. A paired claim
-// has none listed: its input has no correlation table, which is all that
-// asks (to rebuild the model).
-func (a *auditor) predictorsOf(k modelKey) []string {
-	if a.pair != nil {
-		return nil
-	}
-	return a.modelPredictors[k]
-}
+// predictorsOf lists a model's predictors in input order.
+func (a *auditor) predictorsOf(k modelKey) []string { return a.modelPredictors[k] }
 
 // lookup finds a claim's coefficient by label in the claim's study, or in
 // another study when written "study:label" and no such label exists in the
@@ -334,33 +165,18 @@ func relationOf(c1, c2 *extract.Coefficient) string {
 
 // claim audits one claims row.
 func (a *auditor) claim(cl *extract.Claim) ClaimResult {
-	var r ClaimResult
-	a.claimInto(&r, cl)
-	return r
-}
-
-// claimInto is claim writing its result into r, overwritten whole but for
-// the backing array of r.Notes, which is reused: a streamed batch fills
-// the same results again for every batch, and the notes slice was one
-// allocation a claim.
-func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
-	notes := r.Notes[:0]
-	if notes == nil {
-		notes = make([]string, 0, 6)
-	}
-	// The notes of the result before are let go: each keeps a chunk of
-	// text alive, and a slot's stale notes would hold chunks of
-	// batches long written.
-	clear(notes[:cap(notes)])
-	if a.notes == nil {
-		a.notes = new(extract.TextChunks)
-	}
-	*r = ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Published: cl.Published,
+	r := ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Index: cl.Index, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
 		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
 		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
-		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: notes,
-		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan, notes: a.notes}
+		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: []string{},
+		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
+	a.audit(&r, cl)
+	return r
+}
+
+// audit fills in the claim's result.
+func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	if r.Alpha == 0 {
 		r.Alpha = extract.DefaultAlpha
 	}
@@ -400,9 +216,9 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 		r.Outcome = Incomplete
 		return
 	}
-	rc1, rc2 := &a.rebuilt[0], &a.rebuilt[1]
-	e1 := extract.ReconstructInto(rc1, c1, a.modelSizeOf(c1), a.notes)
-	e2 := extract.ReconstructInto(rc2, c2, a.modelSizeOf(c2), a.notes)
+	rebuilt1, e1 := extract.Reconstruct(c1, a.modelSizeOf(c1))
+	rebuilt2, e2 := extract.Reconstruct(c2, a.modelSizeOf(c2))
+	rc1, rc2 := &rebuilt1, &rebuilt2
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale
@@ -426,8 +242,6 @@ func (a *auditor) claimInto(r *ClaimResult, cl *extract.Claim) {
 	case extract.ScaleAsPrinted:
 	case extract.ScaleFisherZ:
 		r.Notes = append(r.Notes, "The two estimates and their SEs are shown on the Fisher z scale.")
-	case extract.ScaleLog: // a constant, so no allocation
-		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+extract.ScaleLog+" scale.")
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
@@ -507,10 +321,7 @@ func overlapOf(rc1, rc2 *extract.Reconstructed, r *ClaimResult) *OverlapResult {
 		return nil
 	}
 	if rc1.Level != rc2.Level {
-		var buf [128]byte
-		b := strconv.AppendFloat(append(buf[:0], "The two intervals have different levels ("...), 100*rc1.Level, 'g', -1, 64)
-		b = strconv.AppendFloat(append(b, "% and "...), 100*rc2.Level, 'g', -1, 64)
-		r.Notes = append(r.Notes, r.notes.String(append(b, "%), so their overlap is not read."...)))
+		r.Notes = append(r.Notes, fmt.Sprintf("The two intervals have different levels (%g%% and %g%%), so their overlap is not read.", 100*rc1.Level, 100*rc2.Level))
 		return nil
 	}
 	o, err := infer.CIOverlap(rc1.Estimate, rc1.CI[0], rc1.CI[1], rc2.Estimate, rc2.CI[0], rc2.CI[1], rc1.Level)
@@ -518,18 +329,6 @@ func overlapOf(rc1, rc2 *extract.Reconstructed, r *ClaimResult) *OverlapResult {
 		return nil
 	}
 	return &OverlapResult{Proportion: Number(o.Proportion), ImpliedP: Number(o.ImpliedP), marginRatio: o.MarginRatio}
-}
-
-// problems gathers every problem of the input: those the reader found, the
-// correlation tables no sample can have, and the coefficients whose printed
-// numbers contradict each other, in input order.
-func (a *auditor) problems(in *extract.Input) []Problem {
-	ps := collectProblems(in)
-	ps = append(ps, tableProblems(in)...)
-	for i := range in.Coefficients {
-		ps = append(ps, a.conflictsOf(&in.Coefficients[i])...)
-	}
-	return ps
 }
 
 func collectProblems(in *extract.Input) []Problem {
@@ -561,14 +360,6 @@ func cellProblems(errs []*extract.CellError) []Problem {
 		ps[i] = Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()}
 	}
 	return ps
-}
-
-func summarize(claims []ClaimResult) Summary {
-	s := Summary{Claims: len(claims), Counts: map[string]int{}}
-	for _, c := range claims {
-		s.Counts[c.Outcome]++
-	}
-	return s
 }
 
 func cellMessage(e *extract.CellError) string {

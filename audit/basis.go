@@ -73,7 +73,7 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) stri
 		}
 	}
 	b = append(b, "). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."...)
-	return r.notes.String(b)
+	return string(b)
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says
@@ -133,7 +133,7 @@ func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 		b = append(b, '.')
 	}
 	b = append(b, " The proper test of the difference decides the outcome."...)
-	return r.notes.String(b)
+	return string(b)
 }
 
 // publishedPNote compares the paper's p for the difference with the
@@ -147,7 +147,7 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 	var buf [512]byte
 	b := append(append(buf[:0], "The paper's p for the difference ("...), pp.Text...)
 	if hi >= pr.Lo && lo <= pr.Hi {
-		return r.notes.String(append(b, ") agrees with the recomputed one."...))
+		return string(append(b, ") agrees with the recomputed one."...))
 	}
 	b = appendP(append(b, ") disagrees with the recomputed "...), float64(r.P))
 	b = appendP(append(b, " (from "...), pr.Lo)
@@ -156,5 +156,5 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 	if hi >= pr.Lo/2 && lo <= pr.Hi/2 {
 		b = append(b, "; it matches a one-sided p, half the two-sided one"...)
 	}
-	return r.notes.String(append(b, '.'))
+	return string(append(b, '.'))
 }

@@ -121,7 +121,7 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 	case r.Relation == SameModel:
 		b = append(b, ", or the correlation table of the model's outcome and predictors with their SDs and n"...)
 	}
-	r.Notes = append(r.Notes, r.notes.String(append(b, " from the authors."...)))
+	r.Notes = append(r.Notes, string(append(b, " from the authors."...)))
 	if c1.Group == "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

@@ -7,67 +7,24 @@ import (
 	"coefaudit/infer"
 )
 
-// adjustWithinStudies adds Holm and Benjamini–Hochberg adjusted p-values to
-// every claim with a p, the family being the claims of one study.
-func adjustWithinStudies(claims []ClaimResult) {
-	if oneStudy(claims) {
-		// A streamed batch passes one study's run: no map is needed, and
-		// the indices stay on the stack for a paper's usual handful.
-		var buf [64]int
-		idx := buf[:0]
-		for i := range claims {
-			if adjustable(&claims[i]) {
-				idx = append(idx, i)
-			}
-		}
-		adjustFamily(claims, idx)
-		return
-	}
-	families := map[string][]int{}
-	var order []string
+// adjustFamily adds Holm and Benjamini–Hochberg adjusted p-values to every
+// claim of one study that has a p; the family is those claims.
+func adjustFamily(claims []ClaimResult) {
+	var idx []int
+	var p []float64
 	for i := range claims {
-		c := &claims[i]
-		if !adjustable(c) {
-			continue
-		}
-		if _, ok := families[c.Study]; !ok {
-			order = append(order, c.Study)
-		}
-		families[c.Study] = append(families[c.Study], i)
-	}
-	for _, study := range order {
-		adjustFamily(claims, families[study])
-	}
-}
-
-func oneStudy(claims []ClaimResult) bool {
-	for i := 1; i < len(claims); i++ {
-		if claims[i].Study != claims[0].Study {
-			return false
+		if c := &claims[i]; c.P.Known() && c.decided {
+			idx = append(idx, i)
+			p = append(p, float64(c.P))
 		}
 	}
-	return true
-}
-
-// adjustable says whether a claim takes part in its study's adjustment.
-func adjustable(c *ClaimResult) bool { return c.P.Known() && c.decided }
-
-// adjustFamily adjusts the p-values of claims[idx], one study's family.
-func adjustFamily(claims []ClaimResult, idx []int) {
 	if len(idx) == 0 {
 		return
 	}
-	var buf [64]float64
-	p := buf[:0]
-	for _, i := range idx {
-		p = append(p, float64(claims[i].P))
-	}
 	holm := infer.HolmAdjust(p)
 	bh := infer.BenjaminiHochbergAdjust(p)
-	adjusted := make([]AdjustedPValues, len(idx)) // one allocation per family
 	for k, i := range idx {
-		adjusted[k] = AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
-		claims[i].AdjustedP = &adjusted[k]
+		claims[i].AdjustedP = &AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
 		claims[i].family = len(idx)
 	}
 }

@@ -4,8 +4,6 @@ import (
 	"encoding/json"
 	"math"
 	"strconv"
-
-	"coefaudit/extract"
 )
 
 // Outcomes of a claim, as defined in the output contract.
@@ -72,9 +70,11 @@ type Alternative struct {
 
 // ClaimResult is the audit of one claims row.
 type ClaimResult struct {
-	Study        string         `json:"study"`
-	Claim        string         `json:"claim"`
-	Row          int            `json:"row"`
+	Study string `json:"study"`
+	Claim string `json:"claim"`
+	Row   int    `json:"row"`
+	// Index is the claim's place among the input's claims rows, from 0.
+	Index        int            `json:"-"`
 	First        Side           `json:"first"`
 	Second       Side           `json:"second"`
 	Relation     string         `json:"relation"`
@@ -127,9 +127,6 @@ type ClaimResult struct {
 	conflict bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
-	// notes holds the text of the notes built for the claim (nil: plain
-	// strings).
-	notes *extract.TextChunks
 }
 
 // AdjustedPValues are a claim's p adjusted for multiplicity over the claims

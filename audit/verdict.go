@@ -154,7 +154,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 		b = appendP(append(b, " to "...), pr.Hi)
 		b = append(append(append(b, ", on both sides of α = "...), formatAlpha(r.Alpha)...),
 			": whether the verdict stands turns on what the paper did not print."...)
-		r.Notes = append(r.Notes, r.notes.String(b))
+		r.Notes = append(r.Notes, string(b))
 	}
 }
 
@@ -207,7 +207,7 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 	default:
 		b = append(r.appendTestResult(b, pr), '.')
 	}
-	return r.notes.String(b)
+	return string(b)
 }
 
 // appendTestResult appends what the test of the difference gives: p, the

@@ -40,7 +40,8 @@ func tenThousandClaims() *Report {
 			rep.Claims = append(rep.Claims, c)
 		}
 	}
-	rep.Summary = summarize(rep.Claims)
+	rep.Summary = Summary{}
+	rep.Summary.Add(rep.Claims)
 	return rep
 }
 

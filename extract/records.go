@@ -166,6 +166,10 @@ type Coefficient struct {
 // coefficients of a study.
 type Claim struct {
 	Position
+	// Index is the claim's place among the input's claims rows, from 0, in
+	// input order: reports keep that order whatever order studies are
+	// audited in.
+	Index int
 
 	Study, Claim  string
 	First, Second string

@@ -183,9 +183,6 @@ by study first.`,
 // runReport audits input and writes the report; shown names the input in
 // the report (the demo shows its embedded name, not a temporary path).
 func runReport(cmd *cobra.Command, input, shown string, o reportOptions) error {
-	if (o.format == "csv" || o.format == "json") && audit.IsPairedCSV(input) {
-		return runStream(cmd, input, o)
-	}
 	phase, stop := showPhases(cmd.ErrOrStderr(), "coefaudit: reading, auditing, writing")
 	defer stop()
 	in, err := extract.Read(input)
@@ -193,7 +190,10 @@ func runReport(cmd *cobra.Command, input, shown string, o reportOptions) error {
 		return err
 	}
 	phase(1)
-	rep := audit.Audit(in, audit.Options{Adjust: o.adjust})
+	rep, err := audit.Check(input, audit.Options{Adjust: o.adjust})
+	if err != nil {
+		return err
+	}
 	rep.Source = shown
 	t, err := output.Open(cmd.OutOrStdout(), o.out, input)
 	if err != nil {
@@ -212,33 +212,6 @@ func runReport(cmd *cobra.Command, input, shown string, o reportOptions) error {
 	}
 	if flagged(rep, o.failOn) {
 		return errFlagged
-	}
-	return nil
-}
-
-// runStream audits a paired CSV as a stream, in memory that does not grow
-// with the number of claims.
-func runStream(cmd *cobra.Command, input string, o reportOptions) error {
-	t, err := output.Open(cmd.OutOrStdout(), o.out, input)
-	if err != nil {
-		return flagError{err}
-	}
-	var sink audit.ClaimSink = audit.NewCSVSink(t)
-	if o.format == "json" {
-		sink = audit.NewJSONSink(t)
-	}
-	sum, err := audit.StreamPaired(input, audit.Options{Adjust: o.adjust}, sink)
-	if err != nil {
-		t.Abort()
-		return err
-	}
-	if err := t.Close(); err != nil {
-		return err
-	}
-	for _, f := range o.failOn {
-		if sum.Counts[f] > 0 {
-			return errFlagged
-		}
 	}
 	return nil
 }

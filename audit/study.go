@@ -1,0 +1,53 @@
+package audit
+
+import (
+	"coefaudit/extract"
+)
+
+// StudyResult is the audit of one study: its claims in input order and the
+// problems of its rows (unreadable cells, printed numbers that contradict
+// each other, correlation tables no sample can have).
+type StudyResult struct {
+	Study    string
+	Claims   []ClaimResult
+	Problems []Problem
+}
+
+// AuditStudy audits every claim of one study and decides the outcomes. The
+// study's claims are one family: the Holm and Benjamini–Hochberg adjusted p
+// are computed over them, and opts.Adjust says whether the outcomes use
+// them. It never fails: a claim that cannot be tested is incomplete, with
+// notes saying why. It reads and writes nothing.
+func AuditStudy(st *extract.Study, opts Options) StudyResult {
+	in := &extract.Input{
+		Coefficients: append(append([]extract.Coefficient(nil), st.Coefficients...), st.Borrowed...),
+		Claims:       st.Claims,
+		Correlations: st.Correlations,
+		Tables:       st.Tables,
+	}
+	a := newAuditor(in)
+	res := StudyResult{Study: st.Name, Claims: make([]ClaimResult, 0, len(st.Claims))}
+	for i := range st.Claims {
+		res.Claims = append(res.Claims, a.claim(&st.Claims[i]))
+	}
+	finishClaims(res.Claims, opts)
+	res.Problems = append(res.Problems, cellProblems(st.Problems)...)
+	own := &extract.Input{Coefficients: st.Coefficients, Claims: st.Claims, Correlations: st.Correlations, Tables: st.Tables}
+	res.Problems = append(res.Problems, collectProblems(own)...)
+	res.Problems = append(res.Problems, tableProblems(own)...)
+	for i := range in.Coefficients[:len(st.Coefficients)] {
+		res.Problems = append(res.Problems, a.conflictsOf(&in.Coefficients[i])...)
+	}
+	return res
+}
+
+// Add counts the outcomes of claims into the summary.
+func (s *Summary) Add(claims []ClaimResult) {
+	if s.Counts == nil {
+		s.Counts = map[string]int{}
+	}
+	s.Claims += len(claims)
+	for i := range claims {
+		s.Counts[claims[i].Outcome]++
+	}
+}
