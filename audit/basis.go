@@ -1,8 +1,9 @@
 package audit
 
 import (
+	"fmt"
 	"math"
-	"strconv"
+	"strings"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -48,32 +49,23 @@ func dfOrInf(df float64) float64 {
 }
 
 func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
-	// Appended into one buffer: the note can be written for every claim.
-	var buf [512]byte
-	b := append(buf[:0], "The paper's verdict rests on one estimate being significant and the other not (here "...)
-	for i, rc := range [2]*extract.Reconstructed{rc1, rc2} {
-		if i > 0 {
-			b = append(b, "; "...)
-		}
-		b = append(append(b, rc.Label...), ": "...)
+	var own []string
+	for _, rc := range [2]*extract.Reconstructed{rc1, rc2} {
 		switch p, below := ownP(rc); {
+		case below && p <= r.Alpha:
+			own = append(own, fmt.Sprintf("%s: p < %g, significant", rc.Label, p))
 		case below:
-			b = strconv.AppendFloat(append(b, "p < "...), p, 'g', -1, 64)
-			if p <= r.Alpha {
-				b = append(b, ", significant"...)
-			} else {
-				b = append(b, ", not known whether significant"...)
-			}
+			own = append(own, fmt.Sprintf("%s: p < %g, not known whether significant", rc.Label, p))
 		case math.IsNaN(p):
-			b = append(b, "own p not known"...)
+			own = append(own, rc.Label+": own p not known")
 		case p < r.Alpha:
-			b = append(appendPStatement(b, p), ", significant"...)
+			own = append(own, rc.Label+": "+pStatement(p)+", significant")
 		default:
-			b = append(appendPStatement(b, p), ", not significant"...)
+			own = append(own, rc.Label+": "+pStatement(p)+", not significant")
 		}
 	}
-	b = append(b, "). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."...)
-	return string(b)
+	return "The paper's verdict rests on one estimate being significant and the other not (here " + strings.Join(own, "; ") +
+		"). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says
@@ -91,49 +83,27 @@ func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 	case float64(o.Proportion) <= 0.5:
 		rule = "a difference at p ≤ .05 (an overlap of at most half the mean margin of error)"
 	}
-	// Appended into one buffer, as the note can be written for every claim.
-	var buf [1024]byte
-	b := append(buf[:0], "The paper read the overlap of the two intervals. The proportion overlap is "...)
-	b = strconv.AppendFloat(b, float64(o.Proportion), 'f', 2, 64)
-	b = append(b, " of the mean margin of error, which implies p ≈ "...)
-	b = appendP(b, float64(o.ImpliedP))
-	b = append(b, " for independent estimates; the rule of eye (Cumming & Finch 2005) says "...)
-	b = append(append(b, rule...), ". "...)
-	conditions := len(b)
-	unmet := func() {
-		if len(b) == conditions {
-			b = append(b, "The rule's conditions do not all hold: "...)
-		} else {
-			b = append(b, "; "...)
-		}
-	}
+	var unmet []string
 	if r.Relation != Independent {
-		unmet()
-		b = append(b, "the estimates come from one sample, so the rule does not apply at all"...)
+		unmet = append(unmet, "the estimates come from one sample, so the rule does not apply at all")
 	}
 	for _, rc := range [2]*extract.Reconstructed{rc1, rc2} {
 		switch {
 		case math.IsNaN(rc.N):
-			unmet()
-			b = append(append(append(b, "n of "...), rc.Label...), " is not printed, so n ≥ 10 cannot be checked"...)
+			unmet = append(unmet, "n of "+rc.Label+" is not printed, so n ≥ 10 cannot be checked")
 		case rc.N < 10:
-			unmet()
-			b = append(append(append(b, "n of "...), rc.Label...), " is "...)
-			b = append(strconv.AppendFloat(b, rc.N, 'g', -1, 64), ", below 10"...)
+			unmet = append(unmet, fmt.Sprintf("n of %s is %g, below 10", rc.Label, rc.N))
 		}
 	}
 	if o.marginRatio > 2 {
-		unmet()
-		b = append(b, "the margins of error differ by a factor of "...)
-		b = append(strconv.AppendFloat(b, o.marginRatio, 'f', 2, 64), ", more than 2"...)
+		unmet = append(unmet, fmt.Sprintf("the margins of error differ by a factor of %.2f, more than 2", o.marginRatio))
 	}
-	if len(b) == conditions {
-		b = append(b, "The rule's conditions hold (independent estimates, n ≥ 10 each, margins within a factor of 2)."...)
-	} else {
-		b = append(b, '.')
+	conditions := "The rule's conditions hold (independent estimates, n ≥ 10 each, margins within a factor of 2)."
+	if len(unmet) > 0 {
+		conditions = "The rule's conditions do not all hold: " + strings.Join(unmet, "; ") + "."
 	}
-	b = append(b, " The proper test of the difference decides the outcome."...)
-	return string(b)
+	return fmt.Sprintf("The paper read the overlap of the two intervals. The proportion overlap is %.2f of the mean margin of error, which implies p ≈ %s for independent estimates; the rule of eye (Cumming & Finch 2005) says %s. %s The proper test of the difference decides the outcome.",
+		float64(o.Proportion), formatP(float64(o.ImpliedP)), rule, conditions)
 }
 
 // publishedPNote compares the paper's p for the difference with the
@@ -144,17 +114,13 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 	if !r.PRange[0].Known() {
 		pr = infer.Point(float64(r.P))
 	}
-	var buf [512]byte
-	b := append(append(buf[:0], "The paper's p for the difference ("...), pp.Text...)
 	if hi >= pr.Lo && lo <= pr.Hi {
-		return string(append(b, ") agrees with the recomputed one."...))
+		return "The paper's p for the difference (" + pp.Text + ") agrees with the recomputed one."
 	}
-	b = appendP(append(b, ") disagrees with the recomputed "...), float64(r.P))
-	b = appendP(append(b, " (from "...), pr.Lo)
-	b = appendP(append(b, " to "...), pr.Hi)
-	b = append(b, " within rounding)"...)
+	oneSided := ""
 	if hi >= pr.Lo/2 && lo <= pr.Hi/2 {
-		b = append(b, "; it matches a one-sided p, half the two-sided one"...)
+		oneSided = "; it matches a one-sided p, half the two-sided one"
 	}
-	return string(append(b, '.'))
+	return fmt.Sprintf("The paper's p for the difference (%s) disagrees with the recomputed %s (from %s to %s within rounding)%s.",
+		pp.Text, formatP(float64(r.P)), formatP(pr.Lo), formatP(pr.Hi), oneSided)
 }

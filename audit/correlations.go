@@ -54,9 +54,7 @@ func setCorrelationComparison(r *ClaimResult, cmp correlation.Comparison) {
 		pool(alt)
 		r.Alternatives = append(r.Alternatives, Alternative{Method: alt.Method, Statistic: Number(alt.Stat), P: Number(alt.P)})
 	}
-	var buf [192]byte
-	b := append(append(buf[:0], "The test ("...), cmp.Primary.Method...)
-	r.Notes = append(r.Notes, string(append(b, ") is built on the correlations as printed; the difference r1 − r2 and its interval (Zou 2007) are on the correlation scale."...)))
+	r.Notes = append(r.Notes, "The test ("+cmp.Primary.Method+") is built on the correlations as printed; the difference r1 − r2 and its interval (Zou 2007) are on the correlation scale.")
 	for _, w := range cmp.Primary.Warnings {
 		r.Notes = append(r.Notes, capitalize(w)+".")
 	}

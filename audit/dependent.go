@@ -1,8 +1,8 @@
 package audit
 
 import (
+	"fmt"
 	"math"
-	"strconv"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -19,10 +19,7 @@ const undetermined = "undetermined"
 // estimates (estimate_corr); and otherwise the range over every admissible
 // correlation.
 func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
-	var src *corrSource
-	if len(a.corr) > 0 { // a paired row has no correlation table; its key would cost an allocation
-		src = a.corr[sampleKey(c1.Study, c1.Group)]
-	}
+	src := a.corr[sampleKey(c1.Study, c1.Group)]
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
 			return
@@ -109,19 +106,16 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
 	gap := seGap(rc1.SERange, rc2.SERange)
 	ser := infer.Range{Lo: gap, Hi: rc1.SERange.Hi + rc2.SERange.Hi}
-	// Appended into one buffer: the note is written for every such claim.
-	var buf [640]byte
-	b := append(buf[:0], "Both estimates come from one sample (study "...)
-	b = strconv.AppendQuote(b, c1.Study)
-	b = strconv.AppendQuote(append(b, ", group "...), c1.Group)
-	b = append(b, ") and the paper printed nothing that gives their covariance, so p is taken over every admissible correlation of the two estimates, from −1 to 1. To settle the claim the reader would need the sampling correlation (or covariance) of the two estimates"...)
+	// Said briefly: a literature of same-sample claims carries it on
+	// every row.
+	need := "their sampling correlation"
 	switch {
 	case r.Measure == extract.MeasureR:
-		b = append(b, ", or the correlations between all the variables involved with n"...)
+		need += ", or all the correlations among the variables with n"
 	case r.Relation == SameModel:
-		b = append(b, ", or the correlation table of the model's outcome and predictors with their SDs and n"...)
+		need += ", or the correlation table of the model's variables with SDs and n"
 	}
-	r.Notes = append(r.Notes, string(append(b, " from the authors."...)))
+	r.Notes = append(r.Notes, fmt.Sprintf("One sample (study %q, group %q), covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s would settle it.", c1.Study, c1.Group, need))
 	if c1.Group == "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

@@ -91,7 +91,7 @@ func appendCSVNumber(dst []byte, n Number) []byte {
 	if !n.Known() {
 		return dst
 	}
-	return appendSignificant(dst, float64(n), 10)
+	return strconv.AppendFloat(dst, float64(n), 'g', 10, 64)
 }
 
 // appendCSVClaim appends one claim's CSV row and its line end, with the

@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"fmt"
 	"math"
 	"strconv"
 
@@ -149,12 +150,8 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		var buf [256]byte
-		b := appendP(append(append(buf[:0], dc.how.phrase()...), " ranges from "...), pr.Lo)
-		b = appendP(append(b, " to "...), pr.Hi)
-		b = append(append(append(b, ", on both sides of α = "...), formatAlpha(r.Alpha)...),
-			": whether the verdict stands turns on what the paper did not print."...)
-		r.Notes = append(r.Notes, string(b))
+		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
+			dc.how.phrase(), formatP(pr.Lo), formatP(pr.Hi), formatAlpha(r.Alpha)))
 	}
 }
 
@@ -181,57 +178,34 @@ func (s *outcomeSet) add(o string) {
 }
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
-	// Built by appending into a buffer on the stack: the note is written
-	// for every claim, and a million claims make fmt's cost visible.
-	var buf [320]byte
-	b := buf[:0]
+	test := r.testResult(pr)
+	alpha := formatAlpha(r.Alpha)
 	switch r.Outcome {
 	case Consistent:
-		b = append(r.appendTestResult(append(b, "The verdict stands: "...), pr), '.')
+		return "The verdict stands: " + test + "."
 	case Unsupported:
-		b = r.appendTestResult(append(b, "The paper reports a difference, but "...), pr)
-		b = append(append(b, ", not below α = "...), formatAlpha(r.Alpha)...)
-		b = append(b, ": the printed numbers do not show one."...)
+		return "The paper reports a difference, but " + test + ", not below α = " + alpha + ": the printed numbers do not show one."
 	case Missed:
-		b = r.appendTestResult(append(b, "The paper reports no difference, but "...), pr)
-		b = append(append(append(b, ", below α = "...), formatAlpha(r.Alpha)...), '.')
+		return "The paper reports no difference, but " + test + ", below α = " + alpha + "."
 	case Reversed:
-		b = append(append(append(b, "The paper says the "...), larger(r.Published)...),
-			" estimate is the larger, but the estimates point the other way: "...)
-		b = append(r.appendTestResult(b, pr), '.')
+		return "The paper says the " + larger(r.Published) + " estimate is the larger, but the estimates point the other way: " + test + "."
 	case Indeterminate:
-		b = append(r.appendTestResult(append(b, "The verdict cannot be decided: "...), pr), '.')
+		return "The verdict cannot be decided: " + test + "."
 	case Conflict:
-		b = r.appendTestResult(append(b, "Taking the printed numbers at face value, "...), pr)
-		b = append(b, "; but they contradict each other, so the verdict cannot be checked as printed."...)
-	default:
-		b = append(r.appendTestResult(b, pr), '.')
+		return "Taking the printed numbers at face value, " + test + "; but they contradict each other, so the verdict cannot be checked as printed."
 	}
-	return string(b)
+	return capitalize(test) + "."
 }
 
-// appendTestResult appends what the test of the difference gives: p, the
-// difference and its interval, or the range of p when there is no point p.
-func (r *ClaimResult) appendTestResult(b []byte, pr infer.Range) []byte {
+// testResult says what the test of the difference gives: p, the difference
+// and its interval, or the range of p when there is no point p.
+func (r *ClaimResult) testResult(pr infer.Range) string {
 	if r.P.Known() {
-		b = append(b, "the test of the difference gives "...)
-		b = appendPStatement(b, float64(r.P))
-		b = append(b, " (difference "...)
-		b = appendNum(b, float64(r.Difference))
-		b = append(b, ", "...)
-		b = appendLevel(b, r.Alpha)
-		b = append(b, "% CI "...)
-		b = appendNum(b, float64(r.DifferenceCI[0]))
-		b = append(b, " to "...)
-		b = appendNum(b, float64(r.DifferenceCI[1]))
-		return append(b, ')')
+		return fmt.Sprintf("the test of the difference gives %s (difference %s, %s%% CI %s to %s)",
+			pStatement(float64(r.P)), formatNum(float64(r.Difference)), formatLevel(r.Alpha),
+			formatNum(float64(r.DifferenceCI[0])), formatNum(float64(r.DifferenceCI[1])))
 	}
-	b = append(b, "the difference "...)
-	b = appendNum(b, float64(r.Difference))
-	b = append(b, " has p from "...)
-	b = appendP(b, pr.Lo)
-	b = append(b, " to "...)
-	return appendP(b, pr.Hi)
+	return fmt.Sprintf("the difference %s has p from %s to %s", formatNum(float64(r.Difference)), formatP(pr.Lo), formatP(pr.Hi))
 }
 
 func larger(published string) string {
@@ -241,80 +215,41 @@ func larger(published string) string {
 	return "first"
 }
 
-// formatNum writes a number with four significant digits.
+// formatNum writes a number with four significant digits, as the notes
+// print estimates.
 func formatNum(x float64) string {
-	var buf [32]byte // one allocation, the string's
-	return string(appendNum(buf[:0], x))
+	switch {
+	case math.IsNaN(x):
+		return "NA"
+	case math.IsInf(x, 1):
+		return "∞"
+	case math.IsInf(x, -1):
+		return "−∞"
+	}
+	return strconv.FormatFloat(x, 'g', 4, 64)
 }
 
-func appendNum(b []byte, x float64) []byte {
-	if math.IsNaN(x) {
-		return append(b, "NA"...)
-	}
-	if math.IsInf(x, 0) {
-		if x > 0 {
-			return append(b, "∞"...)
-		}
-		return append(b, "−∞"...)
-	}
-	return appendSignificant(b, x, 4)
-}
-
-// formatP writes a p-value the way reports print them: three decimals,
-// "< 0.001" below that, and two significant digits in the far tail when
-// asked for exactly by pStatement.
+// formatP writes a p-value the way reports print them: three decimals, and
+// "< 0.001" below that.
 func formatP(p float64) string {
-	var buf [32]byte
-	return string(appendP(buf[:0], p))
-}
-
-func appendP(b []byte, p float64) []byte {
 	switch {
 	case math.IsNaN(p):
-		return append(b, "NA"...)
+		return "NA"
 	case p < 0.001:
-		return append(b, "< 0.001"...)
+		return "< 0.001"
 	}
-	return appendThreeDecimals(b, p)
+	return strconv.FormatFloat(p, 'f', 3, 64)
 }
 
+// pStatement writes "p = 0.043" or "p < 0.001".
 func pStatement(p float64) string {
-	var buf [32]byte
-	return string(appendPStatement(buf[:0], p))
-}
-
-func appendPStatement(b []byte, p float64) []byte {
 	if p < 0.001 {
-		b = append(b, "p "...)
-	} else {
-		b = append(b, "p = "...)
+		return "p " + formatP(p)
 	}
-	return appendP(b, p)
+	return "p = " + formatP(p)
 }
 
-func formatAlpha(a float64) string {
-	if a == extract.DefaultAlpha {
-		return defaultAlphaText
-	}
-	return strconv.FormatFloat(a, 'g', -1, 64)
-}
+func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
 
-// The default α and its confidence level as the notes print them, made
-// once: nearly every claim's notes print one of them. The level is formed
-// from a variable, in float64 as appendLevel forms it, not by Go's exact
-// constant arithmetic.
-var (
-	defaultAlphaText = strconv.FormatFloat(extract.DefaultAlpha, 'g', -1, 64)
-	defaultLevelText = func() string {
-		alpha := extract.DefaultAlpha
-		return strconv.FormatFloat(100*(1-alpha), 'g', -1, 64)
-	}()
-)
-
-// appendLevel appends the confidence level 100(1 − α) as %g prints it.
-func appendLevel(b []byte, alpha float64) []byte {
-	if alpha == extract.DefaultAlpha {
-		return append(b, defaultLevelText...)
-	}
-	return strconv.AppendFloat(b, 100*(1-alpha), 'g', -1, 64)
-}
+// formatLevel writes the confidence level 100(1 − α).
+func formatLevel(alpha float64) string { return strconv.FormatFloat(100*(1-alpha), 'g', -1, 64) }
