@@ -41,22 +41,49 @@ import (
 //	[2] Shafranovich Y (2005). Common Format and MIME Type for
 //	    Comma-Separated Values (CSV) Files. RFC 4180.
 func Read(path string) (*Input, error) {
-	fi, err := os.Stat(path)
+	f, err := formOf(path)
 	if err != nil {
 		return nil, err
 	}
-	if fi.IsDir() {
+	switch f {
+	case formFolder:
 		return readFolder(path)
-	}
-	zipLike, err := isZipFile(path)
-	if err != nil {
-		return nil, err
-	}
-	lower := strings.ToLower(path)
-	if zipLike || strings.HasSuffix(lower, ".xlsx") || strings.HasSuffix(lower, ".xlsm") || strings.HasSuffix(lower, ".xls") {
+	case formWorkbook:
 		return readWorkbook(path)
 	}
 	return readPairedFile(path)
+}
+
+// form is the form of an input.
+type form int
+
+const (
+	formWorkbook form = iota
+	formFolder
+	formPaired
+)
+
+// formOf decides the form of an input, the one place that does: a folder
+// is a folder of CSV files; a file is a workbook when it is a zip archive
+// (recognized by its content) or named .xlsx, .xlsm or .xls, and a paired
+// CSV otherwise.
+func formOf(path string) (form, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return 0, err
+	}
+	if fi.IsDir() {
+		return formFolder, nil
+	}
+	zipLike, err := isZipFile(path)
+	if err != nil {
+		return 0, err
+	}
+	lower := strings.ToLower(path)
+	if zipLike || strings.HasSuffix(lower, ".xlsx") || strings.HasSuffix(lower, ".xlsm") || strings.HasSuffix(lower, ".xls") {
+		return formWorkbook, nil
+	}
+	return formPaired, nil
 }
 
 // readWorkbook reads the sheets of a workbook.

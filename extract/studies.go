@@ -67,19 +67,12 @@ type Source struct {
 // and once to yield each study as soon as its last row is read, so that
 // memory holds the studies whose rows are still open, not the file.
 func Open(path string) (*Source, error) {
-	fi, err := os.Stat(path)
+	f, err := formOf(path)
 	if err != nil {
 		return nil, err
 	}
-	if !fi.IsDir() {
-		zipLike, err := isZipFile(path)
-		if err != nil {
-			return nil, err
-		}
-		lower := strings.ToLower(path)
-		if !zipLike && !strings.HasSuffix(lower, ".xlsx") && !strings.HasSuffix(lower, ".xlsm") && !strings.HasSuffix(lower, ".xls") {
-			return openPaired(path)
-		}
+	if f == formPaired {
+		return openPaired(path)
 	}
 	in, err := Read(path)
 	if err != nil {
