@@ -1,0 +1,80 @@
+package audit
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"coefaudit/extract"
+)
+
+// runFile audits a file through extract.Open and Run, as every report does.
+func runFile(t *testing.T, text string, opts Options) ([]StudyResult, Summary) {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "paired.csv")
+	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	src, err := extract.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer src.Close()
+	var runs []StudyResult
+	sum, err := Run(src.Studies(), opts, func(r StudyResult) error {
+		runs = append(runs, r)
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return runs, sum
+}
+
+// TestRunInterleavedStudyIsOneFamily: the rows of study A stand apart, with
+// B's between them. A's two claims are still one family of the Holm
+// adjustment (each p doubled at most), the results come in input order,
+// and the outcomes are those of the same rows written study by study.
+//
+// The two p are those of independent z tests: (0.5 − 0.2)/√0.02 = 2.121,
+// p = 0.0339, and (0.45 − 0.2)/√0.02 = 1.768, p = 0.0771; Holm (1979)
+// multiplies the smaller by 2 (0.0678) and keeps the larger (0.0771), so
+// neither difference stands at α = 0.05 once adjusted.
+func TestRunInterleavedStudyIsOneFamily(t *testing.T) {
+	const header = "study,claim,published,first_group,first_estimate,first_se,second_group,second_estimate,second_se\n"
+	a1 := "A,a1,differ,girls,0.500,0.100,boys,0.200,0.100\n"
+	a2 := "A,a2,differ,girls,0.450,0.100,boys,0.200,0.100\n"
+	b1 := "B,b1,differ,girls,0.900,0.100,boys,0.200,0.100\n"
+	interleaved, _ := runFile(t, header+a1+b1+a2, Options{Adjust: AdjustHolm})
+	together, _ := runFile(t, header+a1+a2+b1, Options{Adjust: AdjustHolm})
+
+	var order []string
+	got := map[string]ClaimResult{}
+	for _, run := range interleaved {
+		for _, c := range run.Claims {
+			order = append(order, c.Claim)
+			got[c.Claim] = c
+		}
+	}
+	if strings.Join(order, ",") != "a1,b1,a2" {
+		t.Errorf("claims came as %v, want input order a1,b1,a2", order)
+	}
+	for _, run := range together {
+		for _, want := range run.Claims {
+			c := got[want.Claim]
+			if c.Outcome != want.Outcome || c.AdjustedP == nil || want.AdjustedP == nil || c.AdjustedP.Holm != want.AdjustedP.Holm {
+				t.Errorf("claim %s: interleaved %s (Holm %v), together %s (Holm %v)", want.Claim, c.Outcome, c.AdjustedP, want.Outcome, want.AdjustedP)
+			}
+		}
+	}
+	a := got["a1"]
+	if a.AdjustedP == nil {
+		t.Fatalf("a1 has no adjusted p: %+v", a)
+	}
+	if a.family != 2 || a.Outcome != Unsupported || !near(float64(a.AdjustedP.Holm), 2*float64(a.P), 1e-12) || !near(float64(a.P), 0.0339, 5e-4) {
+		t.Errorf("a1: family %d, p %v, Holm %v, outcome %s; want family 2, p 0.0339, Holm 2p, unsupported", a.family, a.P, a.AdjustedP.Holm, a.Outcome)
+	}
+}
+
+func near(a, b, tol float64) bool { return a-b <= tol && b-a <= tol }
