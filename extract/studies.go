@@ -303,12 +303,15 @@ func openPaired(path string) (*Source, error) {
 			yield(nil, err)
 			return
 		}
-		left := make(map[string]int, len(counts))
+		// counts is spent as rows are read (the sequence is ranged once);
+		// long studies keep their totals for the problem of each block.
+		long := map[string]int{}
 		for k, n := range counts {
-			left[k] = n
+			if n > MaxFamily {
+				long[k] = n
+			}
 		}
 		open := map[string]*Study{}
-		blocks := map[string]int{}
 		for index := 0; ; index++ {
 			pc, err := pr.Next()
 			if errors.Is(err, io.EOF) {
@@ -322,20 +325,21 @@ func openPaired(path string) (*Source, error) {
 			name := pc.Claim.Study
 			st := open[name]
 			if st == nil {
-				st = &Study{Name: name}
+				// Sized from the first pass: a study's rows are copied once.
+				n := min(max(counts[name], 1), MaxFamily)
+				st = &Study{Name: name, Claims: make([]Claim, 0, n), Coefficients: make([]Coefficient, 0, 2*n)}
 				open[name] = st
 			}
 			st.Claims = append(st.Claims, pc.Claim)
 			st.Coefficients = append(st.Coefficients, pc.First, pc.Second)
-			left[name]--
-			if left[name] > 0 && len(st.Claims) < MaxFamily {
+			counts[name]--
+			if counts[name] > 0 && len(st.Claims) < MaxFamily {
 				continue
 			}
 			delete(open, name)
-			if blocks[name] > 0 {
-				st.Problems = append(st.Problems, familyProblem(st.Claims[0], counts[name]))
+			if total, ok := long[name]; ok && total-counts[name] > MaxFamily {
+				st.Problems = append(st.Problems, familyProblem(st.Claims[0], total))
 			}
-			blocks[name]++
 			checkDuplicateClaims(st.Claims)
 			if !yield(st, nil) {
 				return
@@ -354,7 +358,8 @@ func openPaired(path string) (*Source, error) {
 }
 
 // countPaired is the first pass over a paired CSV: the claims rows of each
-// study, the claims' unknown columns and the header's problems.
+// study, the claims' unknown columns and the header's problems. It reads
+// the study cell of each row and parses nothing else.
 func countPaired(path string) (map[string]int, []string, []*CellError, error) {
 	f, err := os.Open(path)
 	if err != nil {
@@ -366,19 +371,30 @@ func countPaired(path string) (map[string]int, []string, []*CellError, error) {
 		return nil, nil, nil, err
 	}
 	counts := map[string]int{}
-	var extra []string
 	for {
-		pc, err := pr.Next()
+		study, err := pr.nextStudy()
 		if errors.Is(err, io.EOF) {
 			break
 		}
 		if err != nil {
 			return nil, nil, nil, err
 		}
-		if extra == nil && len(pc.Claim.Extra.Names) > 0 {
-			extra = append([]string(nil), pc.Claim.Extra.Names...)
-		}
-		counts[pc.Claim.Study]++
+		counts[study]++
 	}
-	return counts, extra, pr.Problems(), nil
+	return counts, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
+}
+
+// nextStudy skips to the next non-blank row and returns its study, as Next
+// would read it.
+func (p *PairedReader) nextStudy() (string, error) {
+	for {
+		if err := p.src.Next(&p.row); err != nil {
+			return "", err
+		}
+		if !p.row.blank() {
+			break
+		}
+	}
+	p.rr.start(p.cols, &p.row, Position{File: p.name})
+	return p.rr.text(p.claim.study), nil
 }
