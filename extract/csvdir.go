@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+	"unicode/utf8"
 )
 
 // Limits of the CSV reader. A field longer than MaxFieldBytes is a problem
@@ -54,10 +55,7 @@ type limitReader struct {
 	lineLen     int64
 	delivered   int64
 	recordStart int64
-	// sawNUL is set once a NUL byte has been delivered; until then no
-	// field can hold one and fill need not look.
-	sawNUL bool
-	err    error
+	err         error
 }
 
 func (l *limitReader) Read(p []byte) (int, error) {
@@ -66,9 +64,6 @@ func (l *limitReader) Read(p []byte) (int, error) {
 	}
 	n, err := l.r.Read(p)
 	chunk := p[:n]
-	if !l.sawNUL && bytes.IndexByte(chunk, 0) >= 0 {
-		l.sawNUL = true
-	}
 	for len(chunk) > 0 {
 		i := bytes.IndexByte(chunk, '\n')
 		if i < 0 {
@@ -153,9 +148,6 @@ type csvSource struct {
 	r        *csv.Reader
 	closer   io.Closer
 	lastLine int // the line on which the last record ended
-	// recordEnd is the input offset at the end of the last record, to
-	// bound the length of the fields of the next.
-	recordEnd int64
 }
 
 // newCSVSource prepares a CSV stream: a UTF-8 byte order mark is dropped, a
@@ -283,10 +275,16 @@ func (s *csvSource) readError(err error, rec []string, row *sheetRow) error {
 		return &CellError{Position: Position{File: s.file, Row: se.line}, Err: fmt.Errorf("%s: %w", se.reason, ErrInputTooLarge)}
 	case errors.As(err, &pe):
 		row.Row = pe.StartLine
-		if pe.Line > pe.StartLine {
+		switch {
+		case pe.Line > pe.StartLine && errors.Is(pe.Err, csv.ErrQuote):
+			// A quote that opens a field and is never closed takes every
+			// line after it into that field, up to the next quote.
+			row.Problem = fmt.Errorf("the row has an unclosed quote: the quoted field opened on row %d does not end before line %d, so lines %d to %d were read as one row and the rows on lines %d to %d are lost; close or remove the quote on row %d",
+				pe.StartLine, pe.Line, pe.StartLine, pe.Line, pe.StartLine+1, pe.Line, pe.StartLine)
+		case pe.Line > pe.StartLine:
 			row.Problem = fmt.Errorf("the row cannot be read as CSV (%v at line %d, column %d): lines %d to %d were read as one row, and the rows on them are lost",
 				pe.Err, pe.Line, pe.Column, pe.StartLine, pe.Line)
-		} else {
+		default:
 			row.Problem = fmt.Errorf("the row cannot be read as CSV (%v at column %d); its cells may be incomplete", pe.Err, pe.Column)
 		}
 	default:
@@ -314,52 +312,34 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 		}
 		rec = rec[:MaxColumns]
 	}
-	// The cells are stored one field at a time into a slice of the right
-	// length, not appended: a row's slice lives on the heap, and append
-	// would store its header and copy a whole cell through the write
-	// barrier for every field.
-	cells := row.Cells
-	if cap(cells) < len(rec) {
-		cells = make([]sheetCell, len(rec))
-	}
-	cells = cells[:len(rec)]
-	if !s.lim.sawNUL && s.r.InputOffset()-s.recordEnd <= MaxFieldBytes {
-		// No field can hold a NUL or be longer than the record: nothing
-		// to check, the common case.
-		s.recordEnd = s.r.InputOffset()
-		for i, f := range rec {
-			cells[i].setText(f)
-		}
-		row.Cells = cells
-		return nil
-	}
-	s.recordEnd = s.r.InputOffset()
-	sawNUL := s.lim.sawNUL
+	cells := row.Cells[:0]
 	for i, f := range rec {
-		switch {
-		case len(f) > MaxFieldBytes:
+		if why, kind := badField(f); why != "" {
 			if row.Problem == nil {
-				row.Problem = &fieldError{i, fmt.Errorf("field %d is longer than %d MiB and is read as blank: %w", i+1, MaxFieldBytes>>20, ErrInputTooLarge)}
-			}
-			f = ""
-		case sawNUL && strings.IndexByte(f, 0) >= 0:
-			if row.Problem == nil {
-				row.Problem = &fieldError{i, fmt.Errorf("field %d holds a NUL byte, which no text has (is the file damaged?); it is read as blank: %w", i+1, ErrUnsupportedInput)}
+				row.Problem = &fieldError{i, fmt.Errorf("field %d %s; it is read as blank: %w", i+1, why, kind)}
 			}
 			f = ""
 		}
-		cells[i].setText(f)
+		cells = append(cells, sheetCell{Text: f})
 	}
 	row.Cells = cells
 	return nil
 }
 
-// setText makes c the text cell f, writing only the fields that change.
-func (c *sheetCell) setText(f string) {
-	c.Text = f
-	if c.Numeric || c.Display != "" {
-		c.Display, c.Numeric = "", false
+// badField says why a CSV field cannot be read as text, or returns "": it
+// is beyond MaxFieldBytes, holds a NUL byte (no text has one) or is not
+// valid UTF-8 (the JSON and CSV reports would then disagree about its
+// bytes).
+func badField(f string) (why string, kind error) {
+	switch {
+	case len(f) > MaxFieldBytes:
+		return fmt.Sprintf("is longer than %d MiB", MaxFieldBytes>>20), ErrInputTooLarge
+	case strings.IndexByte(f, 0) >= 0:
+		return "holds a NUL byte, which no text has (is the file damaged?)", ErrUnsupportedInput
+	case !utf8.ValidString(f):
+		return "is not valid UTF-8 text (save the file as CSV UTF-8)", ErrUnsupportedInput
 	}
+	return "", nil
 }
 
 // Close closes the file.

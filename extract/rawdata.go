@@ -341,6 +341,11 @@ func dataValue(c sheetCell) (float64, error) {
 	if isMissingCode(t) {
 		return math.NaN(), nil
 	}
+	// A whole number written with a trailing decimal point ("760.", as
+	// Fortran-era data files print them) is that whole number.
+	if n := len(t); n > 1 && t[n-1] == '.' && t[n-2] >= '0' && t[n-2] <= '9' {
+		t = t[:n-1]
+	}
 	p, err := parsePrinted(t, numberLimit, ErrMalformedNumber)
 	if err != nil {
 		return 0, err

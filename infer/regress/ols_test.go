@@ -4,7 +4,6 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
-	"path/filepath"
 	"testing"
 )
 
@@ -89,13 +88,8 @@ func TestOLSConstantColumnIsIntercept(t *testing.T) {
 // PUBLISHED-VALUES.md §2.7: DERIVED there in exact arithmetic from the NIST
 // data (NIST certifies only the diagonal). Indices as in the NIST file.
 func TestOLSLongleyDifferences(t *testing.T) {
-	ref := sharedReferenceDir(t)
-	path := filepath.Join(ref, "nist-strd", "Longley.dat")
-	if ref == "" || !fileExists(path) {
-		t.Skipf("%s not found; skipping the Longley covariance checks", path)
-	}
-	d := readNIST(t, path)
-	fit, err := OLS(d.y, d.columns, Options{})
+	y, x := longley(t)
+	fit, err := OLS(y, x, Options{})
 	if err != nil {
 		t.Fatalf("OLS(Longley) error: %v", err)
 	}

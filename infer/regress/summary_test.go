@@ -4,8 +4,6 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -138,21 +136,16 @@ func TestFromSummaryMatchesRawOLS(t *testing.T) {
 // SEs as b·s_x/s_y and SE(b)·s_x/s_y), not published by NIST; s_y from the
 // same section.
 func TestLongleyStandardized(t *testing.T) {
-	ref := sharedReferenceDir(t)
-	path := filepath.Join(ref, "nist-strd", "Longley.dat")
-	if ref == "" || !fileExists(path) {
-		t.Skipf("%s not found; skipping the Longley standardized-coefficient check", path)
-	}
-	d := readNIST(t, path)
+	y, x := longley(t)
 	beta := []float64{0.04628202, -1.01374635, -0.53754258, -0.20474069, -0.10122111, 2.47966438}
 	se := []float64{0.26092603, 0.94785496, 0.12995335, 0.04245983, 0.44777970, 0.61746325}
 	const sy = 3511.968355969816
 
-	raw, err := OLS(d.y, d.columns, Options{})
+	raw, err := OLS(y, x, Options{})
 	if err != nil {
 		t.Fatalf("OLS(Longley) error: %v", err)
 	}
-	s, err := SummarizeData(d.y, d.columns)
+	s, err := SummarizeData(y, x)
 	if err != nil {
 		t.Fatalf("SummarizeData(Longley) error: %v", err)
 	}
@@ -252,9 +245,4 @@ func TestCollinearNamesPredictor(t *testing.T) {
 	if pe.Index != 2 {
 		t.Errorf("FromSummary(near-duplicate predictors) names predictor %d, want 2", pe.Index)
 	}
-}
-
-func fileExists(path string) bool {
-	_, err := os.Stat(path)
-	return err == nil
 }
