@@ -75,19 +75,38 @@ func TestIndependentDifference(t *testing.T) {
 		wantZ, wantP   float64
 		tolSE, tolP    float64
 	}{
-		// Altman & Bland (2003) BMJ 326:219: log RR −0.4005 (SE 0.1929) vs −0.1278
-		// (SE 0.1070), "0.2206" and "z=−0.2726/" (SECONDARY OCR; PUBLISHED-VALUES.md
-		// §2.1); z and P DERIVED there: −1.236, 0.2165.
+		// Altman DG, Bland JM (2003). Interaction revisited: the difference between
+		// two estimates. BMJ 326:219, worked example (HRT and non-vertebral fractures,
+		// data of Torgerson & Bell-Syer 2001, JAMA 285:2891–2897): log RR −0.4005
+		// (SE 0.1929) vs −0.1278 (SE 0.1070); d = −0.2726 and SE(d) = 0.2206 as printed,
+		// "0.2206" and "z=−0.2726/" (SECONDARY: OCR of the printed note on
+		// es.scribd.com, document 375349251). The second group's CI 0.71 to 1.08 used
+		// as input is from memory (it reproduces the printed SE(d) exactly).
+		// z = −1.236 and P = 0.2165 are derived here from the note's formula applied
+		// to those inputs (normal two-sided P); not published values (from memory the
+		// note prints z = −1.24, P = 0.2).
 		{"Altman Bland 2003 HRT", math.Log(0.67), (math.Log(0.98) - math.Log(0.46)) / 3.919928,
 			math.Log(0.88), (math.Log(1.08) - math.Log(0.71)) / 3.919928, -0.2726, 0.2206, -1.236, 0.2165, 5e-4, 5e-4},
-		// Woodward (2019) Heart 105:1701, Table 4: women 0.765468 (SE 0.244637), men
-		// 0.746688 (SE 0.324736); ln RRR 0.01878, variance 0.165301. P DERIVED 0.963.
+		// Woodward M (2019). Rationale and tutorial for analysing and reporting sex
+		// differences in cardiovascular associations. Heart 105(22):1701–1708,
+		// Table 4: women 0.765468 (SE 0.244637), men 0.746688 (SE 0.324736); ln RRR
+		// 0.01878, variance 0.165301. z = 0.0462 and P = 0.963 are derived here from
+		// those printed values (normal two-sided P); not published values.
 		{"Woodward 2019 Table 4", 0.765468, 0.244637, 0.746688, 0.324736, 0.01878, math.Sqrt(0.165301), 0.0462, 0.963, 1e-6, 1e-3},
-		// Gelman & Stern (2006) Am Stat 60:328: 25 ± 10 vs 10 ± 10, "s.e. 14.1",
-		// "z-score is only 1.1" (SECONDARY, PUBLISHED-VALUES.md §2.4).
+		// Gelman A, Stern H (2006). The difference between "significant" and "not
+		// significant" is not itself statistically significant. The American
+		// Statistician 60(4):328–331: 25 ± 10 vs 10 ± 10, "s.e. 14.1", "z-score is only
+		// 1.1" (SECONDARY: a copy of a first-person blog post, apparently Gelman's,
+		// at 1-urlm.se/g/c/a/397088; the paper's own page was not seen). P = 0.2888 is
+		// derived here: z = 15/√200 = 1.0607, normal two-sided; not a published value.
 		{"Gelman Stern 2006", 25, 10, 10, 10, 15, 14.1, 1.1, 0.2888, 0.004, 5e-4},
-		// Ann Rheum Dis Table 3, COBRA trial: "√(0.4081²+0.1692²) = 0.4419", d = −0.4198;
-		// the printed "p = 0.17" is one-sided: two-sided 0.342 (PUBLISHED-VALUES.md §2.3).
+		// Annals of the Rheumatic Diseases, Table 3 "Comparing relative risks in two
+		// risk groups", COBRA trial (table page ard.bmj.com/highwire/markup/174036;
+		// the article's authors and title were not visible and are not identified):
+		// "√(0.4081²+0.1692²) = 0.4419", d = −0.4198, z printed as "0.95" without its
+		// sign. P = 0.342 is derived here from those printed values (normal
+		// two-sided at z = −0.950); not a published value: the printed "p = 0.17" is
+		// the one-sided P.
 		{"ARD Table 3 COBRA", -0.7765, 0.4081, -0.3567, 0.1692, -0.4198, 0.4419, -0.950, 0.342, 3e-4, 1e-3},
 	}
 	for _, tt := range tests {
@@ -119,8 +138,11 @@ func TestIndependentDifference(t *testing.T) {
 }
 
 func TestCorrelatedDifferenceLongley(t *testing.T) {
-	// NIST Longley b4 − b5 with Cov(b4, b5) = −0.009151328949: SE 0.3395955929,
-	// t = −2.892036 (PUBLISHED-VALUES.md §2.7, DERIVED from the certified fit).
+	// NIST StRD, Longley, certified values: b4, b5 and their SEs. Cov(b4, b5) =
+	// −0.009151328949, SE(b4 − b5) = 0.3395955929 and t = −2.892036 are derived
+	// here in exact rational arithmetic from the NIST StRD Longley data (NIST
+	// certifies the SEs, not the covariances), with Var(b4 − b5) = Var(b4) +
+	// Var(b5) − 2 Cov(b4, b5); not published values.
 	s4, s5 := 0.214274163161675, 0.226073200069370
 	rho := -0.009151328949 / (s4 * s5)
 	d, err := CorrelatedDifference(-1.03322686717359, s4, -0.0511041056535807, s5, rho, 9, 0.95)

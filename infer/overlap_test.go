@@ -6,15 +6,24 @@ import (
 )
 
 // TestOverlapKnownRelations derives the relations for two independent 95%
-// intervals of equal width that Cumming & Finch (2005, Am Psychol 60:170) state
-// as rules of eye. With SE s, margin m = 1.959964 s; an overlap of a proportion
-// po of m puts the estimates (2 − po) m apart, so z = (2 − po) 1.959964/√2:
+// intervals of equal width that Cumming & Finch state as rules of eye
+// (Cumming G, Finch S (2005). Inference by eye: confidence intervals and how to
+// read pictures of data. American Psychologist 60(2):170–180). With SE s,
+// margin m = 1.959964 s; an overlap of a proportion po of m puts the estimates
+// (2 − po) m apart, so z = (2 − po) 1.959964/√2:
 //
 //	po = 0   (touching): z = 2.77181, p = 0.00557 (rule: "about .01")
 //	po = 0.5 (half):     z = 2.07886, p = 0.03763 (rule: "about .05")
 //	po = 2 − √2:         z = 1.959964, p = 0.05 exactly.
 //
-// The same numbers are DERIVED in PUBLISHED-VALUES.md §4.2.
+// The z and p values are derived here from the test for two independent
+// estimates, z = d/√(s1² + s2²) (Altman DG, Bland JM (2003), BMJ 326:219),
+// applied to intervals constructed to overlap by po (normal two-sided p); not
+// published values. The rule wording is SECONDARY: a statistics-list post
+// citing Cumming & Finch (2005), "half arm length overlap corresponds to
+// p ≈ 0.05, touching arms correspond to p ≈ 0.01", seen in the web-text
+// collection huggingface.co/datasets/nvidia/Nemotron-CC-Math-v1; the paper's
+// own wording was not seen.
 func TestOverlapKnownRelations(t *testing.T) {
 	c := 1.959963984540054
 	tests := []struct {
@@ -58,7 +67,9 @@ func TestOverlapKnownRelations(t *testing.T) {
 
 func TestOverlapOrderAndUnequalMargins(t *testing.T) {
 	// Ratio ρ = 2 of the SEs, intervals just touching: z = 1.959964 (1+ρ)/√(1+ρ²)
-	// = 2.6296, p = 0.00855 (PUBLISHED-VALUES.md §4.2, DERIVED).
+	// = 2.6296, p = 0.00855, derived here from the same two-estimate test (Altman
+	// & Bland 2003, BMJ 326:219) applied to 95% intervals with SEs 0.1 and 0.2
+	// that just touch (normal two-sided p); not a published value.
 	c := 1.959963984540054
 	m1, m2 := c*0.1, c*0.2
 	e2 := m1 + m2

@@ -8,8 +8,8 @@ import (
 
 // A paper reports that variable j correlates .50 with k and .30 with h in
 // one sample of 100, with r(k,h) = .40, and claims the first association is
-// stronger. (Invented numbers: the constructed example of
-// PUBLISHED-VALUES.md §3.4.)
+// stronger. (Invented numbers; the printed values are derived here, not
+// published: see TestOverlappingMethods.)
 func ExampleCompareOverlapping() {
 	c, err := correlation.CompareOverlapping(0.50, 0.30, 0.40, 100, 0.95)
 	if err != nil {
@@ -30,8 +30,9 @@ func ExampleCompareOverlapping() {
 }
 
 // Two correlations of one sample of 100 that share no variable, with the
-// four cross correlations printed in the same table (invented numbers, the
-// constructed example of PUBLISHED-VALUES.md §3.4).
+// four cross correlations printed in the same table (invented numbers; the
+// printed values are derived here, not published: see
+// TestNonOverlappingMethods).
 func ExampleCompareNonOverlapping() {
 	s := correlation.NonOverlapping{JK: 0.50, HM: 0.30, JH: 0.40, JM: 0.20, KH: 0.25, KM: 0.35}
 	c, err := correlation.CompareNonOverlapping(s, 100, 0.95)
@@ -50,7 +51,9 @@ func ExampleCompareNonOverlapping() {
 }
 
 // The same association measured in women (r = .55, n = 80) and in men
-// (r = .42, n = 75), Lane's HyperStat example.
+// (r = .42, n = 75), the example of Lane DM, HyperStat Online; the printed
+// values are derived here, not published (see TestFisherZTest and
+// TestZouIndependentCI).
 func ExampleCompareIndependent() {
 	c, err := correlation.CompareIndependent(0.55, 80, 0.42, 75, 0.95)
 	if err != nil {

@@ -18,12 +18,13 @@ func withinUnlessNaN(got, want, tol float64) bool { return math.IsNaN(want) || w
 
 func TestFisherZ(t *testing.T) {
 	// Textbook example: the page headed "CHAPTER 15 Introducing Correlation
-	// and Regression", p. 205 (title not shown on the page), prints
-	// z1 = 0.424 for r = 0.4 and z2 = 0.693 for r = 0.6
-	// (PUBLISHED-VALUES.md §3.1, VERIFIED as page text). Lane DM, HyperStat
-	// Online, "Confidence Interval, Difference between Independent
-	// Correlations" prints z' = 0.62 for r = 0.55 and 0.45 for r = 0.42
-	// (§3.1, VERIFIED). Tolerances are half a unit in the printed place.
+	// and Regression", p. 205, prints z1 = 0.424 for r = 0.4 and z2 = 0.693
+	// for r = 0.6 (read as page text; the book's title, authors and year are
+	// not shown on the page, so the book is not identified). Lane DM,
+	// HyperStat Online, "Confidence Interval, Difference between Independent
+	// Correlations" (pages 1–3 of 4, davidmlane.com/hyperstat/B8712.html,
+	// B28800.html, B29605.html) prints z' = 0.62 for r = 0.55 and 0.45 for
+	// r = 0.42. Tolerances are half a unit in the printed place.
 	tests := []struct {
 		name    string
 		r, want float64
@@ -50,11 +51,14 @@ func TestFisherZ(t *testing.T) {
 }
 
 func TestFisherCI(t *testing.T) {
-	// DERIVED values of PUBLISHED-VALUES.md, recomputed there from the
-	// formula tanh(atanh r ± z/√(n − 3)), not published:
-	//   §3.1 Lane's example: r = 0.55, n = 80 → (0.3757, 0.6867);
-	//        r = 0.42, n = 75 → (0.2134, 0.5907);
-	//   §6 DiCiccio & Efron (1996) cd4 data, r = 0.7231654, n = 20:
+	// Derived here from the Fisher interval tanh(atanh r ± z/√(n − 3)),
+	// double precision; not published values. Applied to:
+	//   Lane DM, HyperStat Online (see TestFisherZ): r = 0.55, n = 80 →
+	//        (0.3757, 0.6867); r = 0.42, n = 75 → (0.2134, 0.5907);
+	//   the cd4 data of DiCiccio TJ, Efron B (1996). Bootstrap confidence
+	//        intervals. Statistical Science 11(3):189–228 (data transcription
+	//        SECONDARY, as quoted at stats.stackexchange.com/questions/109861;
+	//        r = 0.7231654 computed here from the 20 pairs), n = 20:
 	//        90% (0.4741, 0.8651), 95% (0.4127, 0.8831).
 	// (The paper's own "(0.47, 0.86)" is the exact interval under
 	// bivariate normality, another method, so it is not a check here.)
@@ -86,16 +90,20 @@ func TestFisherCI(t *testing.T) {
 }
 
 func TestFisherZTest(t *testing.T) {
-	// Published and derived values for two independent correlations.
-	//   Textbook p. 205 (§3.1, VERIFIED page text): r 0.6 (N 150) vs
-	//   0.4 (N 100): difference of z 0.269, SE 0.131. The book subtracts
+	// Published and derived values for two independent correlations. The
+	// rows marked DERIVED are derived here from Fisher's z test, (z1 − z2)
+	// with SE √(1/(n1 − 3) + 1/(n2 − 3)) and a normal two-sided P, double
+	// precision; they are not published values.
+	//   Textbook p. 205 (unidentified book, see TestFisherZ): r 0.6 (N 150)
+	//   vs 0.4 (N 100): difference of z 0.269, SE 0.131. The book subtracts
 	//   the rounded z values (0.693 − 0.424); the unrounded difference is
 	//   0.26954, hence the tolerance of 0.001 on that row.
-	//   DERIVED in §3.1 for the same example: z = 2.0602, P = 0.0394.
-	//   Lane's HyperStat (§3.1, VERIFIED): difference of z' 0.17, SE 0.164.
-	//   DERIVED in §3.1 for it: z = 1.0412, P = 0.2978.
-	//   DERIVED in §3.4 (constructed inputs, not published): r 0.50 (n 100)
-	//   vs 0.30 (n 120): z = 1.7462, P = 0.0808.
+	//   DERIVED for the same example: 0.2695, SE 0.1308, z = 2.0602,
+	//   P = 0.0394.
+	//   Lane DM, HyperStat Online (see TestFisherZ): difference of z' 0.17,
+	//   SE 0.164. DERIVED for it: 0.1707, SE 0.1639, z = 1.0412, P = 0.2978.
+	//   DERIVED for invented inputs r 0.50 (n 100) vs 0.30 (n 120): z =
+	//   1.7462, P = 0.0808.
 	tests := []struct {
 		name          string
 		r1            float64
@@ -138,11 +146,14 @@ func TestFisherZTest(t *testing.T) {
 }
 
 func TestFisherZTestLaneLimits(t *testing.T) {
-	// Lane's HyperStat (§3.1, VERIFIED) prints the 95% limits of z1' − z2'
-	// as −0.15 and 0.49; they are Estimate ± 1.96 SE on the z scale. Its next
-	// step, tanh of those limits (−0.15, 0.45), is not an interval for
-	// ρ1 − ρ2 (§3.1 CAUTION), which is why Result.CI is Zou's interval
-	// instead: DERIVED in §3.1 as (−0.1139, 0.3778).
+	// Lane DM, HyperStat Online, "Confidence Interval, Difference between
+	// Independent Correlations" (see TestFisherZ) prints the 95% limits of
+	// z1' − z2' as −0.15 and 0.49; they are Estimate ± 1.96 SE on the z
+	// scale. Its next step, tanh of those limits (−0.15, 0.45), is not an
+	// interval for ρ1 − ρ2, which is why Result.CI is Zou's interval
+	// instead: (−0.1139, 0.3778), derived here from Zou's (2007) interval
+	// (formula from memory; see TestZouIndependentCI) applied to Lane's
+	// data; not a published value.
 	got, err := correlation.FisherZTest(0.55, 80, 0.42, 75, 0.95)
 	if err != nil {
 		t.Fatal(err)
@@ -157,10 +168,15 @@ func TestFisherZTestLaneLimits(t *testing.T) {
 }
 
 func TestZouIndependentCI(t *testing.T) {
-	// DERIVED in PUBLISHED-VALUES.md, recomputed from Zou's (2007) formula:
-	//   §3.4: r 0.50 (n 100) vs 0.30 (n 120) → (−0.0250, 0.4184);
-	//   §3.1: Lane's 0.55 (n 80) vs 0.42 (n 75) → (−0.1139, 0.3778).
-	// Zou's own three examples could not be read (§3.2).
+	// Derived here, double precision, from the interval of Zou GY (2007).
+	// Toward using confidence intervals to compare correlations.
+	// Psychological Methods 12(4):399–413 (volume and pages from memory; the
+	// formula, independent case c = 0, is from memory and was not checked
+	// against the paper), applied to:
+	//   invented inputs r 0.50 (n 100) vs 0.30 (n 120) → (−0.0250, 0.4184);
+	//   Lane's HyperStat 0.55 (n 80) vs 0.42 (n 75) → (−0.1139, 0.3778).
+	// Not published values: Zou's own three examples could not be read in
+	// any copy seen.
 	tests := []struct {
 		name   string
 		r1     float64
@@ -205,7 +221,8 @@ func TestCompareIndependent(t *testing.T) {
 	if len(c.Alternatives) != 1 || c.Alternatives[0].Method != correlation.MethodZouCI {
 		t.Fatalf("CompareIndependent(...).Alternatives = %+v, want one zou-ci", c.Alternatives)
 	}
-	// §3.4 DERIVED: z = 1.7462, Zou (−0.0250, 0.4184).
+	// Invented inputs; z = 1.7462 and Zou (−0.0250, 0.4184) are derived here
+	// (see TestFisherZTest and TestZouIndependentCI), not published values.
 	if !within(c.Primary.Stat, 1.7462, 5e-5) || !within(c.CI[0], -0.0250, 5e-5) || !within(c.CI[1], 0.4184, 5e-5) {
 		t.Errorf("CompareIndependent(0.5, 100, 0.3, 120) Stat, CI = %.5f, (%.5f, %.5f), want 1.7462, (-0.0250, 0.4184)",
 			c.Primary.Stat, c.CI[0], c.CI[1])

@@ -210,7 +210,8 @@ func sampleNonOverlapping(r []float64) correlation.NonOverlapping {
 }
 
 func TestMonteCarloNonOverlapping(t *testing.T) {
-	// Cross correlations as in PUBLISHED-VALUES.md §3.4 (.40, .20, .25, .35).
+	// Cross correlations of the invented derivedNonOverlapping (.40, .20,
+	// .25, .35).
 	// Null: ρjk = ρhm = .5. Non-null: ρjk = .6, ρhm = .3 (truth .3).
 	//
 	// Pearson–Filon on raw r has the wrong level in small samples

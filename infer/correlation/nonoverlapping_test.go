@@ -8,9 +8,9 @@ import (
 	"coefaudit/infer/correlation"
 )
 
-// derivedNonOverlapping is the constructed example of PUBLISHED-VALUES.md
-// §3.4 (n = 100): r12 = .50, r34 = .30, r13 = .40, r14 = .20, r23 = .25,
-// r24 = .35, with j, k, h, m numbered 1, 2, 3, 4.
+// derivedNonOverlapping is an invented example (n = 100): r12 = .50,
+// r34 = .30, r13 = .40, r14 = .20, r23 = .25, r24 = .35, with j, k, h, m
+// numbered 1, 2, 3, 4. Its check values are derived here, not published.
 var derivedNonOverlapping = correlation.NonOverlapping{JK: 0.5, HM: 0.3, JH: 0.4, JM: 0.2, KH: 0.25, KM: 0.35}
 
 type nonOverlappingMethod func(s correlation.NonOverlapping, n int, level float64) (correlation.Result, error)
@@ -23,11 +23,16 @@ var nonOverlappingMethods = map[string]nonOverlappingMethod{
 }
 
 func TestNonOverlappingMethods(t *testing.T) {
-	// DERIVED values of PUBLISHED-VALUES.md §3.4 (recomputed there from the
-	// formulas, not published: no worked example of Raghunathan, Rosenthal
-	// & Rubin 1996 or Zou 2007 could be read, §3.2): PF Z = 1.8090
-	// (P 0.0705); ZPF = 1.7834 (P 0.0745); Zou (−0.0200, 0.4186). All to 4
-	// decimals.
+	// Derived here, in double precision, from the formulas of Pearson K,
+	// Filon LNG (1898), Phil Trans R Soc A 191:229–311 (PF), Raghunathan TE,
+	// Rosenthal R, Rubin DB (1996). Comparing correlated but nonoverlapping
+	// correlations. Psychological Methods 1(2):178–183 (ZPF), and Zou GY
+	// (2007), Psychological Methods 12(4):399–413 (formulas, and the
+	// Pearson–Filon and Zou citations, from memory; not checked against the
+	// papers), applied to the invented derivedNonOverlapping; not published
+	// values: no worked example of Raghunathan et al. 1996 or Zou 2007 could
+	// be read. PF Z = 1.8090 (P 0.0705); ZPF = 1.7834 (P 0.0745); Zou
+	// (−0.0200, 0.4186). All to 4 decimals.
 	tests := []struct {
 		name    string
 		method  string
@@ -58,7 +63,10 @@ func TestNonOverlappingMethods(t *testing.T) {
 }
 
 func TestNonOverlappingSamplingCorrelation(t *testing.T) {
-	// DERIVED in §3.4: ψ = 0.084125, c = ψ/((1 − .25)(1 − .09)) = 0.123260.
+	// Derived here from the nonoverlapping covariance ψ (Steiger 1980,
+	// after Pearson & Filon 1898; formula from memory) applied to the
+	// invented derivedNonOverlapping; not published values: ψ = 0.084125,
+	// c = ψ/((1 − .25)(1 − .09)) = 0.123260.
 	if got := correlation.NonOverlappingSamplingCorrelation(derivedNonOverlapping); !within(got, 0.123260, 5e-7) {
 		t.Errorf("NonOverlappingSamplingCorrelation(%+v) = %.7f, want 0.123260", derivedNonOverlapping, got)
 	}
@@ -152,7 +160,8 @@ func TestCompareNonOverlapping(t *testing.T) {
 				i, c.Alternatives[i].Method, c.Alternatives[i].CI, m, c.CI)
 		}
 	}
-	// §3.4 DERIVED: ZPF = 1.7834, Zou (−0.0200, 0.4186).
+	// Invented inputs; ZPF = 1.7834 and Zou (−0.0200, 0.4186) are derived
+	// here (see TestNonOverlappingMethods), not published values.
 	if !within(c.Primary.Stat, 1.7834, 5e-5) || !within(c.CI[0], -0.0200, 5e-5) || !within(c.CI[1], 0.4186, 5e-5) {
 		t.Errorf("CompareNonOverlapping(...) Stat, CI = %.5f, %v, want 1.7834, (-0.0200, 0.4186)", c.Primary.Stat, c.CI)
 	}

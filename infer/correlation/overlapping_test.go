@@ -20,10 +20,18 @@ var overlappingMethods = map[string]overlappingMethod{
 
 func TestOverlappingMethods(t *testing.T) {
 	// No worked example of Steiger (1980), Meng, Rosenthal & Rubin (1992) or
-	// Zou (2007) could be read (PUBLISHED-VALUES.md §3.2), so the rows marked
-	// DERIVED are the values of §3.4, recomputed there from the formulas for
-	// constructed inputs (n = 100, r12 = .50, r13 = .30, r23 = .40), not
-	// published numbers; they are printed to 4 decimals.
+	// Zou (2007) could be read in any copy seen, so the rows marked DERIVED
+	// are not published values: they are derived here, in double precision
+	// and printed to 4 decimals, from the formulas of Williams' t (Steiger
+	// JH (1980). Tests for comparing elements of a correlation matrix.
+	// Psychological Bulletin 87(2):245–251, eq. 7), Steiger's pooled Z (same
+	// paper, with Dunn OJ, Clark V (1969), JASA 64:366–377), Meng X-L,
+	// Rosenthal R, Rubin DB (1992). Comparing correlated correlation
+	// coefficients. Psychological Bulletin 111(1):172–175, and Zou GY
+	// (2007). Toward using confidence intervals to compare correlations.
+	// Psychological Methods 12(4):399–413 (citations and formulas from
+	// memory, not checked against the papers), applied to invented inputs
+	// (n = 100, r12 = .50, r13 = .30, r23 = .40).
 	//
 	// The Howell row is SECONDARY: the example of Howell DC, Statistical
 	// Methods for Psychology (6th ed., 2007), p. 262 — r12 = .80, r13 = .72,
@@ -83,8 +91,9 @@ func sameOrBothNaN(got, want, tol float64) bool {
 }
 
 func TestOverlappingSamplingCorrelation(t *testing.T) {
-	// DERIVED in PUBLISHED-VALUES.md §3.4: Zou's c = 0.331868 for
-	// r12 = .50, r13 = .30, r23 = .40 (equal to Dunn & Clark's unpooled s).
+	// Zou's c = 0.331868 for the invented r12 = .50, r13 = .30, r23 = .40,
+	// derived here from Zou's (2007) formula for c (from memory; equal to
+	// Dunn & Clark's unpooled s); not a published value.
 	if got := correlation.OverlappingSamplingCorrelation(0.5, 0.3, 0.4); !within(got, 0.331868, 5e-7) {
 		t.Errorf("OverlappingSamplingCorrelation(0.5, 0.3, 0.4) = %.7f, want 0.331868", got)
 	}
@@ -141,7 +150,8 @@ func TestCompareOverlapping(t *testing.T) {
 				i, c.Alternatives[i].Method, c.Alternatives[i].CI, m, c.CI)
 		}
 	}
-	// §3.4 DERIVED: Williams t = 2.0650, Zou (0.0080, 0.3928).
+	// Invented inputs; Williams t = 2.0650 and Zou (0.0080, 0.3928) are
+	// derived here (see TestOverlappingMethods), not published values.
 	if !within(c.Primary.Stat, 2.0650, 5e-5) || !within(c.CI[0], 0.0080, 5e-5) || !within(c.CI[1], 0.3928, 5e-5) {
 		t.Errorf("CompareOverlapping(0.5, 0.3, 0.4, 100) Stat, CI = %.5f, %v, want 2.0650, (0.0080, 0.3928)", c.Primary.Stat, c.CI)
 	}

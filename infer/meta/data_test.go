@@ -11,9 +11,9 @@ import (
 // among the vaccinated, number vaccinated, TB cases among the unvaccinated,
 // number unvaccinated. Source: Colditz GA et al. (1994). Efficacy of BCG
 // vaccine in the prevention of tuberculosis: meta-analysis of the published
-// literature. JAMA 271(9):698-702, as tabulated in
-// /work/shared/reference/PUBLISHED-VALUES.md §7.1 (an open dataset, also
-// Table I of van Houwelingen, Arends & Stijnen 2002, Stat Med 21:589-624).
+// literature. JAMA 271(9):698-702 (citation from memory; an open dataset,
+// also Table I of van Houwelingen, Arends & Stijnen 2002, Stat Med
+// 21:589-624).
 var bcgCounts = [13][4]float64{
 	{4, 123, 11, 139}, {6, 306, 29, 303}, {3, 231, 11, 220}, {62, 13598, 248, 12867},
 	{33, 5069, 47, 5808}, {180, 1541, 372, 1451}, {8, 2545, 10, 629}, {505, 88391, 499, 88391},
@@ -51,8 +51,10 @@ func bcgLogOddsRatios() []meta.Study {
 
 // kackerStudies is the interlaboratory example of Kacker RN (2004).
 // Combining information from interlaboratory evaluations using a random
-// effects model. Metrologia 41(3):132-136 (citation from memory), as given in
-// PUBLISHED-VALUES.md §7.2.
+// effects model. Metrologia 41(3):132-136 (citation from memory); y and v as
+// given with R metafor's results in statsmodels' test results file
+// statsmodels/stats/tests/results/results_meta.py (SECONDARY; Kacker's own
+// table was not seen).
 func kackerStudies() []meta.Study {
 	y := []float64{61.0, 61.4, 62.21, 62.3, 62.34, 62.6, 62.7, 62.84, 65.9}
 	v := []float64{0.2025, 1.2100, 0.0900, 0.2025, 0.3844, 0.5625, 0.0676, 0.0225, 1.8225}

@@ -6,8 +6,13 @@ import (
 	"coefaudit/infer/meta"
 )
 
-// The interlaboratory example of Kacker (2004, Metrologia 41:132-136) as
-// given in PUBLISHED-VALUES.md §7.2.
+// The interlaboratory example of Kacker (2004, Metrologia 41:132-136;
+// citation from memory), y and v as given in statsmodels'
+// statsmodels/stats/tests/results/results_meta.py (SECONDARY). The fixed,
+// DL and DL/HKSJ lines agree to the digits shown with R metafor's output
+// recorded there (see TestFixedEffect, TestHartungKnapp); the REML,
+// prediction, Q-profile and leave-one-out lines have no outside source and
+// record this package's output.
 func ExampleAnalyze() {
 	a, err := meta.Analyze(kackerStudies(), meta.Options{})
 	if err != nil {

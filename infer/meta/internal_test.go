@@ -6,8 +6,10 @@ import (
 )
 
 // The bracketing fallback must find the same maximum as Fisher scoring:
-// both solve U(τ²) = 0. Data: Kacker (2004) interlaboratory example as in
-// PUBLISHED-VALUES.md §7.2, and an invented boundary case.
+// both solve U(τ²) = 0. Data: the interlaboratory example of Kacker RN
+// (2004), Metrologia 41(3):132–136 (citation from memory), y and v as given
+// in statsmodels' statsmodels/stats/tests/results/results_meta.py
+// (SECONDARY), and an invented boundary case.
 func TestREMLBracketingAgreesWithScoring(t *testing.T) {
 	tests := []struct {
 		name    string

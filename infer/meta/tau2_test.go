@@ -15,11 +15,17 @@ func TestTau2DerSimonianLaird(t *testing.T) {
 		want    float64
 		tol     float64
 	}{
-		// PUBLISHED-VALUES.md §7.1 (SECONDARY/DERIVED): DL τ² 0.308760.
+		// Colditz et al. (1994) BCG trials, log RR: DL τ² 0.308760 (SECONDARY,
+		// "widely published for this dataset", no particular publication
+		// recorded; recomputed here independently with DerSimonian & Laird
+		// (1986), Controlled Clinical Trials 7(3):177–188, agreeing).
 		{"BCG log RR", bcgLogRiskRatios(), 0.308760, 6e-7},
-		// PUBLISHED-VALUES.md §7.1, log OR: DL τ² 0.3663.
+		// Colditz et al. (1994) BCG trials, log OR: DL τ² 0.3663 (SECONDARY,
+		// no particular publication recorded; recomputed here, agreeing).
 		{"BCG log OR", bcgLogOddsRatios(), 0.3663, 5e-5},
-		// PUBLISHED-VALUES.md §7.2 (SECONDARY/DERIVED): 0.288049246973751.
+		// Kacker (2004, Metrologia 41:132–136; citation from memory):
+		// 0.288049246973751, R metafor rma(method = "DL") output as recorded in
+		// statsmodels' results_meta.py (SECONDARY), recomputed here, agreeing.
 		{"Kacker 2004", kackerStudies(), 0.288049246973751, 1e-11},
 		// Hand-derived: equal effects give Q = 0 < df, truncated to 0.
 		{"equal effects", []meta.Study{{"a", 1, 0.1}, {"b", 1, 0.2}, {"c", 1, 0.3}}, 0, 0},
@@ -40,8 +46,8 @@ func TestTau2DerSimonianLaird(t *testing.T) {
 // escalc(measure = "RR") BCG data, reproduced in the RoBMA vignette
 // "Bayesian Meta-Analysis" (Bartoš, CRAN, read via the search tool;
 // SECONDARY): τ² 0.3132 (SE = 0.1664), I² 92.22%. The pooled estimate
-// -0.7145 (SE 0.1798, CI -1.0669 to -0.3622) is from memory of Viechtbauer
-// (2010, J Stat Softw 36(3)) and PUBLISHED-VALUES.md §7.1 (MEMORY); it is
+// -0.7145 (SE 0.1798, CI -1.0669 to -0.3622) is from memory (values and
+// citation) of Viechtbauer W (2010), J Stat Softw 36(3), not checked; it is
 // consistent with the pooled RR 0.489 (95% CI 0.344 to 0.696) printed in a
 // demo manuscript made with metafor (github.com/Aperivue/medsci-skills,
 // demo/02_metafor_bcg/manuscript/manuscript.md; SECONDARY, low authority),

@@ -84,9 +84,11 @@ func TestOLSConstantColumnIsIntercept(t *testing.T) {
 	}
 }
 
-// Off-diagonal covariances and differences of Longley coefficients,
-// PUBLISHED-VALUES.md §2.7: DERIVED there in exact arithmetic from the NIST
-// data (NIST certifies only the diagonal). Indices as in the NIST file.
+// Off-diagonal covariances and differences of Longley coefficients, derived
+// here in exact rational arithmetic from the NIST StRD Longley data, with
+// Var(b_i − b_j) = Var(b_i) + Var(b_j) − 2 Cov(b_i, b_j); not published values
+// (NIST StRD certifies only the diagonal, as the SEs). Indices as in the NIST
+// file.
 func TestOLSLongleyDifferences(t *testing.T) {
 	y, x := longley(t)
 	fit, err := OLS(y, x, Options{})
@@ -125,10 +127,12 @@ func TestOLSLongleyDifferences(t *testing.T) {
 	}
 }
 
-// DiCiccio & Efron (1996, Statistical Science 11(3):189–228) cd4 data, 20
-// subjects (baseline, one year), transcription SECONDARY as listed in
-// PUBLISHED-VALUES.md §6. With one predictor the standardized slope is the
-// correlation: published θ̂ = 0.723; DERIVED there r = 0.7231654.
+// DiCiccio TJ, Efron B (1996). Bootstrap confidence intervals. Statistical
+// Science 11(3):189–228, cd4 data, 20 subjects (baseline, one year); data
+// transcription SECONDARY, as quoted at stats.stackexchange.com/questions/109861.
+// With one predictor the standardized slope is the correlation: published
+// θ̂ = 0.723; r = 0.7231654 is derived here from the 20 pairs, not a
+// published value.
 func TestOLSStandardizedSlopeIsCorrelation(t *testing.T) {
 	baseline := []float64{2.12, 4.35, 3.39, 2.51, 4.04, 5.10, 3.77, 3.35, 4.10, 3.35,
 		4.15, 3.56, 3.39, 1.88, 2.56, 2.96, 2.49, 3.03, 2.66, 3.00}

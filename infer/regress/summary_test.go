@@ -131,10 +131,17 @@ func TestFromSummaryMatchesRawOLS(t *testing.T) {
 	}
 }
 
-// Standardized coefficients of NIST Longley, PUBLISHED-VALUES.md §5: those
-// values are DERIVED there (recomputed from the certified coefficients and
-// SEs as b·s_x/s_y and SE(b)·s_x/s_y), not published by NIST; s_y from the
-// same section.
+// Standardized coefficients of NIST Longley: derived here from the NIST
+// StRD Longley certified coefficients and SEs as β = b·s_x/s_y and the
+// "standard method" SE(β) = SE(b)·s_x/s_y (Cohen, Cohen, West & Aiken 2003,
+// p. 86, as named by Jones JA, Waller NG (2013). Computing confidence
+// intervals for standardized regression coefficients. Psychological Methods
+// 18(4):435–453, volume and pages from memory), with s_x and s_y the sample
+// SDs of the NIST StRD Longley data (s_y = 3511.968355969816, computed here
+// from the data); the SEs were cross-checked against
+// √[(1 − R²)/((N − p − 1)(1 − R²_j))] (formula from memory), agreeing to
+// all digits shown. Not published values: NIST certifies no standardized
+// coefficients.
 func TestLongleyStandardized(t *testing.T) {
 	y, x := longley(t)
 	beta := []float64{0.04628202, -1.01374635, -0.53754258, -0.20474069, -0.10122111, 2.47966438}
