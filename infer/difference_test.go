@@ -13,32 +13,45 @@ func TestStandardErrorReconstruction(t *testing.T) {
 		want float64
 		tol  float64 // relative
 	}{
-		// Altman & Bland (2011) BMJ 343:d2090, worked example (a): "49% v 32%,
-		// P=0.032", Est 17; published SE 17/2.141 = 7.940 with the note's polynomial
-		// for z. The exact quantile gives z = 2.1444 (PUBLISHED-VALUES.md §1.1), so
-		// the published SE is matched to the polynomial's accuracy (0.2%).
+		// Altman DG, Bland JM (2011). How to obtain the confidence interval from a P
+		// value. BMJ 343:d2090, Box, worked example (a): "49% v 32%, P=0.032", Est 17;
+		// published SE 17/2.141 = 7.940 with the note's polynomial for z. The exact
+		// normal quantile for two-sided P = 0.032 is z = 2.1444 (derived here; not a
+		// published value), so the published SE is matched to the polynomial's
+		// accuracy (0.2%).
 		{"BMJ d2090 zinc trial SE from P", func() (float64, error) { return StandardErrorFromP(17, 0.032, nan) }, 7.940, 0.002},
-		// Cochrane Handbook 5.1 §7.7.3.3 (SECONDARY copy, PUBLISHED-VALUES.md §1.3):
-		// difference 3.8, P = 0.008 with 45 df: "dividing 3.8 by 2.78, which gives 1.37".
+		// Higgins JPT, Green S, eds (2011). Cochrane Handbook for Systematic Reviews of
+		// Interventions 5.1, §7.7.3.3 (SECONDARY: the Handbook text as reproduced in
+		// third-party pages, among them
+		// metnoob.blogg.se/2022/march/calculate-standard-error-from-confidence-interval.html,
+		// miliebay.blogg.se/2023/july/7-permute-2.html and
+		// info.5y1.org/reporting-median-and-interquartile-range_1_6c2fb0.html; the
+		// Handbook's own page was not seen): difference 3.8, P = 0.008 with 45 df:
+		// "dividing 3.8 by 2.78, which gives 1.37".
 		{"Cochrane P with t(45)", func() (float64, error) { return StandardErrorFromP(3.8, 0.008, 45) }, 1.37, 0.005},
-		// Same source, large-sample version: "Z = 2.652" for P = 0.008.
+		// Same section, large-sample version (also SECONDARY, third-party text):
+		// "Z = 2.652" for P = 0.008.
 		{"Cochrane P with normal", func() (float64, error) { return StandardErrorFromP(3.8, 0.008, nan) }, 3.8 / 2.652, 0.0005},
-		// Woodward (2019) Heart 105:1701, Table 4: women RR 2.15 (1.33 to 3.47); on the
-		// log scale the SE from the whole width averages to 0.244637.
+		// Woodward M (2019), Heart 105(22):1701–1708, Table 4: women RR 2.15 (1.33 to
+		// 3.47); on the log scale the SE from the whole width averages to 0.244637.
 		{"Woodward 2019 Table 4 SE from ratio CI", func() (float64, error) {
 			return StandardErrorFromCI(math.Log(1.33), math.Log(3.47), 0.95, nan)
 		}, 0.244637, 2e-5},
-		// NIST StRD Longley, certified B6 = 1829.15146461355, SE 455.478499142212, residual
-		// df 9; its 95% t interval (798.7875153, 2859.515414) is DERIVED in
-		// PUBLISHED-VALUES.md §1.4 and must give back the certified SE with t(9).
+		// NIST StRD, Longley, certified values: B6 = 1829.15146461355, SE
+		// 455.478499142212, residual df 9. Its 95% t interval (798.7875153,
+		// 2859.515414) is derived here as B6 ± t(0.975, 9)·SE with t(0.975, 9) =
+		// 2.2621571628; not a published value. It must give back the certified SE.
 		{"Longley B6 SE from t interval", func() (float64, error) {
 			return StandardErrorFromCI(798.7875153, 2859.515414, 0.95, 9)
 		}, 455.478499142212, 1e-9},
-		// ... and it is 15.4% too large if the normal 3.92 is used (same source).
+		// ... and it is 15.4% too large if the normal 2 × 1.959964 is used: 525.7055525
+		// = (2859.515414 − 798.7875153)/(2 × 1.959964), derived here; not a published
+		// value.
 		{"Longley B6 SE from normal reading", func() (float64, error) {
 			return StandardErrorFromCI(798.7875153, 2859.515414, 0.95, nan)
 		}, 525.7055525, 1e-6},
-		// Statistic: SE = estimate / t; Longley B6 t = 4.015890 (PUBLISHED-VALUES §1.4, DERIVED).
+		// Statistic: SE = estimate / t, with t = B6/SE = 4.015890 derived here from the
+		// NIST StRD Longley certified values; not a published value.
 		{"SE from t", func() (float64, error) { return StandardErrorFromStatistic(1829.15146461355, 4.015890, false) }, 455.478499142212, 1e-6},
 	}
 	for _, tt := range tests {
