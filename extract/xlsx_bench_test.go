@@ -7,6 +7,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -143,11 +144,17 @@ func writeLargeWorkbook(tb testing.TB, path string, claims int) {
 			measure := measures[i%len(measures)]
 			n := 40 + rng.IntN(2000)
 			for k, label := range []string{"a", "b"} {
+				// The estimate, its SE and the p they imply, on the log
+				// scale for an odds ratio; the interval is estimate ± 1.96
+				// SE, back on the printed scale.
 				est := rng.NormFloat64() * 0.3
-				if measure == "or" {
-					est = 0.5 + rng.Float64()*2
-				}
 				se := 0.02 + rng.Float64()*0.2
+				low, high := est-1.96*se, est+1.96*se
+				p := math.Erfc(math.Abs(est/se) / math.Sqrt2)
+				printed := est
+				if measure == "or" {
+					printed, low, high = math.Exp(est), math.Exp(low), math.Exp(high)
+				}
 				s.startRow()
 				s.text(study)
 				s.text(label)
@@ -157,20 +164,22 @@ func writeLargeWorkbook(tb testing.TB, path string, claims int) {
 				s.text("all")
 				s.text("m1")
 				if i%4 == 0 {
-					s.number(est, 1)
+					s.number(printed, 1)
 				} else {
-					s.text(round(est, 2))
+					s.text(round(printed, 2))
 				}
+				s.text(round(low, 2))
+				s.text(round(high, 2))
 				if measure == "or" {
-					s.text(round(est*0.7, 2))
-					s.text(round(est*1.4, 2))
 					s.text("")
 				} else {
-					s.text(round(est-1.96*se, 2))
-					s.text(round(est+1.96*se, 2))
 					s.text(round(se, 3))
 				}
-				s.text(round(rng.Float64()*0.2, 3))
+				if p < 0.001 {
+					s.text("< .001")
+				} else {
+					s.text(round(p, 3))
+				}
 				s.number(float64(n), 0)
 				s.endRow()
 			}

@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"compress/flate"
 	"errors"
+	"fmt"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -245,9 +246,10 @@ func TestZipBomb(t *testing.T) {
 	zeros := make([]byte, 20<<20)
 	packed := deflate(t, zeros)
 	small := deflate(t, make([]byte, 10000))
-	// Incompressible bytes, so that a 40 MiB declaration passes the ratio
-	// check and only the total is over the limit.
-	noise := make([]byte, 300<<10)
+	// Incompressible bytes, so that a declaration of more than half the
+	// limit passes the ratio check and only the total is over the limit.
+	noise := make([]byte, 1<<20)
+	half := uint64(MaxUnzippedBytes/2 + 1<<20)
 	rng := rand.New(rand.NewPCG(1, 2))
 	for i := range noise {
 		noise[i] = byte(rng.Uint32())
@@ -259,8 +261,8 @@ func TestZipBomb(t *testing.T) {
 	}{
 		{"declares a huge member", []rawMember{{name: "xl/worksheets/sheet1.xml", declared: 1 << 40, deflated: small}}, "unpacks to"},
 		{"members add up", []rawMember{
-			{name: "a.xml", declared: 40 << 20, deflated: noise},
-			{name: "b.xml", declared: 40 << 20, deflated: noise}}, "more than 64 MiB"},
+			{name: "a.xml", declared: half, deflated: noise},
+			{name: "b.xml", declared: half, deflated: noise}}, fmt.Sprintf("more than %d MiB", MaxUnzippedBytes>>20)},
 		{"ratio", []rawMember{{name: "xl/sharedStrings.xml", declared: uint64(len(zeros)), deflated: packed}}, "zip bomb"},
 		{"understates its size", []rawMember{{name: "xl/workbook.xml", declared: 100, deflated: small}}, "holds more than"},
 	}
