@@ -48,16 +48,24 @@ const claimsPart = "xl/worksheets/sheet2.xml"
 // place of the part of that name.
 func rebuildWorkbook(t testing.TB, path string, names []string, data map[string][]byte, part string, replace []byte) {
 	t.Helper()
+	writeWorkbookParts(t, path, names, data, map[string][]byte{part: replace}, zip.Deflate)
+}
+
+// writeWorkbookParts writes the members to path, with the parts in
+// replace in place of theirs, each compressed with method (zip.Deflate, or
+// zip.Store for none).
+func writeWorkbookParts(t testing.TB, path string, names []string, data map[string][]byte, replace map[string][]byte, method uint16) {
+	t.Helper()
 	var buf bytes.Buffer
 	zw := zip.NewWriter(&buf)
 	for _, n := range names {
-		w, err := zw.Create(n)
+		w, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: method})
 		if err != nil {
 			t.Fatal(err)
 		}
 		b := data[n]
-		if n == part {
-			b = replace
+		if r, ok := replace[n]; ok {
+			b = r
 		}
 		if _, err := w.Write(b); err != nil {
 			t.Fatal(err)

@@ -16,7 +16,8 @@ type xlsxSource struct {
 	wb          *workbook
 	x           *partXML
 	file, sheet string
-	last        int // the sheet's number of the last row read
+	last        int // the sheet's number of the last row begun
+	delivered   int // the sheet's number of the last row read whole
 	cells       int // the widths of the rows read so far, summed
 	cellBudget  int // the most cells read before the sheet is refused
 	done        bool
@@ -61,10 +62,13 @@ func (s *xlsxSource) Next(row *sheetRow) error {
 func (s *xlsxSource) fail(err error) error {
 	s.done = true
 	if isLimit(err) {
-		return fmt.Errorf("%s, sheet %q, after row %d: %w", s.file, s.sheet, s.last, err)
+		if s.delivered == 0 {
+			return fmt.Errorf("%s, sheet %q: %w", s.file, s.sheet, err)
+		}
+		return fmt.Errorf("%s, sheet %q, after row %d: %w", s.file, s.sheet, s.delivered, err)
 	}
 	return fmt.Errorf("%s, sheet %q: the sheet's XML is damaged (%v), so the rows after row %d cannot be read: %w",
-		s.file, s.sheet, err, s.last, ErrUnsupportedInput)
+		s.file, s.sheet, err, s.delivered, ErrUnsupportedInput)
 }
 
 // readRow reads the row element just started.
@@ -149,6 +153,7 @@ func (s *xlsxSource) endRow(row *sheetRow, wide int) error {
 		return &CellError{Position: Position{File: s.file, Sheet: s.sheet, Row: row.Row},
 			Err: fmt.Errorf("the sheet holds more than %d cells up to this row; its rows reach too far to the right or are too many: %w", s.cellBudget, ErrInputTooLarge)}
 	}
+	s.delivered = row.Row
 	return nil
 }
 

@@ -16,12 +16,14 @@ import (
 // size, and encoding/xml keeps a record of every element still open, so
 // that a few MB of nested elements would otherwise take gigabytes and
 // minutes. Worksheet XML nests about seven deep (worksheet, sheetData,
-// row, c, is, r, t) and the other parts read about as deep; a sheet has at
-// most maxSheetCells cells, each an element or two (common practice, no
-// source).
+// row, c, is, r, t) and the other parts read about as deep. A sheet or a
+// shared-strings table may hold as many elements as a sheet may have cells
+// (maxSheetCells), some 20 million more than MaxUnzippedBytes of worksheet
+// XML holds, which encoding/xml reads in about three seconds (common
+// practice, no source).
 const (
 	maxXMLDepth        = 64
-	maxSheetXMLElement = 2 * maxSheetCells
+	maxSheetXMLElement = maxSheetCells
 	// maxMetaXMLElements bounds the package's other parts (relationships,
 	// the workbook part, styles, shared strings apart): a spreadsheet
 	// program's styles part holds at most some 65,000 cell formats.
