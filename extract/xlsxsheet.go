@@ -22,9 +22,10 @@ type xlsxSource struct {
 	cellBudget  int // the most cells read before the sheet is refused
 	done        bool
 	value, text []byte // the current cell's v and inline text
+	ahead       *readAhead
 }
 
-// Next reads the next row element. Rows the sheet leaves out are not
+// next reads the next row element. Rows the sheet leaves out are not
 // read; the row after them has AfterBlank set (a blank row ends a
 // correlation table). A numeric cell carries its stored value and
 // displayed text; a boolean or error cell what it shows; a text cell what
@@ -34,7 +35,7 @@ type xlsxSource struct {
 // up to more than cellBudget cells, XML beyond the part's limits, and
 // cells whose shared strings, counted each time they are used, take the
 // workbook beyond MaxUnzippedBytes.
-func (s *xlsxSource) Next(row *sheetRow) error {
+func (s *xlsxSource) next(row *sheetRow) error {
 	for !s.done {
 		tok, err := s.x.Token()
 		if err == io.EOF {
@@ -275,6 +276,3 @@ func (s *xlsxSource) tooMuchText(row *sheetRow, col int) error {
 		Err: fmt.Errorf("the workbook's unpacked parts and the shared strings of its cells, each counted every time a cell uses it, come to more than %d MiB at this cell: %w",
 			MaxUnzippedBytes>>20, ErrInputTooLarge)}
 }
-
-// Close closes the sheet's part.
-func (s *xlsxSource) Close() error { return s.x.Close() }
