@@ -6,7 +6,6 @@ import (
 	"compress/flate"
 	"errors"
 	"fmt"
-	"io"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -14,8 +13,6 @@ import (
 	"strings"
 	"testing"
 	"time"
-
-	"github.com/xuri/excelize/v2"
 )
 
 var coefficientHeader = xrow("study", "label", "measure", "estimate", "ci_low", "ci_high", "se", "p", "n")
@@ -126,7 +123,9 @@ func TestWorkbookSheets(t *testing.T) {
 		xsheet{"Instructions", [][]xcell{xrow("not read")}},
 		xsheet{"COEFFICIENTS", [][]xcell{xrow("Study", " LABEL ", "Estimate", "Note"), xrow("s", "a", "0.40", "kept")}},
 		xsheet{"Claims", [][]xcell{xrow("STUDY", "claim", "first", "second", "published"), xrow("s", "c1", "a", "b", "Differ")}},
-		xsheet{"Table 2", [][]xcell{xrow("n", "100"), xrow("variable", "1", "2"), xrow("1. A", "—"), xrow("2. B", ".30", "—")}},
+		// A row left out of the sheet's XML ends the table, as a blank row
+		// does: the row after it is not the table's.
+		xsheet{"Table 2", [][]xcell{xrow("n", "100"), xrow("variable", "1", "2"), xrow("1. A", "—"), xrow("2. B", ".30", "—"), nil, xrow("3. C", ".20", ".10", "—")}},
 	)
 	in, err := Read(path)
 	if err != nil {
@@ -145,8 +144,8 @@ func TestWorkbookSheets(t *testing.T) {
 	if in.Claims[0].Published != PublishedDiffer {
 		t.Errorf("claim published = %q, want %q", in.Claims[0].Published, PublishedDiffer)
 	}
-	if tb := in.Tables[0]; tb.Name != "2" || tb.Study != "2" || tb.R[0][1].Value != 0.30 {
-		t.Errorf("table = name %q study %q r %v, want name 2, study 2, r .30", tb.Name, tb.Study, tb.R[0][1].Value)
+	if tb := in.Tables[0]; tb.Name != "2" || tb.Study != "2" || len(tb.Variables) != 2 || tb.R[0][1].Value != 0.30 {
+		t.Errorf("table = name %q study %q variables %q r %v, want name 2, study 2, variables A and B, r .30", tb.Name, tb.Study, tb.Variables, tb.R[0][1].Value)
 	}
 
 	noCoef := writeWorkbook(t, dir, "nocoef.xlsx",
@@ -243,7 +242,7 @@ func compress(t *testing.T, data []byte, finish func(*flate.Writer) error) []byt
 }
 
 // TestZipBomb refuses archives that declare, pack or hide too much, before
-// excelize sees them.
+// any part is parsed.
 func TestZipBomb(t *testing.T) {
 	dir := t.TempDir()
 	zeros := make([]byte, 20<<20)
@@ -381,139 +380,3 @@ func TestWorkbookMessage(t *testing.T) {
 		t.Errorf("problems:%s\nwant\n\t%s", problemTexts(in.Coefficients[0].Problems), want)
 	}
 }
-
-// TestWorkbookCellsAsExcelize reads cells of every kind and compares each
-// with what excelize, the reader this one replaced, reads from the same
-// file: a text cell's text and a numeric cell's stored value as its raw
-// value, a numeric cell's displayed text, and a boolean's or an error's
-// text as its formatted value. The first sheet is written by excelize (number
-// formats, rich text, booleans, a carriage return); the second is XML as
-// other writers write it (cells and rows without references, formula
-// results, errors, inline strings in runs, escapes, a prefix).
-func TestWorkbookCellsAsExcelize(t *testing.T) {
-	dir := t.TempDir()
-	f := excelize.NewFile()
-	must := func(err error) {
-		t.Helper()
-		if err != nil {
-			t.Fatal(err)
-		}
-	}
-	nums := []struct {
-		v    float64
-		code string
-	}{
-		{0.4, "0.00"}, {0.4349, "0.000"}, {0.125, "0.0%"}, {1234567.891, "#,##0.00"}, {0.000023, "0.00E+00"},
-		{43832, "yyyy-mm-dd"}, {0.1 + 0.2, ""}, {1e-7, ""}, {-2.5, "0.0;(0.0)"}, {12345678901234567, ""}, {0.123456789012, "General"},
-	}
-	for i, n := range nums {
-		ref, _ := excelize.CoordinatesToCellName(i+1, 1)
-		must(f.SetCellFloat("Sheet1", ref, n.v, -1, 64))
-		if n.code != "" {
-			code := n.code
-			id, err := f.NewStyle(&excelize.Style{CustomNumFmt: &code})
-			must(err)
-			must(f.SetCellStyle("Sheet1", ref, ref, id))
-		}
-	}
-	must(f.SetCellBool("Sheet1", "A2", true))
-	must(f.SetCellBool("Sheet1", "B2", false))
-	must(f.SetCellRichText("Sheet1", "C2", []excelize.RichTextRun{{Text: "rich "}, {Text: "text", Font: &excelize.Font{Bold: true}}}))
-	must(f.SetCellStr("Sheet1", "D2", "line\r\nbreak"))
-	must(f.SetCellStr("Sheet1", "F2", " spaced "))
-	must(f.SetCellInt("Sheet1", "G4", 2020))
-	_, err := f.NewSheet("xml")
-	must(err)
-	path := filepath.Join(dir, "cells.xlsx")
-	must(f.SaveAs(path))
-	must(f.Close())
-
-	// The second sheet, rebuilt as XML: a prefixed namespace, a row and
-	// cells without references, each kind of cell.
-	zr, err := zip.OpenReader(path)
-	must(err)
-	var names []string
-	data := map[string][]byte{}
-	for _, m := range zr.File {
-		rc, err := m.Open()
-		must(err)
-		b, err := io.ReadAll(rc)
-		rc.Close()
-		must(err)
-		names = append(names, m.Name)
-		data[m.Name] = b
-	}
-	zr.Close()
-	sheetXML := `<x:worksheet xmlns:x="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><x:sheetData>` +
-		`<x:row r="2"><x:c t="inlineStr"><x:is><x:r><x:t>in</x:t></x:r><x:r><x:t xml:space="preserve">line </x:t></x:r><x:rPh><x:t>phonetic</x:t></x:rPh></x:is></x:c>` +
-		`<x:c t="str"><x:f>A1&amp;"x"</x:f><x:v>formula text</x:v></x:c><x:c t="e"><x:v>#N/A</x:v></x:c><x:c><x:v>7</x:v></x:c>` +
-		`<x:c r="F2" t="inlineStr"><x:is><x:t>tab_x0009_here_x005F_x0041_</x:t></x:is></x:c><x:c r="G2"><x:f>1+1</x:f></x:c><x:c r="H2" s="0"/></x:row>` +
-		`<x:row><x:c r="B3" t="b"><x:v>1</x:v></x:c><x:c r="D3"><x:v>0.5</x:v></x:c></x:row>` +
-		`</x:sheetData></x:worksheet>`
-	rebuilt := filepath.Join(dir, "rebuilt.xlsx")
-	rebuildWorkbook(t, rebuilt, names, data, "xl/worksheets/sheet2.xml", []byte(sheetXML))
-
-	ref, err := excelize.OpenFile(rebuilt)
-	must(err)
-	defer ref.Close()
-	wb, err := openWorkbook(rebuilt)
-	must(err)
-	defer wb.Close()
-	compared := 0
-	for _, sheet := range []string{"Sheet1", "xml"} {
-		raw, err := ref.GetRows(sheet, excelize.Options{RawCellValue: true})
-		must(err)
-		shown, err := ref.GetRows(sheet)
-		must(err)
-		src, err := wb.source(sheet)
-		must(err)
-		got := map[int]*sheetRow{}
-		for {
-			row := &sheetRow{}
-			err := src.Next(row)
-			if err == io.EOF {
-				break
-			}
-			must(err)
-			if row.Problem != nil {
-				t.Errorf("%s row %d: problem %v", sheet, row.Row, row.Problem)
-			}
-			got[row.Row] = row
-		}
-		src.Close()
-		for r := range raw {
-			row := got[r+1]
-			var cells []sheetCell
-			if row != nil {
-				cells = row.Cells
-			}
-			if len(cells) != len(raw[r]) {
-				t.Errorf("%s row %d: %d cells, want %d as excelize reads it (%q)", sheet, r+1, len(cells), len(raw[r]), raw[r])
-				continue
-			}
-			for c := range raw[r] {
-				cell, want := cells[c], sheetCell{Text: raw[r][c]}
-				ctype, err := ref.GetCellType(sheet, must2(excelize.CoordinatesToCellName(c+1, r+1)))
-				must(err)
-				switch ctype {
-				case excelize.CellTypeNumber, excelize.CellTypeUnset:
-					if raw[r][c] != "" {
-						want = sheetCell{Text: raw[r][c], Display: shown[r][c], Numeric: true}
-					}
-				case excelize.CellTypeBool, excelize.CellTypeError:
-					want = sheetCell{Text: shown[r][c]}
-				}
-				if cell != want {
-					t.Errorf("%s row %d column %d (%v) = %+v, want %+v", sheet, r+1, c+1, ctype, cell, want)
-				}
-				compared++
-			}
-		}
-	}
-	if compared < 25 {
-		t.Errorf("compared %d cells, want all 25 written", compared)
-	}
-}
-
-// must2 returns v, for a call whose error cannot happen.
-func must2[T any](v T, _ error) T { return v }
