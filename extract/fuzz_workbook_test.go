@@ -48,16 +48,24 @@ const claimsPart = "xl/worksheets/sheet2.xml"
 // place of the part of that name.
 func rebuildWorkbook(t testing.TB, path string, names []string, data map[string][]byte, part string, replace []byte) {
 	t.Helper()
+	writeWorkbookParts(t, path, names, data, map[string][]byte{part: replace}, zip.Deflate)
+}
+
+// writeWorkbookParts writes the members to path, with the parts in
+// replace in place of theirs, each compressed with method (zip.Deflate, or
+// zip.Store for none).
+func writeWorkbookParts(t testing.TB, path string, names []string, data map[string][]byte, replace map[string][]byte, method uint16) {
+	t.Helper()
 	var buf bytes.Buffer
 	zw := zip.NewWriter(&buf)
 	for _, n := range names {
-		w, err := zw.Create(n)
+		w, err := zw.CreateHeader(&zip.FileHeader{Name: n, Method: method})
 		if err != nil {
 			t.Fatal(err)
 		}
 		b := data[n]
-		if n == part {
-			b = replace
+		if r, ok := replace[n]; ok {
+			b = r
 		}
 		if _, err := w.Write(b); err != nil {
 			t.Fatal(err)
@@ -81,6 +89,13 @@ func FuzzWorkbookSheet(f *testing.F) {
 		`<row r="1"><c r="A1" t="inlineStr"><is><t>study</t></is></c><c r="B1" t="inlineStr"><is><t>claim</t></is></c></row>` +
 		`<row><c t="n"><v>2020</v></c><c r="C2" t="b"><v>1</v></c></row>` +
 		`<row r="1048576"><c r="XFD1048576" t="e"><v>#N/A</v></c></row></sheetData></worksheet>`))
+	// Shared strings in and out of the table, rich text with a phonetic
+	// run, escapes, formulas, a row numbered before the one it follows.
+	f.Add([]byte(`<x:worksheet xmlns:x="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><x:sheetData>` +
+		`<x:row r="1"><x:c r="A1" t="s"><x:v>0</x:v></x:c><x:c t="s"><x:v>18</x:v></x:c><x:c t="s"><x:v>99999</x:v></x:c></x:row>` +
+		`<x:row r="3"><x:c t="inlineStr"><x:is><x:r><x:t>a_x000D_</x:t></x:r><x:rPh><x:t>b</x:t></x:rPh></x:is></x:c>` +
+		`<x:c t="str"><x:f>1</x:f><x:v>x</x:v></x:c><x:c s="1"><x:v>0.5</x:v></x:c><x:c t="b"><x:v>1</x:v></x:c></x:row>` +
+		`<x:row r="2"><x:c r="ZZZZ2"><x:v>1</x:v></x:c></x:row></x:sheetData></x:worksheet>`))
 	f.Fuzz(func(t *testing.T, sheetXML []byte) {
 		path := filepath.Join(t.TempDir(), "fuzz.xlsx")
 		rebuildWorkbook(t, path, names, data, claimsPart, sheetXML)

@@ -94,9 +94,8 @@ func writeBombWorkbook(t *testing.T, path string, unpacked int64, declared uint6
 
 // TestHostileWorkbookBomb hides a 1 GiB claims sheet in an otherwise valid
 // workbook of a few MiB, declaring its true size, a size under the limit,
-// or almost nothing. Each is refused with ErrInputTooLarge before excelize
-// sees the archive, allocating a few MiB at most (unpacking it would take a
-// GiB).
+// or almost nothing. Each is refused with ErrInputTooLarge before a row is
+// read, allocating a few MiB at most (unpacking it would take a GiB).
 func TestHostileWorkbookBomb(t *testing.T) {
 	dir := t.TempDir()
 	const gib = 1 << 30
@@ -186,7 +185,7 @@ func TestHostileMillionEmptyRows(t *testing.T) {
 	}
 	runtime.KeepAlive(in)
 
-	// The same rows left out entirely: excelize steps over the gap itself.
+	// The same rows left out entirely: the reader steps over the gap.
 	sparse := filepath.Join(t.TempDir(), "sparse.xlsx")
 	names, data := workbookParts(t)
 	rebuildWorkbook(t, sparse, names, data, claimsPart, claimsSheetXML("", 1_048_576))
@@ -210,15 +209,15 @@ func BenchmarkReadMillionEmptyRows(b *testing.B) {
 
 // TestHostileWideRows reads 2000 claims rows that each hold a value in
 // column XFD, the last a spreadsheet has: every row is kept with a problem
-// naming the column, without excelize building 16384 cells for each (about
-// 2 MiB a row, 4 GiB in all).
+// naming the column, without building 16384 cells for each (about 2 MiB a
+// row, 4 GiB in all).
 func TestHostileWideRows(t *testing.T) {
 	var b strings.Builder
 	for r := 3; r < 2003; r++ {
 		fmt.Fprintf(&b, `<row r="%d"><c r="A%d" t="inlineStr"><is><t>s</t></is></c><c r="XFD%d"><v>1</v></c></row>`, r, r, r)
 	}
-	// A row whose far cells carry only a style is not wide: excelize
-	// returns nothing for them, so it is read as usual.
+	// A row whose far cells carry only a style is not wide: a spreadsheet
+	// counts no cell without a value or a formula, so it is read as usual.
 	b.WriteString(`<row r="2003"><c r="A2003" t="inlineStr"><is><t>s</t></is></c><c r="B2003" t="inlineStr"><is><t>c3</t></is></c><c r="XFD2003" s="1"/></row>`)
 	path := filepath.Join(t.TempDir(), "wide.xlsx")
 	names, data := workbookParts(t)
@@ -246,9 +245,10 @@ func TestHostileWideRows(t *testing.T) {
 	t.Logf("allocated %d MiB", alloc>>20)
 }
 
-// TestSheetCellBudget checks the last line of defence for a workbook whose
-// cell types cannot be read: a sheet is refused once its rows add up to
-// more cells than its budget (maxSheetCells in use; 100 here).
+// TestSheetCellBudget checks that a sheet is refused once its rows add up
+// to more cells than its budget (maxSheetCells in use; 100 here), blank
+// cells within a row included: rows ending far to the right cost their
+// whole width.
 func TestSheetCellBudget(t *testing.T) {
 	var b strings.Builder
 	for r := 3; r < 40; r++ {
@@ -267,8 +267,7 @@ func TestSheetCellBudget(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer src.Close()
-	src.types.Close()
-	src.cellBudget, src.types = 100, nil
+	src.cellBudget = 100
 	_, _, err = readClaimSheet(src, Position{File: path, Sheet: "claims"})
 	var ce *CellError
 	if !errors.Is(err, ErrInputTooLarge) || !errors.As(err, &ce) || ce.Row != 21 || !strings.Contains(err.Error(), "more than 100 cells") {
@@ -277,7 +276,7 @@ func TestSheetCellBudget(t *testing.T) {
 }
 
 // TestHostileDamagedSheetXML breaks a claims sheet's XML after its first
-// rows. excelize reads a syntax error as the end of the sheet; Read must
+// rows. excelize read a syntax error as the end of the sheet; Read must
 // refuse the workbook instead of losing the rows after it silently.
 func TestHostileDamagedSheetXML(t *testing.T) {
 	names, data := workbookParts(t)
