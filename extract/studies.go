@@ -82,14 +82,19 @@ func Open(path string) (*Source, error) {
 }
 
 // FromInput makes a Source of an input already in memory (a workbook or a
-// folder read whole, or one built by a caller).
+// folder read whole, or one built by a caller). It takes the input over: it
+// numbers its claims (Index) and reads its rows as the studies are yielded,
+// building each study only when its turn comes, so that no more than one
+// study is copied at a time.
 func FromInput(in *Input) *Source {
 	s := &Source{Path: in.Source, problems: in.Problems}
 	s.ClaimColumns = unknownClaimColumns(in.Claims)
 	s.studies = func(yield func(*Study, error) bool) {
-		for _, st := range groupStudies(in) {
-			if !yield(st, nil) {
-				return
+		for _, plan := range planStudies(in) {
+			for _, st := range splitFamilies(plan.build(in)) {
+				if !yield(st, nil) {
+					return
+				}
 			}
 		}
 	}
@@ -132,76 +137,102 @@ func unknownClaimColumns(cs []Claim) []string {
 // studyKey is how correlations and tables are matched to a study.
 func studyKey(s string) string { return strings.ToLower(strings.TrimSpace(s)) }
 
-// groupStudies splits an input into its studies, in the order Open states.
-func groupStudies(in *Input) []*Study {
-	byName := map[string]*Study{}
-	var order []*Study
-	last := map[string]int{}
-	get := func(name string) *Study {
-		st := byName[name]
-		if st == nil {
-			st = &Study{Name: name}
-			byName[name] = st
-			order = append(order, st)
+// studyPlan lists the rows of an input that make one study, by index.
+type studyPlan struct {
+	name                                   string
+	claims, coefs, borrowed, corrs, tables []int
+	last                                   int // index of its last claims row
+}
+
+// build copies the study's rows out of the input.
+func (p *studyPlan) build(in *Input) *Study {
+	st := &Study{Name: p.name}
+	for _, i := range p.claims {
+		st.Claims = append(st.Claims, in.Claims[i])
+	}
+	for _, i := range p.coefs {
+		st.Coefficients = append(st.Coefficients, in.Coefficients[i])
+	}
+	for _, i := range p.borrowed {
+		st.Borrowed = append(st.Borrowed, in.Coefficients[i])
+	}
+	for _, i := range p.corrs {
+		st.Correlations = append(st.Correlations, in.Correlations[i])
+	}
+	for _, i := range p.tables {
+		t := in.Tables[i]
+		if t.owner != p.name {
+			t.Problems = nil // reported once, with the first study that has it
 		}
-		return st
+		st.Tables = append(st.Tables, t)
+	}
+	return st
+}
+
+// planStudies splits an input into its studies, in the order Open states,
+// numbering the claims in input order.
+func planStudies(in *Input) []*studyPlan {
+	byName := map[string]*studyPlan{}
+	var order []*studyPlan
+	get := func(name string) *studyPlan {
+		p := byName[name]
+		if p == nil {
+			p = &studyPlan{name: name}
+			byName[name] = p
+			order = append(order, p)
+		}
+		return p
 	}
 	for i := range in.Claims {
-		c := in.Claims[i]
-		c.Index = i
-		get(c.Study).Claims = append(get(c.Study).Claims, c)
-		last[c.Study] = i
+		in.Claims[i].Index = i
+		p := get(in.Claims[i].Study)
+		p.claims = append(p.claims, i)
+		p.last = i
 	}
 	coefs := map[[2]string]int{}
+	own := map[[2]string]bool{}
 	for i := range in.Coefficients {
-		c := in.Coefficients[i]
-		get(c.Study).Coefficients = append(get(c.Study).Coefficients, c)
-		if _, dup := coefs[[2]string{c.Study, c.Label}]; !dup {
-			coefs[[2]string{c.Study, c.Label}] = i
+		c := &in.Coefficients[i]
+		p := get(c.Study)
+		p.coefs = append(p.coefs, i)
+		k := [2]string{c.Study, c.Label}
+		own[k] = true
+		if _, dup := coefs[k]; !dup {
+			coefs[k] = i
 		}
 	}
-	byKey := map[string][]*Study{}
-	for _, st := range order {
-		byKey[studyKey(st.Name)] = append(byKey[studyKey(st.Name)], st)
+	byKey := map[string][]*studyPlan{}
+	for _, p := range order {
+		byKey[studyKey(p.name)] = append(byKey[studyKey(p.name)], p)
+	}
+	matching := func(study string) []*studyPlan {
+		ps := byKey[studyKey(study)]
+		if len(ps) == 0 {
+			ps = []*studyPlan{get(study)}
+			byKey[studyKey(study)] = ps
+		}
+		return ps
 	}
 	for i := range in.Correlations {
-		c := in.Correlations[i]
-		sts := byKey[studyKey(c.Study)]
-		if len(sts) == 0 {
-			st := get(c.Study)
-			byKey[studyKey(c.Study)] = []*Study{st}
-			sts = byKey[studyKey(c.Study)]
-		}
-		for _, st := range sts {
-			st.Correlations = append(st.Correlations, c)
+		for _, p := range matching(in.Correlations[i].Study) {
+			p.corrs = append(p.corrs, i)
 		}
 	}
 	for i := range in.Tables {
-		t := in.Tables[i]
-		sts := byKey[studyKey(t.Study)]
-		if len(sts) == 0 {
-			st := get(t.Study)
-			byKey[studyKey(t.Study)] = []*Study{st}
-			sts = byKey[studyKey(t.Study)]
-		}
-		for k, st := range sts {
-			if k > 0 {
-				t.Problems = nil // reported once, with the first study
-			}
-			st.Tables = append(st.Tables, t)
+		ps := matching(in.Tables[i].Study)
+		in.Tables[i].owner = ps[0].name
+		for _, p := range ps {
+			p.tables = append(p.tables, i)
 		}
 	}
 	// A label written "study:label" that is not a label of the claim's own
 	// study borrows the other study's coefficient.
-	for _, st := range order {
-		own := map[string]bool{}
-		for _, c := range st.Coefficients {
-			own[c.Label] = true
-		}
-		borrowed := map[[2]string]bool{}
-		for _, cl := range st.Claims {
+	for _, p := range order {
+		borrowed := map[int]bool{}
+		for _, ci := range p.claims {
+			cl := &in.Claims[ci]
 			for _, label := range []string{cl.First, cl.Second} {
-				if own[label] {
+				if own[[2]string{p.name, label}] {
 					continue
 				}
 				s, l, found := strings.Cut(label, ":")
@@ -209,28 +240,24 @@ func groupStudies(in *Input) []*Study {
 					continue
 				}
 				k := [2]string{strings.TrimSpace(s), strings.TrimSpace(l)}
-				if i, ok := coefs[k]; ok && !borrowed[k] && k[0] != st.Name {
-					borrowed[k] = true
-					st.Borrowed = append(st.Borrowed, in.Coefficients[i])
+				if i, ok := coefs[k]; ok && !borrowed[i] && k[0] != p.name {
+					borrowed[i] = true
+					p.borrowed = append(p.borrowed, i)
 				}
 			}
 		}
 	}
 	// Studies with claims, by their last claims row; then the others.
-	var with, without []*Study
-	for _, st := range order {
-		if len(st.Claims) > 0 {
-			with = append(with, st)
+	var with, without []*studyPlan
+	for _, p := range order {
+		if len(p.claims) > 0 {
+			with = append(with, p)
 		} else {
-			without = append(without, st)
+			without = append(without, p)
 		}
 	}
-	slices.SortStableFunc(with, func(a, b *Study) int { return cmp.Compare(last[a.Name], last[b.Name]) })
-	var out []*Study
-	for _, st := range append(with, without...) {
-		out = append(out, splitFamilies(st)...)
-	}
-	return out
+	slices.SortStableFunc(with, func(a, b *studyPlan) int { return cmp.Compare(a.last, b.last) })
+	return append(with, without...)
 }
 
 // splitFamilies cuts a study of more than MaxFamily claims into blocks of
