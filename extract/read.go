@@ -150,17 +150,17 @@ func readInto(in *Input, src rowSource, kind string, pos Position, sheetName str
 	switch kind {
 	case "coefficients":
 		cs, probs, err := readCoefficientSheet(src, pos)
-		in.Coefficients = append(in.Coefficients, cs...)
+		in.Coefficients = appendRows(in.Coefficients, cs)
 		in.Problems = append(in.Problems, probs...)
 		return err
 	case "claims":
 		cs, probs, err := readClaimSheet(src, pos)
-		in.Claims = append(in.Claims, cs...)
+		in.Claims = appendRows(in.Claims, cs)
 		in.Problems = append(in.Problems, probs...)
 		return err
 	case "correlations":
 		cs, probs, err := readCorrelationSheet(src, pos)
-		in.Correlations = append(in.Correlations, cs...)
+		in.Correlations = appendRows(in.Correlations, cs)
 		in.Problems = append(in.Problems, probs...)
 		return err
 	case "table":
@@ -178,4 +178,14 @@ func quoteAll(names []string) []string {
 		out[i] = fmt.Sprintf("%q", n)
 	}
 	return out
+}
+
+// appendRows appends a sheet's rows, taking the slice over when there is
+// nothing before it: a sheet is read once, and copying its rows would hold
+// them twice.
+func appendRows[T any](dst, rows []T) []T {
+	if len(dst) == 0 {
+		return rows
+	}
+	return append(dst, rows...)
 }
