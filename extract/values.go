@@ -2,6 +2,7 @@ package extract
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 )
 
@@ -58,28 +59,16 @@ func foldValue(s string) string {
 	return s
 }
 
-// allowedList returns allowedValues[column] without hashing the name, as
-// every row of a large input asks for it.
-func allowedList(column string) []string {
-	switch column {
-	case "measure":
-		return Measures
-	case "published":
-		return Verdicts
-	case "basis":
-		return Bases
-	}
-	return allowedValues[column]
-}
-
 // allowedValue maps a cell of the measure, published or basis column to its
 // canonical value. It fails with ErrUnknownValue naming the values allowed.
 func allowedValue(column, text string) (string, error) {
-	t := text
-	if !isTrimmed(t) {
-		t = trimSpace(t)
+	if len(text) > maxAllowedText {
+		// No allowed value is this long; folding a huge cell would copy it.
+		return "", fmt.Errorf("%s is not a %s value (allowed: %s): %w",
+			quoteShort(text), column, strings.Join(allowedValues[column], ", "), ErrUnknownValue)
 	}
-	allowed := allowedList(column)
+	t := trimSpace(text)
+	allowed := allowedValues[column]
 	for _, a := range allowed {
 		if t == a {
 			return a, nil
@@ -94,6 +83,23 @@ func allowedValue(column, text string) (string, error) {
 	if a, ok := valueAliases[column][v]; ok {
 		return a, nil
 	}
-	return "", fmt.Errorf("%q is not a %s value (allowed: %s): %w",
-		trimSpace(text), column, strings.Join(allowedValues[column], ", "), ErrUnknownValue)
+	return "", fmt.Errorf("%s is not a %s value (allowed: %s): %w",
+		quoteShort(t), column, strings.Join(allowedValues[column], ", "), ErrUnknownValue)
+}
+
+// maxAllowedText is longer than any allowed value or alias of one.
+const maxAllowedText = 64
+
+// quoteShort quotes a cell for a message, cut to its first 60 characters:
+// a message names the cell, it need not repeat a megabyte of it.
+func quoteShort(s string) string {
+	s = trimSpace(s)
+	n := 0
+	for i := range s {
+		if n == 60 {
+			return strconv.Quote(s[:i]) + fmt.Sprintf("… (%d bytes)", len(s))
+		}
+		n++
+	}
+	return strconv.Quote(s)
 }
