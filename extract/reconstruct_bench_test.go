@@ -72,3 +72,59 @@ func BenchmarkReconstruct(b *testing.B) {
 		b.ReportMetric(float64(m.mallocsSince())/float64(done), "allocs/coefficient")
 	}
 }
+
+// BenchmarkReconstructPairedFile streams the paired CSV named by the
+// environment variable COEFAUDIT_PAIRED_CSV through PairedReader and
+// rebuilds the SE of both sides of every row, the extract half of an audit
+// of a large literature. It is skipped when the variable is unset or the
+// file is absent; the README's file of a million invented claims is made by
+//
+//	go run ./fixtures/gen_paired.go -n 1000000 -o /tmp/paired-x.csv
+//
+// Each coefficient is taken to come from a model of two listed
+// coefficients (the two sides of a claim), which sets the df derived as
+// n − k − 1 for a regression coefficient without a printed df.
+func BenchmarkReconstructPairedFile(b *testing.B) {
+	path := os.Getenv("COEFAUDIT_PAIRED_CSV")
+	if path == "" {
+		b.Skip("COEFAUDIT_PAIRED_CSV is not set")
+	}
+	if _, err := os.Stat(path); err != nil {
+		b.Skipf("no paired CSV: %v", err)
+	}
+	b.ReportAllocs()
+	rows, rebuilt := 0, 0
+	m := startPerRow()
+	for b.Loop() {
+		f, err := os.Open(path)
+		if err != nil {
+			b.Fatal(err)
+		}
+		pr, err := NewPairedReader(f, path)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for {
+			pc, err := pr.Next()
+			if err == io.EOF {
+				break
+			}
+			if err != nil {
+				b.Fatal(err)
+			}
+			rows++
+			for _, c := range []*Coefficient{&pc.First, &pc.Second} {
+				// Rows with nothing to rebuild from, or broken on purpose,
+				// give an error, as they would in an audit.
+				if _, err := Reconstruct(c, 2); err == nil {
+					rebuilt++
+				}
+			}
+		}
+		f.Close()
+	}
+	if rows > 0 {
+		b.ReportMetric(float64(rebuilt)/float64(2*rows), "rebuilt/side")
+	}
+	m.report(b, rows)
+}
