@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"coefaudit/infer"
 )
@@ -181,7 +182,7 @@ func namedQuantile(what string, df float64) string {
 	if math.IsNaN(df) {
 		return what + " (normal)"
 	}
-	return fmt.Sprintf("%s (t, df %g)", what, df)
+	return what + " (t, df " + strconv.FormatFloat(df, 'g', -1, 64) + ")" // df as %g prints it
 }
 
 // smallDF is the df below which a derived df is worth a note: above it the
