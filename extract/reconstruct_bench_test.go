@@ -1,7 +1,6 @@
 package extract
 
 import (
-	"io"
 	"os"
 	"testing"
 )
@@ -12,25 +11,8 @@ import (
 // an exact p and a p bound, so that every common path of Reconstruct runs.
 func benchCoefficients(b *testing.B, rows int) []Coefficient {
 	b.Helper()
-	path := writeBenchPaired(b, rows)
-	f, err := os.Open(path)
-	if err != nil {
-		b.Fatal(err)
-	}
-	defer f.Close()
-	pr, err := NewPairedReader(f, path)
-	if err != nil {
-		b.Fatal(err)
-	}
 	var out []Coefficient
-	for {
-		pc, err := pr.Next()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			b.Fatal(err)
-		}
+	readPairedClaims(b, writeBenchPaired(b, rows), func(pc PairedClaim) {
 		for _, c := range []Coefficient{pc.First, pc.Second} {
 			out = append(out, c)
 			bare := c
@@ -46,7 +28,7 @@ func benchCoefficients(b *testing.B, rows int) []Coefficient {
 				out = append(out, withP, withBound)
 			}
 		}
-	}
+	})
 	return out
 }
 
@@ -96,23 +78,7 @@ func BenchmarkReconstructPairedFile(b *testing.B) {
 	rows, rebuilt := 0, 0
 	m := startPerRow()
 	for b.Loop() {
-		f, err := os.Open(path)
-		if err != nil {
-			b.Fatal(err)
-		}
-		pr, err := NewPairedReader(f, path)
-		if err != nil {
-			b.Fatal(err)
-		}
-		for {
-			pc, err := pr.Next()
-			if err == io.EOF {
-				break
-			}
-			if err != nil {
-				b.Fatal(err)
-			}
-			rows++
+		rows += readPairedClaims(b, path, func(pc PairedClaim) {
 			for _, c := range []*Coefficient{&pc.First, &pc.Second} {
 				// Rows with nothing to rebuild from, or broken on purpose,
 				// give an error, as they would in an audit.
@@ -120,8 +86,7 @@ func BenchmarkReconstructPairedFile(b *testing.B) {
 					rebuilt++
 				}
 			}
-		}
-		f.Close()
+		})
 	}
 	if rows > 0 {
 		b.ReportMetric(float64(rebuilt)/float64(2*rows), "rebuilt/side")
