@@ -326,7 +326,9 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 		if err != nil {
 			return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
 		}
-		hi, _ := infer.StandardErrorFromP(aHi, c.P.Value, rc.DF)
+		// At the same p the SE is proportional to |estimate|: the largest
+		// estimate the rounding allows gives the largest SE.
+		hi := se * aHi / math.Abs(rc.Estimate)
 		rc.SE, rc.SERange = se, infer.Range{Lo: se * 1e-6, Hi: hi}
 		rc.SEFrom = namedQuantile("estimate, p bound", rc.DF)
 		rc.PrintedP, rc.PBelow = c.P.Value, true

@@ -22,10 +22,10 @@ func benchCoefficients(b *testing.B, rows int) []Coefficient {
 			withStat.Stat = Printed{Value: 2.41, Decimals: 2, Bound: Exact, Text: "2.41"}
 			withP.P = Printed{Value: 0.032, Decimals: 3, Bound: Exact, Text: "0.032"}
 			withBound.P = Printed{Value: 0.001, Decimals: 3, Bound: Below, Text: "p < .001"}
-			out = append(out, withSE, withStat)
+			out = append(out, withSE)
 			if c.Estimate.Value != 0 {
-				// A zero estimate fixes no SE from its p.
-				out = append(out, withP, withBound)
+				// A zero estimate fixes no SE from its statistic or p.
+				out = append(out, withStat, withP, withBound)
 			}
 		}
 	})
