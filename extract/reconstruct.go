@@ -236,7 +236,7 @@ func (rc *Reconstructed) fromInterval(c *Coefficient, loR, hiR infer.Range) erro
 		return fmt.Errorf("%w: interval limits %s and %s are reversed or equal", ErrNoStandardError, c.CI.Low.Text, c.CI.High.Text)
 	}
 	if err != nil {
-		return fmt.Errorf("%w: %v", ErrNoStandardError, err)
+		return fmt.Errorf("%w: %w", ErrNoStandardError, err)
 	}
 	// Limits printed so coarsely that they may meet (the narrowest interval
 	// is empty) still bound the SE away from 0: at least a thousandth of it.
@@ -293,7 +293,7 @@ func (rc *Reconstructed) fromStatistic(c *Coefficient) error {
 	}
 	se, err := infer.StandardErrorFromStatistic(rc.Estimate, c.Stat.Value, true)
 	if err != nil {
-		return fmt.Errorf("%w: statistic %s: %v", ErrNoStandardError, c.Stat.Text, err)
+		return fmt.Errorf("%w: statistic %s: %w", ErrNoStandardError, c.Stat.Text, err)
 	}
 	slo, shi := c.Stat.RoundingInterval()
 	aLo, aHi := absRange(rc.EstimateRange)
@@ -324,7 +324,7 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 	if c.P.Bound == Below {
 		se, err := infer.StandardErrorFromP(rc.Estimate, c.P.Value, rc.DF)
 		if err != nil {
-			return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+			return fmt.Errorf("%w: p %s: %w", ErrNoStandardError, c.P.Text, err)
 		}
 		// At the same p the SE is proportional to |estimate|: the largest
 		// estimate the rounding allows gives the largest SE.
@@ -347,7 +347,7 @@ func (rc *Reconstructed) fromP(c *Coefficient) error {
 	lo, err1 := infer.StandardErrorFromP(math.Max(aLo, 1e-3*math.Abs(rc.Estimate)), plo, rc.DF)
 	hi, err2 := infer.StandardErrorFromP(aHi, phi, rc.DF)
 	if err := errors.Join(err1, err2); err != nil {
-		return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+		return fmt.Errorf("%w: p %s: %w", ErrNoStandardError, c.P.Text, err)
 	}
 	rc.SE, rc.SERange = se, infer.Range{Lo: lo, Hi: hi}
 	rc.SEFrom = namedQuantile("estimate, p", rc.DF)
