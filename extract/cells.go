@@ -238,33 +238,19 @@ func (r *rowReading) number(i int, kind numberKind) Printed {
 }
 
 // numberInto is number writing into dst, which must be the zero Printed
-// (Absent). A plain numeral in a text cell, nearly every cell of a large
-// input, is read in place; cellNumber reads it the same way.
+// (Absent); a problem is recorded and leaves dst Absent.
 func (r *rowReading) numberInto(dst *Printed, i int, kind numberKind) {
-	// Small enough to be inlined: a missing column reads as a blank cell,
-	// Absent, at no cost.
-	if i >= 0 && i < len(r.cells) {
-		r.cellNumberInto(dst, i, kind)
+	if i < 0 || i >= len(r.cells) {
+		return // a missing column reads as a blank cell
 	}
-}
-
-// cellNumberInto is numberInto for a column of the row.
-func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
 	c := &r.cells[i]
-	if !c.Numeric {
-		s := c.Text
-		if !isTrimmed(s) {
-			s = trimSpace(s)
-		}
-		if s == "" {
-			return
-		}
-		if p, ok := plainPrinted(s, kind); ok {
-			*dst = p
-			return
-		}
+	if !c.Numeric && c.trimmed() == "" {
+		// Blank, Absent, as cellNumber would read it. Most cells of a wide
+		// paired CSV are blank, and parsing them measurably slows
+		// BenchmarkReconstructPairedFile.
+		return
 	}
-	p, err := cellNumberGeneral(*c, kind)
+	p, err := cellNumber(*c, kind)
 	if err != nil {
 		r.fail(i, err)
 		return
@@ -276,32 +262,6 @@ func (r *rowReading) cellNumberInto(dst *Printed, i int, kind numberKind) {
 // numeric cell takes its value from the stored number and its decimals from
 // the displayed text, with DecimalsFromDisplay set.
 func cellNumber(c sheetCell, kind numberKind) (Printed, error) {
-	if !c.Numeric {
-		s := trimSpace(c.Text)
-		if s == "" {
-			return Printed{Bound: Absent}, nil
-		}
-		if p, ok := plainPrinted(s, kind); ok {
-			return p, nil
-		}
-	}
-	return cellNumberGeneral(c, kind)
-}
-
-// plainPrinted reads s, trimmed and not empty, when it is a plain numeral
-// (plainNumeral) that kind accepts as it is (a p must lie in [0, 1]), as
-// cellNumberGeneral would read it; it reports false otherwise. Nearly every
-// numeric cell of a large input is read here.
-func plainPrinted(s string, kind numberKind) (Printed, bool) {
-	v, dec, ok := plainNumeral(s)
-	if !ok || (kind == kindP && !(v >= 0 && v <= 1)) {
-		return Printed{}, false
-	}
-	return Printed{Value: v, Decimals: int32(dec), Bound: Exact, Text: s}, true
-}
-
-// cellNumberGeneral is cellNumber for any cell.
-func cellNumberGeneral(c sheetCell, kind numberKind) (Printed, error) {
 	if !c.Numeric {
 		switch kind {
 		case kindLimit:

@@ -34,14 +34,12 @@ type PairedClaim struct {
 }
 
 // PairedReader streams a paired CSV, one claim per row with both
-// coefficients inline, for files too large to hold (a million claims). It
-// reuses its buffers: the cells of one row share one allocation, the two
-// labels another, and a row allocates nothing else unless it has problems
-// or unknown columns. What Next returns is the caller's alone: its strings
-// never change and its slices (Problems, Extra) belong to no other claim
-// and are never written by the reader again, so claims may be handed to
-// other goroutines while the reader goes on. Within a row, the two
-// coefficients' Extra is the claim's (one set of unknown columns per row).
+// coefficients inline, for files too large to hold (a million claims).
+// What Next returns is the caller's alone: its strings never change and its
+// slices (Problems, Extra) belong to no other claim and are never written
+// by the reader again, so claims may be handed to other goroutines while
+// the reader goes on. Within a row, the two coefficients' Extra is the
+// claim's (one set of unknown columns per row).
 //
 // The coefficients' labels are "<claim>/<label>", where label is the
 // first_label (second_label) cell or, when blank, "first" ("second"); so
@@ -60,10 +58,7 @@ type PairedReader struct {
 	claim         claimColumns
 	first, second coefficientColumns
 	row           sheetRow
-	rr            rowReading
 	err           error
-	// labels holds the text of the rows' unique labels.
-	labels TextChunks
 }
 
 // NewPairedReader reads the header of a paired CSV from r; name is the file
@@ -116,45 +111,32 @@ func (p *PairedReader) Problems() []*CellError { return p.cols.problems }
 // Next returns the next claim with its two coefficients, skipping blank
 // rows, and io.EOF after the last. Any other error (an input beyond the
 // limits, a read error) is returned again by every later call.
-func (p *PairedReader) Next() (pc PairedClaim, err error) {
-	// pc is named so that the claim is built in the result itself rather
-	// than built and then copied (it is some 1.3 kB).
-	err = p.ReadInto(&pc)
-	return pc, err
-}
-
-// ReadInto is Next writing the claim into *pc, which it overwrites whole:
-// a caller holding many claims saves copying each. The storage of the
-// unknown columns (Extra) of the claim *pc held before is reused, so that
-// claim's Extra must not be kept. On an error *pc is the zero PairedClaim.
-func (p *PairedReader) ReadInto(pc *PairedClaim) error {
-	reuse := pc.Claim.Extra
-	*pc = PairedClaim{}
+func (p *PairedReader) Next() (PairedClaim, error) {
 	if p.err != nil {
-		return p.err
+		return PairedClaim{}, p.err
 	}
 	for {
 		if err := p.src.Next(&p.row); err != nil {
 			p.err = err
-			return err
+			return PairedClaim{}, err
 		}
 		if !p.row.blank() {
 			break
 		}
 	}
-	rr := &p.rr
+	var rr rowReading
 	rr.start(p.cols, &p.row, Position{File: p.name})
-	readClaimInto(rr, &p.claim, false, &pc.Claim)
-	pc.Claim.Extra = rr.extraInto(reuse)
+	pc := PairedClaim{Claim: readClaim(&rr, &p.claim, false)}
+	pc.Claim.Extra = rr.extra()
 	claimProblems := rr.problems
 
 	rr.problems = nil
-	readCoefficientInto(rr, &p.first, &pc.First)
+	pc.First = readCoefficient(&rr, &p.first)
 	rr.problems = nil
-	readCoefficientInto(rr, &p.second, &pc.Second)
+	pc.Second = readCoefficient(&rr, &p.second)
 	pc.First.Study, pc.Second.Study = pc.Claim.Study, pc.Claim.Study
 	pc.First.Extra, pc.Second.Extra = pc.Claim.Extra, pc.Claim.Extra
-	pc.First.Label, pc.Second.Label = pairedLabels(&p.labels, pc.Claim.Claim, pc.First.Label, pc.Second.Label)
+	pc.First.Label, pc.Second.Label = pairedLabels(pc.Claim.Claim, pc.First.Label, pc.Second.Label)
 	pc.Claim.First, pc.Claim.Second = pc.First.Label, pc.Second.Label
 	if pc.First.Label == pc.Second.Label {
 		rr.problems = claimProblems
@@ -162,25 +144,19 @@ func (p *PairedReader) ReadInto(pc *PairedClaim) error {
 		claimProblems = rr.problems
 	}
 	pc.Claim.Problems = claimProblems
-	return nil
+	return pc, nil
 }
 
 // pairedLabels makes the two labels of a claim unique per claim,
-// "<claim>/<label>" with "first" and "second" for blank labels, as the two
-// halves of one string that text makes (a nil text allocates it).
-func pairedLabels(text *TextChunks, claim, first, second string) (string, string) {
+// "<claim>/<label>", with "first" and "second" for blank labels.
+func pairedLabels(claim, first, second string) (string, string) {
 	if first == "" {
 		first = "first"
 	}
 	if second == "" {
 		second = "second"
 	}
-	var buf [128]byte
-	b := append(append(append(buf[:0], claim...), '/'), first...)
-	n := len(b)
-	b = append(append(append(b, claim...), '/'), second...)
-	both := text.String(b)
-	return both[:n], both[n:]
+	return claim + "/" + first, claim + "/" + second
 }
 
 // readPairedFile reads a whole paired CSV into an Input, checking claim

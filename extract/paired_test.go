@@ -396,35 +396,3 @@ func TestPairedReaderConcurrentConsumers(t *testing.T) {
 		t.Errorf("workers saw %d rows, want %d", len(seen), n)
 	}
 }
-
-// TestPairedReaderReadInto checks that ReadInto into a slot still holding
-// an earlier row writes exactly what Next returns, and leaves the zero
-// PairedClaim with io.EOF after the last row.
-func TestPairedReaderReadInto(t *testing.T) {
-	const n = 48
-	next, err := NewPairedReader(bytes.NewReader(pairedMixed(n)), "mixed.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	into, err := NewPairedReader(bytes.NewReader(pairedMixed(n)), "mixed.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var slot PairedClaim
-	for i := 0; ; i++ {
-		want, errNext := next.Next()
-		errInto := into.ReadInto(&slot)
-		if errNext != errInto {
-			t.Fatalf("row %d: Next error %v, ReadInto error %v", i, errNext, errInto)
-		}
-		if errNext == io.EOF {
-			if !equalPaired(slot, PairedClaim{}) {
-				t.Errorf("after the last row ReadInto left %s, want the zero PairedClaim", describePaired(slot))
-			}
-			break
-		}
-		if !equalPaired(slot, want) {
-			t.Fatalf("row %d: ReadInto gave\n%s\nNext gave\n%s", i, describePaired(slot), describePaired(want))
-		}
-	}
-}

@@ -102,23 +102,8 @@ const (
 	numberLimit
 )
 
-// parsePrinted reads a printed number: the common plain numeral by
-// plainNumeral, anything else by parsePrintedGeneral, which gives the same
-// result for a plain numeral too (a test checks that they agree).
+// parsePrinted reads any printed number ParseNumber and ParseCount accept.
 func parsePrinted(text string, mode numberMode, kind error) (Printed, error) {
-	s := trimSpace(text)
-	if s == "" {
-		return Printed{Bound: Absent}, nil
-	}
-	if p, ok := plainPrinted(s, kindNumber); ok {
-		return p, nil
-	}
-	return parsePrintedGeneral(s, mode, kind)
-}
-
-// parsePrintedGeneral reads any printed number ParseNumber and ParseCount
-// accept.
-func parsePrintedGeneral(text string, mode numberMode, kind error) (Printed, error) {
 	s := trimSpace(text)
 	if s == "" {
 		return Printed{Bound: Absent}, nil

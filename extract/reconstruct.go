@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-	"sync/atomic"
 
 	"coefaudit/infer"
 )
@@ -43,8 +42,6 @@ type Reconstructed struct {
 	// printed one, with no tail to compute.
 	PrintedP float64
 	PBelow   bool
-	// text, when set, holds the text of the notes.
-	text *TextChunks
 	// DF is the df used for the t quantile, NaN when the normal was used.
 	DF float64
 	// N is the printed n, NaN when blank.
@@ -68,28 +65,20 @@ type Reconstructed struct {
 // a regression coefficient of a model with k listed coefficients (an upper
 // bound on the true df when covariates went unlisted). Ratio measures and
 // correlations use the normal, as their intervals are large-sample Wald or
-// Fisher-z intervals.
+// Fisher-z intervals. The SE itself, and the SEs at the ends of its rounding
+// range, are infer's: StandardErrorFromCI, StandardErrorsFromHalfWidths,
+// StandardErrorFromStatistic and StandardErrorFromP.
 func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
-	var rc Reconstructed
-	err := ReconstructInto(&rc, c, modelSize, nil)
-	return rc, err
-}
-
-// ReconstructInto is Reconstruct writing into rc, whose Notes storage it
-// reuses, with the text of the notes in text when it is not nil: a
-// streamed audit rebuilds two coefficients a claim, and the Reconstructed
-// (some 200 bytes) is then neither built nor copied out.
-func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *TextChunks) error {
-	*rc = Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
+	rc := Reconstructed{Label: c.Label, Measure: c.Measure, Scale: ScaleAsPrinted,
 		DF: math.NaN(), N: math.NaN(), CI: [2]float64{math.NaN(), math.NaN()},
-		PrintedP: math.NaN(), Notes: rc.Notes[:0], text: text}
+		PrintedP: math.NaN()}
 	level := c.CILevel
 	if level == 0 {
 		level = DefaultCILevel
 	}
 	rc.Level = level / 100
 	if !c.Estimate.IsExact() {
-		return errNoEstimate
+		return rc, errNoEstimate
 	}
 	if c.N.IsExact() {
 		rc.N = c.N.Value
@@ -103,9 +92,9 @@ func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *Tex
 	var err error
 	rc.Estimate, rc.EstimateRange, err = rc.onScale(c.Measure, c.Estimate)
 	if err != nil {
-		return err
+		return rc, err
 	}
-	rc.DF = chooseDF(c, modelSize, rc)
+	rc.DF = rc.chooseDF(c, modelSize)
 
 	// The limits' rounding intervals on the scale, kept for fromInterval.
 	var loR, hiR infer.Range
@@ -113,7 +102,7 @@ func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *Tex
 		lo, lr, err1 := rc.onScale(c.Measure, c.CI.Low)
 		hi, hr, err2 := rc.onScale(c.Measure, c.CI.High)
 		if err := errors.Join(err1, err2); err != nil {
-			return err
+			return rc, err
 		}
 		rc.CI, loR, hiR = [2]float64{lo, hi}, lr, hr
 	}
@@ -136,36 +125,23 @@ func ReconstructInto(rc *Reconstructed, c *Coefficient, modelSize int, text *Tex
 		rc.SEFrom = "se"
 		rc.SEExactRange = true
 		if rc.Scale != ScaleAsPrinted {
-			rc.noteOnScale(c.Label, ": the printed SE is taken to be on the ")
+			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the printed SE is taken to be on the %s scale", c.Label, rc.Scale))
 		}
 	case c.CI.Present():
-		if err := rc.fromInterval(c, loR, hiR); err != nil {
-			return err
-		}
+		err = rc.fromInterval(c, loR, hiR)
 	case c.Stat.IsExact() && c.Stat.Value != 0:
-		if rc.Estimate == 0 {
-			where := "printed as " + c.Estimate.Text
-			if rc.Scale != ScaleAsPrinted {
-				where = c.Estimate.Text + ", 0 on the " + rc.Scale + " scale"
-			}
-			return fmt.Errorf("%w: the estimate is %s, so estimate/statistic gives an SE of 0", ErrNoStandardError, where)
-		}
-		rc.fromStatistic(c)
+		err = rc.fromStatistic(c)
 	case c.P.IsExact() || c.P.Bound == Below:
-		if err := rc.fromP(c); err != nil {
-			return err
-		}
+		err = rc.fromP(c)
+	case c.P.Bound == NotSignificant || c.P.Bound == Above:
+		err = fmt.Errorf("%w: only %q printed for p, which bounds nothing useful", ErrNoStandardError, c.P.Text)
 	default:
-		if c.P.Bound == NotSignificant || c.P.Bound == Above {
-			return fmt.Errorf("%w: only %q printed for p, which bounds nothing useful", ErrNoStandardError, c.P.Text)
-		}
-		return errNothingPrinted
+		err = errNothingPrinted
 	}
-	return nil
+	return rc, err
 }
 
-// The two commonest reasons for no SE, made once: a file of a million rows
-// may give one of them on every other row.
+// The two commonest reasons for no SE.
 var (
 	errNoEstimate     = fmt.Errorf("%w: no estimate printed", ErrNoStandardError)
 	errNothingPrinted = fmt.Errorf("%w: no SE, interval, statistic or p-value printed", ErrNoStandardError)
@@ -201,60 +177,12 @@ func (rc *Reconstructed) transform(x float64) float64 {
 }
 
 // namedQuantile is what+" (normal)" or what+" (t, df 568)": the printed
-// numbers an SE came from and the quantile it was scaled by. It builds the
-// string that fmt.Sprintf("%s (t, df %g)", what, df) would, in one
-// allocation; strconv's shortest 'g' format is what %g prints for a
-// float64 (a test checks that they agree).
+// numbers an SE came from and the quantile it was scaled by.
 func namedQuantile(what string, df float64) string {
 	if math.IsNaN(df) {
-		for i, n := range quantileNames {
-			if what == n {
-				return normalQuantileNames[i] // the common ones, without allocating
-			}
-		}
 		return what + " (normal)"
 	}
-	slot := quantileNameSlot(what, df)
-	if slot != nil {
-		if s := slot.Load(); s != nil {
-			return *s
-		}
-	}
-	s := textWithNumber(what, " (t, df ", df, ")")
-	if slot != nil {
-		slot.Store(&s)
-	}
-	return s
-}
-
-// quantileNames are the sources of an SE namedQuantile is most often asked
-// to name; with a whole df up to maxNamedDF the name is made once and kept
-// in a slot read without a lock, as the SE of nearly every row is named.
-var quantileNames = [...]string{"ci_low, ci_high", "ci", "estimate, p", "estimate, p bound"}
-
-// normalQuantileNames are the quantileNames with the normal quantile.
-var normalQuantileNames = func() (names [len(quantileNames)]string) {
-	for i, n := range quantileNames {
-		names[i] = n + " (normal)"
-	}
-	return names
-}()
-
-const maxNamedDF = 4096
-
-var quantileNameSlots [len(quantileNames)][maxNamedDF]atomic.Pointer[string]
-
-func quantileNameSlot(what string, df float64) *atomic.Pointer[string] {
-	d := int(df)
-	if float64(d) != df || d < 1 || d > maxNamedDF {
-		return nil
-	}
-	for i, n := range quantileNames {
-		if what == n {
-			return &quantileNameSlots[i][d-1]
-		}
-	}
-	return nil
+	return what + " (t, df " + strconv.FormatFloat(df, 'g', -1, 64) + ")" // df as %g prints it
 }
 
 // smallDF is the df below which a derived df is worth a note: above it the
@@ -271,7 +199,9 @@ func DerivesDFFromModelSize(c *Coefficient) bool {
 
 func dfPrinted(c *Coefficient) bool { return c.DF.IsExact() && c.DF.Value > 0 }
 
-func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
+// chooseDF returns the df of c's t quantile, NaN for the normal, noting a
+// small df it derived.
+func (rc *Reconstructed) chooseDF(c *Coefficient, modelSize int) float64 {
 	if dfPrinted(c) {
 		return c.DF.Value
 	}
@@ -279,18 +209,15 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	switch {
 	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
 		if n-2 < smallDF {
-			var buf [128]byte
-			rc.note(appendTextWithNumber(buf[:0], c.Label, ": df taken as n − 2 = ", n-2, " (two groups)"))
+			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
 		}
 		return n - 2
 	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
 		if n-k-1 > 0 {
 			if n-k-1 < smallDF {
-				var buf [192]byte
-				b := appendTextWithNumber(buf[:0], c.Label, ": df taken as n − k − 1 = ", n-k-1, " with the k = ")
-				b = strconv.AppendFloat(b, k, 'g', -1, 64)
-				rc.note(append(b, " coefficients listed for its model; unlisted covariates would lower it"...))
+				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − k − 1 = %g with the k = %g coefficients listed for its model; unlisted covariates would lower it",
+					c.Label, n-k-1, k))
 			}
 			return n - k - 1
 		}
@@ -298,134 +225,131 @@ func chooseDF(c *Coefficient, modelSize int, rc *Reconstructed) float64 {
 	return math.NaN()
 }
 
-// textWithNumber is head+mid+x+tail, with x as %g prints it, in one
-// allocation: the names of SE sources are written for most rows.
-func textWithNumber(head, mid string, x float64, tail string) string {
-	var buf [128]byte
-	return string(appendTextWithNumber(buf[:0], head, mid, x, tail))
-}
-
-// appendTextWithNumber appends head+mid+x+tail to b, with x as %g prints it.
-func appendTextWithNumber(b []byte, head, mid string, x float64, tail string) []byte {
-	b = append(append(b, head...), mid...)
-	return append(strconv.AppendFloat(b, x, 'g', -1, 64), tail...)
-}
-
-// note appends b as a note, its text kept in rc.text when that is set.
-func (rc *Reconstructed) note(b []byte) {
-	rc.Notes = append(rc.Notes, rc.text.String(b))
-}
-
-// noteOnScale notes label+what+rc.Scale+" scale".
-func (rc *Reconstructed) noteOnScale(label, what string) {
-	var buf [128]byte
-	b := append(append(append(buf[:0], label...), what...), rc.Scale...)
-	rc.note(append(b, " scale"...))
-}
-
 // fromInterval takes the SE from the interval rc.CI, whose limits' rounding
-// intervals on the analysis scale are loR and hiR.
+// intervals on the analysis scale are loR and hiR. The SE range runs from
+// the SE of the narrowest interval the printed limits allow to that of the
+// widest, and always covers the SE read from either half.
 func (rc *Reconstructed) fromInterval(c *Coefficient, loR, hiR infer.Range) error {
 	lo, hi := rc.CI[0], rc.CI[1]
-	if !(lo < hi) {
+	se, err := infer.StandardErrorFromCI(lo, hi, rc.Level, rc.DF)
+	if errors.Is(err, infer.ErrInterval) {
 		return fmt.Errorf("%w: interval limits %s and %s are reversed or equal", ErrNoStandardError, c.CI.Low.Text, c.CI.High.Text)
 	}
-	crit, err := infer.CriticalValue(rc.Level, rc.DF)
 	if err != nil {
-		return fmt.Errorf("%w: %v", ErrNoStandardError, err)
+		return fmt.Errorf("%w: %w", ErrNoStandardError, err)
 	}
-	rc.SE = (hi - lo) / (2 * crit)
-	rc.SERange = infer.Range{Lo: math.Max(hiR.Lo-loR.Hi, 1e-3*(hi-lo)) / (2 * crit), Hi: (hiR.Hi - loR.Lo) / (2 * crit)}
+	// Limits printed so coarsely that they may meet (the narrowest interval
+	// is empty) still bound the SE away from 0: at least a thousandth of it.
+	floor := 1e-3 * se
+	narrow, err := infer.StandardErrorFromCI(loR.Hi, hiR.Lo, rc.Level, rc.DF)
+	if err != nil {
+		narrow = floor
+	}
+	wide, _ := infer.StandardErrorFromCI(loR.Lo, hiR.Hi, rc.Level, rc.DF)
+	rc.SE = se
+	rc.SERange = infer.Range{Lo: math.Max(narrow, floor), Hi: wide}
+	rc.SEExactRange = true
 	from := "ci_low, ci_high"
 	if c.CI.OneCell {
 		from = "ci"
 	}
-	rc.SEExactRange = true
 	// An asymmetric interval is no error (bootstrap and profile intervals are
 	// asymmetric): the range always covers the SE read from either half, and
 	// an asymmetry beyond what rounding explains is noted.
-	seLo, seHi := (rc.Estimate-lo)/crit, (hi-rc.Estimate)/crit
-	if seLo > 0 && seHi > 0 {
-		rc.SERange.Lo = math.Min(rc.SERange.Lo, math.Min(seLo, seHi))
-		rc.SERange.Hi = math.Max(rc.SERange.Hi, math.Max(seLo, seHi))
-	}
-	slack := (rc.EstimateRange.Hi - rc.EstimateRange.Lo + loR.Hi - loR.Lo + hiR.Hi - hiR.Lo) / crit
-	if math.Abs(seLo-seHi) > slack && seLo > 0 && seHi > 0 {
-		scale := ""
-		if rc.Scale != ScaleAsPrinted {
-			scale = " on the " + rc.Scale + " scale"
-		}
-		rc.SEFrom = namedQuantile(from+", mean of the two half-widths", rc.DF)
-		var buf [256]byte
-		b := append(append(append(buf[:0], c.Label...), ": asymmetric interval"...), scale...)
-		b = strconv.AppendFloat(append(b, " (SE "...), seLo, 'g', 4, 64)
-		b = strconv.AppendFloat(append(b, " from the lower half, "...), seHi, 'g', 4, 64)
-		rc.note(append(b, " from the upper); the SE is their mean and the p range covers both"...))
+	seLo, seHi, _ := infer.StandardErrorsFromHalfWidths(rc.Estimate, lo, hi, rc.Level, rc.DF)
+	if !(seLo > 0 && seHi > 0) {
+		rc.SEFrom = namedQuantile(from, rc.DF)
 		return nil
 	}
-	rc.SEFrom = namedQuantile(from, rc.DF)
+	rc.SERange.Lo = math.Min(rc.SERange.Lo, math.Min(seLo, seHi))
+	rc.SERange.Hi = math.Max(rc.SERange.Hi, math.Max(seLo, seHi))
+	// The two halves differ by |2 estimate − low − high|, which the
+	// rounding of the estimate and the limits can move by at most the sum
+	// of their rounding widths.
+	slack := rc.EstimateRange.Hi - rc.EstimateRange.Lo + loR.Hi - loR.Lo + hiR.Hi - hiR.Lo
+	if math.Abs((rc.Estimate-lo)-(hi-rc.Estimate)) <= slack {
+		rc.SEFrom = namedQuantile(from, rc.DF)
+		return nil
+	}
+	scale := ""
+	if rc.Scale != ScaleAsPrinted {
+		scale = " on the " + rc.Scale + " scale"
+	}
+	rc.SEFrom = namedQuantile(from+", mean of the two half-widths", rc.DF)
+	rc.Notes = append(rc.Notes, fmt.Sprintf("%s: asymmetric interval%s (SE %.4g from the lower half, %.4g from the upper); the SE is their mean and the p range covers both",
+		c.Label, scale, seLo, seHi))
 	return nil
 }
 
-func (rc *Reconstructed) fromStatistic(c *Coefficient) {
-	rc.SE = math.Abs(rc.Estimate / c.Stat.Value)
+// fromStatistic takes the SE as estimate/statistic, the statistic's sign
+// ignored (papers often drop it). Its range runs over the rounding of both.
+func (rc *Reconstructed) fromStatistic(c *Coefficient) error {
+	if rc.Estimate == 0 {
+		where := "printed as " + c.Estimate.Text
+		if rc.Scale != ScaleAsPrinted {
+			where = c.Estimate.Text + ", 0 on the " + rc.Scale + " scale"
+		}
+		return fmt.Errorf("%w: the estimate is %s, so estimate/statistic gives an SE of 0", ErrNoStandardError, where)
+	}
+	se, err := infer.StandardErrorFromStatistic(rc.Estimate, c.Stat.Value, true)
+	if err != nil {
+		return fmt.Errorf("%w: statistic %s: %w", ErrNoStandardError, c.Stat.Text, err)
+	}
 	slo, shi := c.Stat.RoundingInterval()
 	aLo, aHi := absRange(rc.EstimateRange)
 	tLo, tHi := math.Min(math.Abs(slo), math.Abs(shi)), math.Max(math.Abs(slo), math.Abs(shi))
 	if tLo <= 0 {
 		tLo = tHi * 1e-3
 	}
-	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / tHi, Hi: aHi / tLo}
+	// The smallest |estimate| over the largest |statistic|, and the other
+	// way round; an estimate that may round to 0 counts as a thousandth of
+	// the printed one. Both are positive, so neither call fails.
+	lo, _ := infer.StandardErrorFromStatistic(math.Max(aLo, 1e-3*math.Abs(rc.Estimate)), tHi, true)
+	hi, _ := infer.StandardErrorFromStatistic(aHi, tLo, true)
+	rc.SE, rc.SERange = se, infer.Range{Lo: lo, Hi: hi}
 	rc.SEFrom = "estimate, stat"
 	if rc.Scale != ScaleAsPrinted {
-		rc.noteOnScale(c.Label, ": the statistic is taken to be estimate/SE on the ")
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the statistic is taken to be estimate/SE on the %s scale", c.Label, rc.Scale))
 	}
+	return nil
 }
 
+// fromP takes the SE from the estimate and its two-sided p, or from the
+// bound of "p < x", which gives the largest SE the bound allows.
 func (rc *Reconstructed) fromP(c *Coefficient) error {
-	q := func(p float64) (float64, error) {
-		if math.IsNaN(rc.DF) {
-			return infer.NormalZFromTwoSidedP(p)
-		}
-		return infer.StudentTFromTwoSidedP(p, rc.DF)
-	}
 	if rc.Estimate == 0 {
 		return fmt.Errorf("%w: the estimate is 0, so its p-value fixes no scale", ErrNoStandardError)
 	}
 	aLo, aHi := absRange(rc.EstimateRange)
 	if c.P.Bound == Below {
-		qb, err := q(c.P.Value)
+		se, err := infer.StandardErrorFromP(rc.Estimate, c.P.Value, rc.DF)
 		if err != nil {
-			return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+			return fmt.Errorf("%w: p %s: %w", ErrNoStandardError, c.P.Text, err)
 		}
-		rc.SE = math.Abs(rc.Estimate) / qb
-		rc.SERange = infer.Range{Lo: rc.SE * 1e-6, Hi: aHi / qb}
+		// At the same p the SE is proportional to |estimate|: the largest
+		// estimate the rounding allows gives the largest SE.
+		hi := se * aHi / math.Abs(rc.Estimate)
+		rc.SE, rc.SERange = se, infer.Range{Lo: se * 1e-6, Hi: hi}
 		rc.SEFrom = namedQuantile("estimate, p bound", rc.DF)
 		rc.PrintedP, rc.PBelow = c.P.Value, true
-		var buf [160]byte
-		b := strconv.AppendQuote(append(append(buf[:0], c.Label...), ": only "...), c.P.Text)
-		b = strconv.AppendFloat(append(b, " was printed, so the SE "...), rc.SE, 'g', 4, 64)
-		rc.note(append(b, " taken from it is the largest the bound allows"...))
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: only %q was printed, so the SE %.4g taken from it is the largest the bound allows", c.Label, c.P.Text, se))
 		return nil
 	}
-	pq, err := q(c.P.Value)
-	if err != nil || pq == 0 {
+	se, err := infer.StandardErrorFromP(rc.Estimate, c.P.Value, rc.DF)
+	if err != nil || math.IsInf(se, 1) {
 		return fmt.Errorf("%w: p %s gives no statistic", ErrNoStandardError, c.P.Text)
 	}
-	rc.SE = math.Abs(rc.Estimate) / pq
+	// The smallest |estimate| with the smallest p, and the largest with the
+	// largest p (up to 1, where the SE is unbounded).
 	plo, phi := c.P.RoundingInterval()
 	plo = math.Max(plo, c.P.Value*1e-3)
 	phi = math.Min(phi, 1)
-	qHi, err1 := q(plo)
-	qLo, err2 := q(phi)
+	lo, err1 := infer.StandardErrorFromP(math.Max(aLo, 1e-3*math.Abs(rc.Estimate)), plo, rc.DF)
+	hi, err2 := infer.StandardErrorFromP(aHi, phi, rc.DF)
 	if err := errors.Join(err1, err2); err != nil {
-		return fmt.Errorf("%w: p %s: %v", ErrNoStandardError, c.P.Text, err)
+		return fmt.Errorf("%w: p %s: %w", ErrNoStandardError, c.P.Text, err)
 	}
-	hi := math.Inf(1)
-	if qLo > 0 {
-		hi = aHi / qLo
-	}
-	rc.SERange = infer.Range{Lo: math.Max(aLo, 1e-3*math.Abs(rc.Estimate)) / qHi, Hi: hi}
+	rc.SE, rc.SERange = se, infer.Range{Lo: lo, Hi: hi}
 	rc.SEFrom = namedQuantile("estimate, p", rc.DF)
 	rc.PrintedP = c.P.Value
 	return nil

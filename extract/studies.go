@@ -422,6 +422,7 @@ func (p *PairedReader) nextStudy() (string, error) {
 			break
 		}
 	}
-	p.rr.start(p.cols, &p.row, Position{File: p.name})
-	return p.rr.text(p.claim.study), nil
+	var rr rowReading
+	rr.start(p.cols, &p.row, Position{File: p.name})
+	return rr.text(p.claim.study), nil
 }

@@ -4,7 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sync/atomic"
+	"sync"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -131,128 +131,12 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if math.IsInf(df, 1) {
 		return NormalZFromTwoSidedP(p)
 	}
-	slot := criticalSlot(p, df)
-	if slot != nil {
-		if bits := slot.Load(); bits != 0 {
-			return math.Float64frombits(bits), nil
-		}
-		q := computeStudentTQuantile(p, df)
-		slot.Store(math.Float64bits(q))
-		return q, nil
-	}
-	memo := tQuantileSlotOf(p, df)
-	if q, ok := memo.load(p, df); ok {
-		return q, nil
-	}
-	q := computeStudentTQuantile(p, df)
-	memo.store(p, df, q)
-	return q, nil
-}
-
-// computeStudentTQuantile is StudentTFromTwoSidedP without the memo, for
-// valid p and finite df.
-func computeStudentTQuantile(p, df float64) float64 {
 	q, ok := studentTQuantile(p, df)
 	if !ok {
 		st := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}
 		q = -st.Quantile(p / 2)
 	}
-	return q
-}
-
-// criticalLevels are the two-sided p of the confidence levels papers print
-// intervals at, 95%, 90% and 99%, formed as StudentTCriticalValue forms
-// them, 1 − level in float64 (0.050000000000000044 for 95%, where Go's
-// exact constant arithmetic would give 0.05), so that they match bit for
-// bit.
-var criticalLevels = func() [3]float64 {
-	levels := [3]float64{0.95, 0.90, 0.99}
-	for i, l := range levels {
-		levels[i] = 1 - l
-	}
-	return levels
-}()
-
-// maxCriticalDF is the largest whole df whose critical values have a slot.
-const maxCriticalDF = 4096
-
-// criticalQuantiles holds the t critical values of the criticalLevels for
-// df 1 to maxCriticalDF, as float64 bits, 0 while not yet computed. They
-// are the quantiles an audit asks for most (every interval read), and a
-// slot read without a lock or a hash keeps two workers from contending for
-// the map below.
-var criticalQuantiles [len(criticalLevels)][maxCriticalDF]atomic.Uint64
-
-// criticalSlot returns the slot of (p, df) in criticalQuantiles, or nil.
-func criticalSlot(p, df float64) *atomic.Uint64 {
-	d := int(df)
-	if float64(d) != df || d < 1 || d > maxCriticalDF {
-		return nil
-	}
-	for i, lp := range criticalLevels {
-		if p == lp {
-			return &criticalQuantiles[i][d-1]
-		}
-	}
-	return nil
-}
-
-// The t quantile costs over a microsecond (several incomplete beta values),
-// and an audit asks for the same few (p, df) pairs over and over: the
-// critical values of a literature's intervals (kept in criticalQuantiles)
-// and the quantiles of p-values printed as bounds ("< 0.001") or to few
-// digits. So quantiles are remembered in a table of fixed size,
-// direct-mapped: a pair hashes to one slot, and a new pair there replaces
-// the old. Memory stays fixed whatever the input (every row a new df), and
-// a lookup costs a few atomic loads, which matters because a large
-// literature mostly misses: a map with a bound (the former memo) held the
-// first 4,096 pairs for good and spent a fortieth of a streamed audit's
-// time on lookups that failed. A remembered value is the computed one, bit
-// for bit.
-const tQuantileSlots = 1 << 12
-
-// tQuantileSlot holds one remembered (p, df, t) as float64 bits, guarded
-// by a sequence count in the manner of a seqlock: a writer takes the slot
-// by moving seq from even to odd and gives it back even, and a reader
-// trusts what it read only when seq was the same even number before and
-// after. Every field is atomic, so workers share the table without locks
-// or data races.
-type tQuantileSlot struct {
-	seq       atomic.Uint64
-	p, df, tq atomic.Uint64
-}
-
-var tQuantiles [tQuantileSlots]tQuantileSlot
-
-// tQuantileSlotOf returns the slot of (p, df).
-func tQuantileSlotOf(p, df float64) *tQuantileSlot {
-	h := math.Float64bits(p)*0x9E3779B97F4A7C15 ^ math.Float64bits(df)*0xC2B2AE3D27D4EB4F
-	return &tQuantiles[(h^h>>29)%tQuantileSlots]
-}
-
-// load returns the remembered t of (p, df), if the slot holds that pair.
-func (s *tQuantileSlot) load(p, df float64) (float64, bool) {
-	seq := s.seq.Load()
-	if seq == 0 || seq&1 == 1 {
-		return 0, false
-	}
-	sp, sdf, t := s.p.Load(), s.df.Load(), s.tq.Load()
-	if s.seq.Load() != seq || sp != math.Float64bits(p) || sdf != math.Float64bits(df) {
-		return 0, false
-	}
-	return math.Float64frombits(t), true
-}
-
-// store remembers t for (p, df), unless another worker is writing the slot.
-func (s *tQuantileSlot) store(p, df, t float64) {
-	seq := s.seq.Load()
-	if seq&1 == 1 || !s.seq.CompareAndSwap(seq, seq+1) {
-		return
-	}
-	s.p.Store(math.Float64bits(p))
-	s.df.Store(math.Float64bits(df))
-	s.tq.Store(math.Float64bits(t))
-	s.seq.Store(seq + 2)
+	return q, nil
 }
 
 // StudentTCriticalValue returns t_(1−α/2, df) for a two-sided confidence
@@ -261,8 +145,28 @@ func StudentTCriticalValue(level, df float64) (float64, error) {
 	if !(level > 0 && level < 1) {
 		return math.NaN(), fmt.Errorf("confidence level %v: %w", level, ErrProbability)
 	}
-	return StudentTFromTwoSidedP(1-level, df)
+	key := criticalKey{level, df}
+	if t, ok := criticalValues.Load(key); ok {
+		return t.(float64), nil
+	}
+	t, err := StudentTFromTwoSidedP(1-level, df)
+	if err != nil {
+		return t, err
+	}
+	criticalValues.Store(key, t)
+	return t, nil
 }
+
+// criticalValues remembers StudentTCriticalValue's results, keyed by
+// criticalKey: reading a literature's intervals asks for the same few
+// critical values (95% at the df of each sample size) over and over, each
+// costing several incomplete beta values. It is kept because
+// BenchmarkReconstructPairedFile (package extract) is far slower without
+// it. It holds one entry per valid (level, df) pair asked for, so it grows
+// with the number of distinct df in the input, not with its rows.
+var criticalValues sync.Map
+
+type criticalKey struct{ level, df float64 }
 
 // ChiSquareUpperTail returns P(X > x) for a chi-square variable with df
 // degrees of freedom, the regularized upper incomplete gamma function

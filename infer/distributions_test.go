@@ -1,9 +1,7 @@
 package infer
 
 import (
-	"fmt"
 	"math"
-	"sync"
 	"testing"
 )
 
@@ -135,79 +133,6 @@ func TestDistributionErrors(t *testing.T) {
 	}
 	if _, err := FUpperTail(1, 0, 3); err == nil {
 		t.Error("FUpperTail(1, 0, 3): want an error")
-	}
-}
-
-// TestStudentTQuantileMemo checks that a remembered t quantile is the
-// computed one bit for bit, from several goroutines at once and when pairs
-// replace each other in the memo's slots.
-func TestStudentTQuantileMemo(t *testing.T) {
-	var wg sync.WaitGroup
-	errs := make(chan string, 64)
-	for g := range 4 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range 200 {
-				df := float64(1 + (i*7+g)%150)
-				if i%3 == 0 {
-					df += 4000 // across maxCriticalDF
-				}
-				p := []float64{0.05, 0.01, 0.1, 0.003, criticalLevels[0], criticalLevels[1], criticalLevels[2]}[i%7]
-				got, err := StudentTFromTwoSidedP(p, df)
-				want, _ := studentTQuantile(p, df)
-				if err != nil || math.Float64bits(got) != math.Float64bits(want) {
-					errs <- fmt.Sprintf("StudentTFromTwoSidedP(%v, %v) = %v, %v; want %v", p, df, got, err, want)
-					return
-				}
-			}
-		}()
-	}
-	wg.Wait()
-	close(errs)
-	for e := range errs {
-		t.Error(e)
-	}
-	// The critical values of the usual levels at whole df have slots of
-	// their own; other p and df go to the memo. The levels' p are formed at
-	// run time, as StudentTCriticalValue forms them.
-	l95, l90, l99 := 0.95, 0.90, 0.99
-	p95, p90, p99 := 1-l95, 1-l90, 1-l99
-	if p95 == 0.05 {
-		t.Fatalf("1 − 0.95 formed at run time is %v, expected to differ from 0.05", p95)
-	}
-	for _, c := range []struct {
-		p, df float64
-		slot  bool
-	}{{p95, 1, true}, {p90, 4096, true}, {p99, 30, true}, {p95, 4097, false},
-		{p95, 30.5, false}, {0.05, 30, false}, {p95, 0, false}} {
-		slot := criticalSlot(c.p, c.df)
-		if (slot != nil) != c.slot {
-			t.Errorf("criticalSlot(%v, %v) present = %v, want %v", c.p, c.df, slot != nil, c.slot)
-			continue
-		}
-		if slot == nil {
-			continue
-		}
-		got, _ := StudentTFromTwoSidedP(c.p, c.df)
-		want, _ := studentTQuantile(c.p, c.df)
-		if slot.Load() != math.Float64bits(want) || got != want {
-			t.Errorf("critical value (%v, %v): slot %v, returned %v, computed %v", c.p, c.df, math.Float64frombits(slot.Load()), got, want)
-		}
-	}
-	// The memo keeps a pair until another hashes to its slot, and what it
-	// returns is the computation, bit for bit, whether remembered or not,
-	// also when workers fill it at once.
-	first, _ := StudentTFromTwoSidedP(0.0371, 123)
-	if got, ok := tQuantileSlotOf(0.0371, 123).load(0.0371, 123); !ok || got != first {
-		t.Errorf("the t quantile memo does not hold the pair just computed: %v, %v", got, ok)
-	}
-	for i := range 3 * tQuantileSlots {
-		p, df := 0.001*float64(1+i%997), float64(3+(i*7)%2000)
-		got, _ := StudentTFromTwoSidedP(p, df)
-		if want := computeStudentTQuantile(p, df); got != want {
-			t.Fatalf("t quantile (%v, %v) = %v from the memo, %v computed", p, df, got, want)
-		}
 	}
 }
 
