@@ -2,6 +2,7 @@ package extract
 
 import (
 	"cmp"
+	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -411,18 +412,40 @@ func countPaired(path string) (map[string]int, []string, []*CellError, error) {
 	return counts, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
 }
 
-// nextStudy skips to the next non-blank row and returns its study, as Next
-// would read it.
+// nextStudy returns the study of the next row that has one, as Next would
+// read it, without copying or checking the row's cells. A row the CSV
+// parser rejects counts under what could be read of it; if the second pass
+// reads it otherwise, that study is yielded at the end (see openPaired).
 func (p *PairedReader) nextStudy() (string, error) {
+	i := p.claim.study
 	for {
-		if err := p.src.Next(&p.row); err != nil {
-			return "", err
+		rec, err := p.src.r.Read()
+		p.src.lim.recordStart = p.src.r.InputOffset() // as fill does
+		var pe *csv.ParseError
+		switch {
+		case err == io.EOF:
+			return "", io.EOF
+		case err != nil && !errors.As(err, &pe):
+			return "", p.src.readError(err, nil, &p.row)
 		}
-		if !p.row.blank() {
-			break
+		if i >= 0 && i < len(rec) {
+			if study := trimSpace(rec[i]); study != "" {
+				return study, nil
+			}
+		}
+		if !recordIsBlank(rec) {
+			return "", nil
 		}
 	}
-	var rr rowReading
-	rr.start(p.cols, &p.row, Position{File: p.name})
-	return rr.text(p.claim.study), nil
+}
+
+// recordIsBlank reports whether every field of a record is blank, as a blank
+// row is.
+func recordIsBlank(rec []string) bool {
+	for _, f := range rec {
+		if trimSpace(f) != "" {
+			return false
+		}
+	}
+	return true
 }
