@@ -11,7 +11,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"coefaudit/audit/forestplot"
+	"coefaudit/report/forestplot"
 	"coefaudit/extract"
 )
 

@@ -4,7 +4,7 @@ import (
 	"bytes"
 	"fmt"
 
-	"coefaudit/audit/forestplot"
+	"coefaudit/report/forestplot"
 )
 
 // Invented data for a demonstration.

@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"coefaudit/audit/forestplot"
+	"coefaudit/report/forestplot"
 )
 
 // demoRows is invented data for drawing, with no statistical meaning.

@@ -4,7 +4,7 @@ import (
 	"io"
 	"testing"
 
-	"coefaudit/audit/forestplot"
+	"coefaudit/report/forestplot"
 )
 
 func BenchmarkWriteSVG(b *testing.B) {
