@@ -1,8 +1,9 @@
-package audit
+package report
 
 import (
 	"archive/zip"
 	"bytes"
+	"errors"
 	"io"
 	"os"
 	"path/filepath"
@@ -12,76 +13,11 @@ import (
 	"strings"
 	"testing"
 
+	"coefaudit/audit"
 	"coefaudit/extract"
 
 	"github.com/xuri/excelize/v2"
 )
-
-// injectionTexts are text cells a spreadsheet would evaluate if they were
-// written as they are: a formula, a sign, an at-sign, a leading tab or
-// carriage return (the OWASP list of CSV-injection triggers).
-var injectionTexts = []string{
-	`=HYPERLINK("http://example.invalid","open me")`,
-	"+SUM(1,2)",
-	"-2+3",
-	"@SUM(A1:A2)",
-	"\t=1+1",
-	"\r=1+1",
-}
-
-// tenThousandClaims is the audit of reportInput repeated to 10,000 claims,
-// numbered as rows of one sheet: the report the writers' benchmarks time.
-func tenThousandClaims() *Report {
-	base := Audit(reportInput(), DefaultOptions)
-	rep := &Report{Alpha: base.Alpha, Cautions: Cautions}
-	for len(rep.Claims) < 10000 {
-		for _, c := range base.Claims {
-			c.Row = len(rep.Claims) + 2
-			rep.Claims = append(rep.Claims, c)
-		}
-	}
-	rep.Summary = Summary{}
-	rep.Summary.Add(rep.Claims)
-	return rep
-}
-
-// reportInput is an invented input: one study per injection text, each with
-// two independent coefficients and one claim whose study, claim id, first
-// label and extra column carry the text. The second estimates vary so
-// that several outcomes occur.
-func reportInput() *extract.Input {
-	in := &extract.Input{Source: "invented.xlsx"}
-	seconds := []string{"0.18", "0.40", "0.05", "0.60", "0.30", "0.25"}
-	published := []string{extract.PublishedDiffer, extract.PublishedDiffer, extract.PublishedNoDifference,
-		extract.PublishedFirstLarger, extract.PublishedDiffer, extract.PublishedSecondLarger}
-	for k, text := range injectionTexts {
-		row := 2 + 2*k
-		se := 0.06
-		for i, est := range []string{"0.41", seconds[k]} {
-			label := []string{text, "second"}[i]
-			in.Coefficients = append(in.Coefficients, extract.Coefficient{
-				Position: extract.Position{Sheet: "coefficients", Row: row + i},
-				Study:    text, Label: label, Measure: extract.MeasureB, Group: []string{"women", "men"}[i], Model: "m",
-				Estimate: printed(est), SE: printed(strconv.FormatFloat(se, 'f', 2, 64)), CILevel: 95,
-				Extra: extract.Extra{Names: []string{"comment"}, Values: []string{text}},
-			})
-		}
-		in.Claims = append(in.Claims, extract.Claim{Position: extract.Position{Sheet: "claims", Row: k + 2},
-			Study: text, Claim: text, First: text, Second: "second", Published: published[k],
-			Basis: extract.BasisTest, Alpha: 0.05, Topic: "t",
-			Extra: extract.Extra{Names: []string{"reviewer"}, Values: []string{text}}})
-	}
-	return in
-}
-
-func writeXLSXForTest(t *testing.T, rep *Report, in *extract.Input) []byte {
-	t.Helper()
-	var buf bytes.Buffer
-	if err := WriteXLSX(&buf, rep, in); err != nil {
-		t.Fatalf("WriteXLSX: %v", err)
-	}
-	return buf.Bytes()
-}
 
 func openXLSX(t *testing.T, b []byte) *excelize.File {
 	t.Helper()
@@ -108,9 +44,9 @@ func columnIndex(t *testing.T, rows [][]string, name string) int {
 
 func TestWriteXLSXClaimsAndOutcomeFills(t *testing.T) {
 	in := reportInput()
-	rep := Audit(in, DefaultOptions)
-	f := openXLSX(t, writeXLSXForTest(t, rep, in))
-	if got, want := f.GetSheetList(), []string{"summary", "claims", "coefficients", "methods"}; !slices.Equal(got, want) {
+	rep := audit.Audit(in, audit.DefaultOptions)
+	f := openXLSX(t, writeInput(t, "xlsx", in))
+	if got, want := f.GetSheetList(), []string{"summary", "claims", "methods", "coefficients"}; !slices.Equal(got, want) {
 		t.Errorf("sheets = %v, want %v", got, want)
 	}
 	rows, err := f.GetRows("claims", excelize.Options{RawCellValue: true})
@@ -189,15 +125,15 @@ func TestWriteXLSXClaimsAndOutcomeFills(t *testing.T) {
 	sum, _ := f.GetRows("summary", excelize.Options{RawCellValue: true})
 	found := 0
 	for _, r := range sum {
-		if len(r) >= 2 && slices.Contains(Outcomes, r[0]) && found < len(Outcomes) {
+		if len(r) >= 2 && slices.Contains(audit.Outcomes, r[0]) && found < len(audit.Outcomes) {
 			if n, _ := strconv.Atoi(r[1]); n != rep.Summary.Counts[r[0]] {
 				t.Errorf("summary count of %s = %s, want %d", r[0], r[1], rep.Summary.Counts[r[0]])
 			}
 			found++
 		}
 	}
-	if found != len(Outcomes) {
-		t.Errorf("summary lists %d outcomes, want %d", found, len(Outcomes))
+	if found != len(audit.Outcomes) {
+		t.Errorf("summary lists %d outcomes, want %d", found, len(audit.Outcomes))
 	}
 }
 
@@ -205,9 +141,7 @@ func TestWriteXLSXClaimsAndOutcomeFills(t *testing.T) {
 // tab or CR is stored as text: an inline string with no formula, read back
 // exactly as written, and that no sheet of the file holds a formula.
 func TestWriteXLSXFormulaLikeText(t *testing.T) {
-	in := reportInput()
-	rep := Audit(in, DefaultOptions)
-	b := writeXLSXForTest(t, rep, in)
+	b := writeInput(t, "xlsx", reportInput())
 	f := openXLSX(t, b)
 	for _, sheet := range []string{"claims", "coefficients", "methods"} {
 		rows, err := f.GetRows(sheet, excelize.Options{RawCellValue: true})
@@ -269,7 +203,7 @@ func TestWriteXLSXFormulaLikeText(t *testing.T) {
 func TestWriteXLSXReadsBack(t *testing.T) {
 	rep, in := demoReport(t)
 	out := filepath.Join(t.TempDir(), "audit.xlsx")
-	if err := os.WriteFile(out, writeXLSXForTest(t, rep, in), 0o600); err != nil {
+	if err := os.WriteFile(out, writeInput(t, "xlsx", in), 0o600); err != nil {
 		t.Fatal(err)
 	}
 	again, err := extract.Read(out)
@@ -280,7 +214,7 @@ func TestWriteXLSXReadsBack(t *testing.T) {
 		t.Errorf("read back %d coefficients, %d correlations, %d tables, want %d, %d, %d", len(again.Coefficients),
 			len(again.Correlations), len(again.Tables), len(in.Coefficients), len(in.Correlations), len(in.Tables))
 	}
-	rep2 := Audit(again, DefaultOptions)
+	rep2 := audit.Audit(again, audit.DefaultOptions)
 	if len(rep2.Claims) != len(rep.Claims) {
 		t.Fatalf("read back %d claims, want %d", len(rep2.Claims), len(rep.Claims))
 	}
@@ -303,8 +237,8 @@ func TestWriteXLSXReadsBack(t *testing.T) {
 
 // TestWriteXLSXWithoutInput: with no input, the claims come from the report.
 func TestWriteXLSXWithoutInput(t *testing.T) {
-	rep := Audit(reportInput(), DefaultOptions)
-	f := openXLSX(t, writeXLSXForTest(t, rep, nil))
+	rep := audit.Audit(reportInput(), audit.DefaultOptions)
+	f := openXLSX(t, writeReport(t, "xlsx", rep))
 	if got, want := f.GetSheetList(), []string{"summary", "claims", "methods"}; !slices.Equal(got, want) {
 		t.Errorf("sheets = %v, want %v", got, want)
 	}
@@ -339,8 +273,26 @@ func BenchmarkWriteXLSX(b *testing.B) {
 	rep := tenThousandClaims()
 	b.ReportAllocs()
 	for b.Loop() {
-		if err := WriteXLSX(io.Discard, rep, nil); err != nil {
+		if err := Write("xlsx", io.Discard, rep); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestXLSXSheetFull: a sheet whose last row is written refuses the next
+// one with ErrSheetFull, rather than a workbook Excel cannot open.
+func TestXLSXSheetFull(t *testing.T) {
+	f := excelize.NewFile()
+	defer f.Close()
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := &xlsxSheet{f: f, name: "Sheet1", sw: sw, row: excelize.TotalRows - 1}
+	if err := s.add("last"); err != nil {
+		t.Fatalf("writing row %d: %v", excelize.TotalRows, err)
+	}
+	if err := s.add("one more"); !errors.Is(err, ErrSheetFull) {
+		t.Errorf("writing row %d: error %v, want ErrSheetFull", excelize.TotalRows+1, err)
 	}
 }

@@ -1,8 +1,11 @@
 // Filters of the coefaudit HTML report: by outcome (checkboxes) and by
-// study (a select). The initial filter comes from the URL fragment or
-// query, e.g. #outcome=unsupported,missed&study=Lee%202019; a change is
-// written back to the fragment so that the view can be shared. Items
-// filtered out get the hidden attribute and data-filtered="out".
+// study (a select), over the table's lines and the claims' cards. The
+// initial filter comes from the URL fragment or query, e.g.
+// #outcome=unsupported,missed&study=Lee%202019; a change is written back
+// to the fragment so that the view can be shared. Items filtered out get
+// the hidden attribute and data-filtered="out". The summary and the
+// filters, written after the claims (the page is written as the claims
+// are audited), are moved before the table of claims.
 (function () {
   "use strict";
   var form = document.getElementById("filters");
@@ -12,9 +15,17 @@
   if (!form || !study || !count) {
     return;
   }
+  var index = document.getElementById("index");
+  var summary = document.getElementById("summary");
+  if (index) {
+    if (summary) {
+      index.parentNode.insertBefore(summary, index);
+    }
+    index.parentNode.insertBefore(form, index);
+  }
   var boxes = Array.prototype.slice.call(form.querySelectorAll('input[name="outcome"]'));
   var items = Array.prototype.slice.call(document.querySelectorAll("[data-outcome]"));
-  var sections = items.filter(function (e) { return e.classList.contains("claim"); });
+  var lines = items.filter(function (e) { return e.tagName === "TR"; });
 
   function decode(s) {
     try {
@@ -70,8 +81,8 @@
         e.setAttribute("data-filtered", "out");
       }
     });
-    var shown = sections.filter(function (e) { return !e.hidden; }).length;
-    count.textContent = "Showing " + shown + " of " + sections.length + (sections.length === 1 ? " claim" : " claims");
+    var shown = lines.filter(function (e) { return !e.hidden; }).length;
+    count.textContent = "Showing " + shown + " of " + lines.length + (lines.length === 1 ? " claim" : " claims");
   }
 
   var p = params();

@@ -1,11 +1,15 @@
-package audit
+package report
 
 import (
 	"bytes"
 	"encoding/csv"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
+
+	"coefaudit/audit"
+	"coefaudit/extract"
 )
 
 // TestWriteCSVFormulaLikeText checks that no CSV cell would be evaluated by
@@ -14,12 +18,9 @@ import (
 // apostrophe, and every injection text of the input comes back with that
 // prefix, otherwise unchanged.
 func TestWriteCSVFormulaLikeText(t *testing.T) {
-	rep := Audit(reportInput(), DefaultOptions)
-	var buf bytes.Buffer
-	if err := WriteCSV(&buf, rep); err != nil {
-		t.Fatalf("WriteCSV: %v", err)
-	}
-	records, err := csv.NewReader(&buf).ReadAll()
+	in := reportInput()
+	rep := audit.Audit(in, audit.DefaultOptions)
+	records, err := csv.NewReader(bytes.NewReader(writeInput(t, "csv", in))).ReadAll()
 	if err != nil {
 		t.Fatalf("the CSV does not read back: %v", err)
 	}
@@ -27,6 +28,9 @@ func TestWriteCSVFormulaLikeText(t *testing.T) {
 		t.Fatalf("CSV has %d records, want a header and %d claims", len(records), len(rep.Claims))
 	}
 	header := records[0]
+	if !slices.Contains(header, "reviewer") {
+		t.Errorf("header %q lacks the pass-through column reviewer", header)
+	}
 	prefixed := map[string]int{}
 	for r, rec := range records[1:] {
 		for c, v := range rec {
@@ -72,5 +76,29 @@ func TestSafeText(t *testing.T) {
 				t.Errorf("safeText(%q) = %q, want %q", tt.in, got, tt.want)
 			}
 		})
+	}
+}
+
+// TestWriteCSVGuardsColumnNames checks the pass-through columns' names: a
+// name a spreadsheet would evaluate is prefixed like a cell, and a name the
+// report's own columns use is not written twice.
+func TestWriteCSVGuardsColumnNames(t *testing.T) {
+	in := reportInput()
+	for i := range in.Claims {
+		in.Claims[i].Extra = extract.Extra{Names: []string{"=cmd()", "notes", "reviewer"}, Values: []string{"x", "y", "z"}}
+	}
+	records, err := csv.NewReader(bytes.NewReader(writeInput(t, "csv", in))).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	header := records[0]
+	if !slices.Contains(header, "'=cmd()") || slices.Contains(header, "=cmd()") {
+		t.Errorf("header %q: want the name =cmd() written '=cmd()", header)
+	}
+	if n := strings.Count(strings.Join(header, ","), "notes"); n != 1 {
+		t.Errorf("header %q names notes %d times, want once", header, n)
+	}
+	if got := records[1][len(header)-1]; got != "z" {
+		t.Errorf("the last pass-through cell = %q, want z", got)
 	}
 }

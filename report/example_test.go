@@ -1,12 +1,14 @@
-package audit_test
+package report_test
 
 import (
 	"bytes"
+	"encoding/csv"
 	"fmt"
 	"strings"
 
 	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/report"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -27,11 +29,46 @@ func exampleInput() *extract.Input {
 			First: "women", Second: "men", Published: extract.PublishedFirstLarger, Basis: extract.BasisTest, Alpha: 0.05}}}
 }
 
-func ExampleWriteXLSX() {
+// A Writer takes the results as audit.Run hands them on, as Check does
+// with an input it opens.
+func ExampleNew() {
 	in := exampleInput()
-	rep := audit.Audit(in, audit.DefaultOptions)
 	var buf bytes.Buffer
-	if err := audit.WriteXLSX(&buf, rep, in); err != nil {
+	wr, err := report.New("csv", &buf)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := wr.Begin(report.Header{Source: in.Source, Alpha: extract.DefaultAlpha}); err != nil {
+		fmt.Println(err)
+		return
+	}
+	sum, err := audit.Run(extract.FromInput(in).Studies(), audit.DefaultOptions, wr.Study)
+	if err == nil {
+		err = wr.End(report.Footer{Summary: sum})
+	}
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	records, _ := csv.NewReader(&buf).ReadAll()
+	for _, r := range records {
+		fmt.Println(r[0], r[2], r[12], r[20], r[27])
+	}
+	// z = (0.41 − 0.18)/√(0.05² + 0.06²) = 2.945, two-sided p = 0.00323
+	// (Altman & Bland 2003).
+
+	// Output:
+	// row claim method p outcome
+	// 2 1 independent-z 0.003231131067 consistent
+}
+
+// Write writes a report held in memory; without the input, the workbook
+// has no input sheets.
+func ExampleWrite() {
+	rep := audit.Audit(exampleInput(), audit.DefaultOptions)
+	var buf bytes.Buffer
+	if err := report.Write("xlsx", &buf, rep); err != nil {
 		fmt.Println(err)
 		return
 	}
@@ -43,20 +80,20 @@ func ExampleWriteXLSX() {
 	defer f.Close()
 	fmt.Println(f.GetSheetList())
 	// Output:
-	// [summary claims coefficients methods]
+	// [summary claims methods]
 }
 
-func ExampleWriteHTML() {
+func ExampleWrite_html() {
 	rep := audit.Audit(exampleInput(), audit.DefaultOptions)
 	var buf bytes.Buffer
-	if err := audit.WriteHTML(&buf, rep); err != nil {
+	if err := report.Write("html", &buf, rep); err != nil {
 		fmt.Println(err)
 		return
 	}
 	page := buf.String()
-	fmt.Println(strings.Count(page, `<section class="claim `), "claim section;", strings.Count(page, "<svg"), "chart")
+	fmt.Println(strings.Count(page, `<tr data-outcome=`), "line;", strings.Count(page, `<section class="claim `), "card;", strings.Count(page, "<svg"), "chart")
 	fmt.Println(strings.Contains(page, `http-equiv="Content-Security-Policy"`))
 	// Output:
-	// 1 claim section; 1 chart
+	// 1 line; 0 card; 0 chart
 	// true
 }

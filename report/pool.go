@@ -1,4 +1,4 @@
-package audit
+package report
 
 import (
 	"bufio"
@@ -11,15 +11,26 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"coefaudit/report/forestplot"
+	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/report/forestplot"
 )
+
+// PoolInput reads and audits the input at path (Collect) and pools the
+// claims of each topic across studies (audit.Pool).
+func PoolInput(path string, o Options, po audit.PoolOptions) (*audit.PoolReport, error) {
+	rep, err := Collect(path, o)
+	if err != nil {
+		return nil, err
+	}
+	return audit.Pool(rep, po)
+}
 
 // WritePoolJSON writes the pooling report as JSON: the PoolReport fields
 // under their json names, every interval as [low, high], proportions (not
 // percentages) for levels, weights and I², and null for a number that is
 // not known (NaN or infinite; a df of null means the standard normal).
-func WritePoolJSON(w io.Writer, rep *PoolReport) error {
+func WritePoolJSON(w io.Writer, rep *audit.PoolReport) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
@@ -30,7 +41,7 @@ func WritePoolJSON(w io.Writer, rep *PoolReport) error {
 // topic with its claims, the pooled lines, heterogeneity, leave-one-out
 // estimates, the claims left out and notes; then the plots written and the
 // cautions.
-func WritePoolTable(w io.Writer, rep *PoolReport) error {
+func WritePoolTable(w io.Writer, rep *audit.PoolReport) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s\n%s\n", poolSummary(rep), rep.Orientation)
 	pct := poolLevelText(rep.Level)
@@ -104,7 +115,7 @@ func WritePoolTable(w io.Writer, rep *PoolReport) error {
 // topic with a table of its claims, the pooled results, the heterogeneity,
 // the leave-one-out estimates, the claims left out and notes; then the
 // plots written and the cautions.
-func WritePoolMarkdown(w io.Writer, rep *PoolReport) error {
+func WritePoolMarkdown(w io.Writer, rep *audit.PoolReport) error {
 	bw := bufio.NewWriter(w)
 	pct := poolLevelText(rep.Level)
 	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", poolMD(poolSummary(rep)), poolMD(rep.Orientation))
@@ -188,7 +199,7 @@ type PoolPlotFile struct {
 // as a prefix: out results/pool.md gives results/pool-<slug>.svg and .png.
 // dir, when set, replaces out's folder; with neither set no plots are
 // named, so plots are written only when asked for.
-func PoolPlotFiles(rep *PoolReport, out, dir string) []PoolPlotFile {
+func PoolPlotFiles(rep *audit.PoolReport, out, dir string) []PoolPlotFile {
 	if out == "" && dir == "" {
 		return nil
 	}
@@ -216,7 +227,7 @@ func PoolPlotFiles(rep *PoolReport, out, dir string) []PoolPlotFile {
 
 // WritePoolPlot draws topic t as a forest plot (PoolPlot) in format
 // PlotSVG or PlotPNG.
-func WritePoolPlot(w io.Writer, t TopicPool, level float64, format string) error {
+func WritePoolPlot(w io.Writer, t audit.TopicPool, level float64, format string) error {
 	p := PoolPlot(t, level)
 	switch format {
 	case PlotSVG:
@@ -231,7 +242,7 @@ func WritePoolPlot(w io.Writer, t TopicPool, level float64, format string) error
 // with its interval and random-effects weight, the random-effects estimate
 // as the diamond with its Wald interval and the prediction interval, and
 // the HKSJ interval, τ², I² and Q in the notes.
-func PoolPlot(t TopicPool, level float64) forestplot.Plot {
+func PoolPlot(t audit.TopicPool, level float64) forestplot.Plot {
 	p := forestplot.Plot{Topic: t.Topic, Scale: poolAxisLabel(t.Scale), Level: level}
 	for _, s := range t.Studies {
 		p.Rows = append(p.Rows, forestplot.Row{Label: fmt.Sprintf("%s, %s", s.Study, s.Claim),
@@ -267,10 +278,10 @@ func poolAxisLabel(scale string) string {
 
 type poolLine struct {
 	name string
-	p    *PooledEstimate
+	p    *audit.PooledEstimate
 }
 
-func poolLines(t TopicPool) []poolLine {
+func poolLines(t audit.TopicPool) []poolLine {
 	return []poolLine{
 		{"Fixed effect (inverse variance)", t.Fixed},
 		{fmt.Sprintf("Random effects (%s), Wald", t.Tau2Method), t.Random},
@@ -279,16 +290,16 @@ func poolLines(t TopicPool) []poolLine {
 }
 
 // poolRatioLine gives the pooled ratio of ratios for a topic on the log scale.
-func poolRatioLine(t TopicPool) string {
+func poolRatioLine(t audit.TopicPool) string {
 	if t.Scale != extract.ScaleLog || t.Random == nil {
 		return ""
 	}
-	e := func(n Number) Number { return Number(math.Exp(float64(n))) }
+	e := func(n audit.Number) audit.Number { return audit.Number(math.Exp(float64(n))) }
 	return fmt.Sprintf("Ratio of ratios, exp(random-effects estimate): %s %s (HKSJ %s).", poolNum(e(t.Random.Estimate)),
-		poolCI([2]Number{e(t.Random.CI[0]), e(t.Random.CI[1])}), poolCI([2]Number{e(t.HKSJ.CI[0]), e(t.HKSJ.CI[1])}))
+		poolCI([2]audit.Number{e(t.Random.CI[0]), e(t.Random.CI[1])}), poolCI([2]audit.Number{e(t.HKSJ.CI[0]), e(t.HKSJ.CI[1])}))
 }
 
-func poolHeterogeneityText(t TopicPool, pct string) string {
+func poolHeterogeneityText(t audit.TopicPool, pct string) string {
 	h := t.Heterogeneity
 	if h == nil {
 		return ""
@@ -301,7 +312,7 @@ func poolHeterogeneityText(t TopicPool, pct string) string {
 		poolNum(h.Q), h.DF, poolPText(h.P), poolPercent(h.I2), poolPercent(h.I2Tau2), tau2, t.Tau2Method, pct, poolCI(h.Tau2CI))
 }
 
-func poolSummary(rep *PoolReport) string {
+func poolSummary(rep *audit.PoolReport) string {
 	pooled := 0
 	for _, t := range rep.Topics {
 		if t.Random != nil {
@@ -321,28 +332,28 @@ func poolSummary(rep *PoolReport) string {
 
 func poolLevelText(level float64) string { return strconv.FormatFloat(100*level, 'f', -1, 64) + "%" }
 
-func poolNum(n Number) string {
+func poolNum(n audit.Number) string {
 	if !n.Known() {
 		return "-"
 	}
 	return formatNum(float64(n))
 }
 
-func poolCI(ci [2]Number) string {
+func poolCI(ci [2]audit.Number) string {
 	if !ci[0].Known() && !ci[1].Known() {
 		return "-"
 	}
 	return "[" + poolNum(ci[0]) + ", " + poolNum(ci[1]) + "]"
 }
 
-func poolPercent(n Number) string {
+func poolPercent(n audit.Number) string {
 	if !n.Known() {
 		return "-"
 	}
 	return strconv.FormatFloat(100*float64(n), 'f', 1, 64) + "%"
 }
 
-func poolStat(p *PooledEstimate) string {
+func poolStat(p *audit.PooledEstimate) string {
 	if !p.Statistic.Known() {
 		return "-"
 	}
@@ -353,7 +364,7 @@ func poolStat(p *PooledEstimate) string {
 }
 
 // poolPText writes "= 0.012" or "< 0.001".
-func poolPText(p Number) string {
+func poolPText(p audit.Number) string {
 	if !p.Known() {
 		return "unknown"
 	}
@@ -367,97 +378,4 @@ func poolPText(p Number) string {
 func poolMD(s string) string {
 	r := strings.NewReplacer("|", `\|`, "\n", " ", "\r", " ", "<", "&lt;", ">", "&gt;")
 	return r.Replace(s)
-}
-
-func poolMeasureNoun(m string) string {
-	switch m {
-	case extract.MeasureB:
-		return "regression coefficients (b)"
-	case extract.MeasureBeta:
-		return "standardized coefficients (beta)"
-	case extract.MeasureR:
-		return "correlations (r)"
-	case extract.MeasureOR:
-		return "odds ratios (or)"
-	case extract.MeasureRR:
-		return "risk ratios (rr)"
-	case extract.MeasureHR:
-		return "hazard ratios (hr)"
-	case extract.MeasureMD:
-		return "mean differences (md)"
-	case "":
-		return "coefficients of unknown measure"
-	}
-	return fmt.Sprintf("coefficients of measure %q", m)
-}
-
-func poolScalePhrase(scale string) string {
-	switch scale {
-	case extract.ScaleLog:
-		return "on the log scale"
-	case extract.ScaleFisherZ:
-		return "on Fisher's z scale"
-	case extract.ScaleAsPrinted:
-		return "in their own units"
-	}
-	return fmt.Sprintf("on the %q scale", scale)
-}
-
-// poolScaleNote explains the pooling scale of a topic.
-func poolScaleNote(k poolKey) string {
-	switch k.scale {
-	case extract.ScaleLog:
-		return "Ratio measures are pooled on the log scale: each difference is log(first ratio) − log(second ratio), " +
-			"the log of the ratio of the two ratios; exp of a pooled value is a pooled ratio of ratios."
-	case extract.ScaleFisherZ:
-		return "Correlations are pooled on Fisher's z scale, z = atanh(r): each difference is z1 − z2, which is near normal " +
-			"with a variance that does not depend on ρ (Fisher 1921), which is why it is pooled there. " +
-			"The pooled value is a difference of z values, not of correlations r."
-	case extract.ScaleAsPrinted:
-		return fmt.Sprintf("The differences of %s are pooled in the coefficients' own units, so they are comparable only "+
-			"if every study measured its variables in the same units.", poolMeasureNoun(k.measure))
-	case "":
-		return "No claim of this topic could be pooled, so it has no pooling scale."
-	}
-	return fmt.Sprintf("The differences are pooled on the %q scale.", k.scale)
-}
-
-// poolMaxSlug bounds the length of a slug, to keep file names short.
-const poolMaxSlug = 60
-
-// Slug returns the file-name form of a topic: lower case, every run of
-// characters other than a–z and 0–9 replaced by one hyphen, no hyphen at
-// either end, at most 60 characters; "topic" when nothing is left.
-func Slug(topic string) string {
-	var b strings.Builder
-	hyphen := false
-	for _, r := range strings.ToLower(topic) {
-		if r >= 'a' && r <= 'z' || r >= '0' && r <= '9' {
-			if hyphen && b.Len() > 0 {
-				b.WriteByte('-')
-			}
-			hyphen = false
-			b.WriteRune(r)
-			continue
-		}
-		hyphen = true
-	}
-	s := b.String()
-	if len(s) > poolMaxSlug {
-		s = strings.TrimRight(s[:poolMaxSlug], "-")
-	}
-	if s == "" {
-		return "topic"
-	}
-	return s
-}
-
-// poolUniqueSlug appends -2, -3, ... to a slug already taken.
-func poolUniqueSlug(s string, taken map[string]bool) string {
-	out := s
-	for n := 2; taken[out]; n++ {
-		out = fmt.Sprintf("%s-%d", s, n)
-	}
-	taken[out] = true
-	return out
 }

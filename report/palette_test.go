@@ -1,10 +1,12 @@
-package audit
+package report
 
 import (
 	"math"
 	"strconv"
 	"strings"
 	"testing"
+
+	"coefaudit/audit"
 )
 
 // srgbToLinear undoes the sRGB transfer function (IEC 61966-2-1:1999).
@@ -132,21 +134,21 @@ func TestOutcomePaletteColourBlind(t *testing.T) {
 		{"protanopia", func(c [3]float64) [3]float64 { return simulate(machadoProtanopia, c) }},
 		{"deuteranopia", func(c [3]float64) [3]float64 { return simulate(machadoDeuteranopia, c) }},
 	}
-	if len(outcomeFill) != len(Outcomes) {
-		t.Fatalf("outcomeFill has %d colours, want one per outcome (%d)", len(outcomeFill), len(Outcomes))
+	if len(outcomeFill) != len(audit.Outcomes) {
+		t.Fatalf("outcomeFill has %d colours, want one per outcome (%d)", len(outcomeFill), len(audit.Outcomes))
 	}
 	for _, v := range visions {
 		t.Run(v.name, func(t *testing.T) {
 			lab := map[string][3]float64{}
-			for _, o := range Outcomes {
+			for _, o := range audit.Outcomes {
 				c := v.sim(linearFromHex(t, fillOf(o)))
 				lab[o] = cieLab(c)
 				if ratio := (luminance(c) + 0.05) / 0.05; ratio < minContrast {
 					t.Errorf("contrast of black on %s (%s) = %.2f, want ≥ %g", o, fillOf(o), ratio, float64(minContrast))
 				}
 			}
-			for i, a := range Outcomes {
-				for _, b := range Outcomes[i+1:] {
+			for i, a := range audit.Outcomes {
+				for _, b := range audit.Outcomes[i+1:] {
 					if d := deltaE76(lab[a], lab[b]); d < minDeltaE {
 						t.Errorf("ΔE*ab(%s, %s) = %.1f, want ≥ %d", a, b, d, minDeltaE)
 					}
@@ -158,7 +160,7 @@ func TestOutcomePaletteColourBlind(t *testing.T) {
 
 func TestPaletteCSS(t *testing.T) {
 	css := paletteCSS()
-	for _, o := range Outcomes {
+	for _, o := range audit.Outcomes {
 		if want := "--o-" + o + ":" + fillOf(o) + ";"; !strings.Contains(css, want) {
 			t.Errorf("paletteCSS() lacks %q", want)
 		}

@@ -1,4 +1,4 @@
-package audit
+package report
 
 import (
 	"encoding/xml"
@@ -8,14 +8,18 @@ import (
 	"strings"
 	"testing"
 
+	"coefaudit/audit"
 	"coefaudit/extract"
 )
 
-func chartClaim() ClaimResult {
-	return ClaimResult{Claim: "c1", Alpha: 0.05, Measure: extract.MeasureB, Scale: extract.ScaleAsPrinted,
-		First:      Side{Label: "women", Estimate: 0.41, SE: 0.05},
-		Second:     Side{Label: "men", Estimate: 0.18, SE: 0.06},
-		Difference: 0.23, DifferenceSE: nan, DifferenceCI: [2]Number{0.077, 0.383}}
+// unknown is a number the report does not know.
+var unknown = audit.Number(math.NaN())
+
+func chartClaim() audit.ClaimResult {
+	return audit.ClaimResult{Claim: "c1", Alpha: 0.05, Measure: extract.MeasureB, Scale: extract.ScaleAsPrinted,
+		First:      audit.Side{Label: "women", Estimate: 0.41, SE: 0.05},
+		Second:     audit.Side{Label: "men", Estimate: 0.18, SE: 0.06},
+		Difference: 0.23, DifferenceSE: unknown, DifferenceCI: [2]audit.Number{0.077, 0.383}}
 }
 
 func TestChartRows(t *testing.T) {
@@ -28,13 +32,13 @@ func TestChartRows(t *testing.T) {
 	// SE 1/√97 = 0.1015346; z ± 1.959964·SE = 0.3503020 to 0.7483103, and
 	// tanh of those is 0.336643 to 0.634140 (the usual ".34 to .63" for
 	// r = .50, n = 100; rounded value from memory).
-	corr.First = Side{Label: "r1", Estimate: Number(math.Atanh(0.5)), SE: Number(1 / math.Sqrt(97))}
+	corr.First = audit.Side{Label: "r1", Estimate: audit.Number(math.Atanh(0.5)), SE: audit.Number(1 / math.Sqrt(97))}
 	onlySE := chartClaim()
-	onlySE.DifferenceCI = [2]Number{nan, nan}
+	onlySE.DifferenceCI = [2]audit.Number{unknown, unknown}
 	onlySE.DifferenceSE = 0.078
 	tests := []struct {
 		name       string
-		c          ClaimResult
+		c          audit.ClaimResult
 		row        int
 		est, lo, h float64
 		tol        float64
@@ -65,8 +69,8 @@ func TestChartRows(t *testing.T) {
 }
 
 func TestChartRowsUnknown(t *testing.T) {
-	c := ClaimResult{Claim: "x", First: Side{Estimate: nan, SE: nan}, Second: Side{Estimate: nan, SE: nan},
-		Difference: nan, DifferenceSE: nan, DifferenceCI: [2]Number{nan, nan}}
+	c := audit.ClaimResult{Claim: "x", First: audit.Side{Estimate: unknown, SE: unknown}, Second: audit.Side{Estimate: unknown, SE: unknown},
+		Difference: unknown, DifferenceSE: unknown, DifferenceCI: [2]audit.Number{unknown, unknown}}
 	if got := intervalChartSVG(&c); got != "" {
 		t.Errorf("intervalChartSVG(nothing known) = %q, want no chart", got)
 	}

@@ -1,9 +1,10 @@
-package audit
+package report
 
 import (
 	"fmt"
 	"strings"
 
+	"coefaudit/audit"
 	"coefaudit/extract"
 )
 
@@ -29,18 +30,19 @@ var publishedWords = map[string]string{
 }
 
 var outcomeWords = map[string]string{
-	Consistent:    "The published verdict stands.",
-	Unsupported:   "The published difference is not supported by the test of the difference.",
-	Missed:        "The paper reports no difference, but the test of the difference shows one.",
-	Reversed:      "The published direction is the opposite of what the estimates show.",
-	Indeterminate: "The verdict cannot be decided from what was printed.",
-	Conflict:      "The printed numbers contradict each other, so the verdict cannot be checked as printed.",
-	Incomplete:    "Not enough was printed to test the claim.",
+	audit.Consistent:    "The published verdict stands.",
+	audit.Unsupported:   "The published difference is not supported by the test of the difference.",
+	audit.Missed:        "The paper reports no difference, but the test of the difference shows one.",
+	audit.Reversed:      "The published direction is the opposite of what the estimates show.",
+	audit.Indeterminate: "The verdict cannot be decided from what was printed.",
+	audit.Conflict:      "The printed numbers contradict each other, so the verdict cannot be checked as printed.",
+	audit.Incomplete:    "Not enough was printed to test the claim.",
 }
 
-// methodsText writes the claim's paragraph for a report: what was claimed,
-// the method, the numbers, the verdict and its caveats.
-func methodsText(r *ClaimResult) string {
+// methodsText writes the claim's paragraph for a report, which a reviewer
+// can paste into their own: what was claimed, the method, the numbers, the
+// verdict and its caveats.
+func methodsText(r *audit.ClaimResult) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Claim %s (%s, claims row %d): the paper reports that %s (%s vs %s", r.Claim, r.Study, r.Row,
 		publishedOr(r.Published), r.First.Label, r.Second.Label)
@@ -70,7 +72,7 @@ func methodsText(r *ClaimResult) string {
 		b.WriteString(" ")
 	}
 	fmt.Fprintf(&b, "Outcome: %s. %s", r.Outcome, outcomeWords[r.Outcome])
-	if r.Recomputed != "" && r.Recomputed != undetermined && r.Outcome != Conflict {
+	if r.Recomputed != "" && r.Recomputed != audit.Undetermined && r.Outcome != audit.Conflict {
 		fmt.Fprintf(&b, " The recomputed verdict is that %s at α = %s.", publishedOr(r.Recomputed), formatAlpha(r.Alpha))
 	}
 	if caveats := caveatNotes(r); len(caveats) > 0 {
@@ -96,7 +98,7 @@ func onScale(scale string) string {
 	return " (on the " + scale + " scale)"
 }
 
-func statPhrase(r *ClaimResult) string {
+func statPhrase(r *audit.ClaimResult) string {
 	if !r.Statistic.Known() {
 		return "statistic not defined"
 	}
@@ -110,10 +112,11 @@ func formatStat(x float64) string { return fmt.Sprintf("%.2f", x) }
 
 // caveatNotes picks the notes a reader of the paragraph must not miss:
 // all but the verdict sentence, which the paragraph has said already.
-func caveatNotes(r *ClaimResult) []string {
+func caveatNotes(r *audit.ClaimResult) []string {
+	verdict, decided := r.VerdictNote()
 	var out []string
 	for i, n := range r.Notes {
-		if r.decided && i == r.dec.verdictNote {
+		if decided && i == verdict {
 			continue
 		}
 		out = append(out, n)

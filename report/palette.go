@@ -1,8 +1,10 @@
-package audit
+package report
 
 import (
 	"fmt"
 	"strings"
+
+	"coefaudit/audit"
 )
 
 // outcomeFill is the fill of each outcome, shared by the workbook and the
@@ -18,13 +20,13 @@ import (
 // pair under normal vision and simulated protanopia and deuteranopia, and
 // the contrast of black text on each fill.
 var outcomeFill = map[string]string{
-	Consistent:    "#B3D8F4", // sky
-	Unsupported:   "#F2A65A", // amber
-	Missed:        "#9A82D4", // violet
-	Reversed:      "#E0674C", // vermilion
-	Indeterminate: "#F9EBA0", // straw
-	Conflict:      "#E896C2", // rose
-	Incomplete:    "#E4E4E4", // grey
+	audit.Consistent:    "#B3D8F4", // sky
+	audit.Unsupported:   "#F2A65A", // amber
+	audit.Missed:        "#9A82D4", // violet
+	audit.Reversed:      "#E0674C", // vermilion
+	audit.Indeterminate: "#F9EBA0", // straw
+	audit.Conflict:      "#E896C2", // rose
+	audit.Incomplete:    "#E4E4E4", // grey
 }
 
 // fillOf returns the fill of an outcome, grey for one not in the palette.
@@ -32,7 +34,7 @@ func fillOf(outcome string) string {
 	if f, ok := outcomeFill[outcome]; ok {
 		return f
 	}
-	return outcomeFill[Incomplete]
+	return outcomeFill[audit.Incomplete]
 }
 
 // paletteCSS writes the palette as CSS custom properties (--o-consistent,
@@ -41,11 +43,11 @@ func fillOf(outcome string) string {
 func paletteCSS() string {
 	var b strings.Builder
 	b.WriteString(":root{")
-	for _, o := range Outcomes {
+	for _, o := range audit.Outcomes {
 		fmt.Fprintf(&b, "--o-%s:%s;", o, fillOf(o))
 	}
 	b.WriteString("}\n")
-	for _, o := range Outcomes {
+	for _, o := range audit.Outcomes {
 		fmt.Fprintf(&b, ".o-%s{--o:var(--o-%s)}\n", o, o)
 	}
 	return b.String()

@@ -1,4 +1,4 @@
-package audit
+package report
 
 import (
 	"fmt"
@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"coefaudit/audit"
 	"coefaudit/extract"
 	"coefaudit/infer"
 )
@@ -34,14 +35,14 @@ type chartRow struct {
 // the usual Fisher interval for each correlation. The difference's
 // interval is the result's; when only its SE is known it is
 // difference ± z₁₋α/₂ · SE.
-func chartRows(c *ClaimResult) []chartRow {
+func chartRows(c *audit.ClaimResult) []chartRow {
 	z95, err := infer.NormalCriticalValue(0.95)
 	if err != nil {
 		return nil
 	}
 	toCorrelation := c.Measure == extract.MeasureR && c.Scale == "correlation"
 	var rows []chartRow
-	for i, s := range []Side{c.First, c.Second} {
+	for i, s := range []audit.Side{c.First, c.Second} {
 		if !s.Estimate.Known() {
 			continue
 		}
@@ -80,7 +81,7 @@ func chartRows(c *ClaimResult) []chartRow {
 }
 
 // chartScale names the axis of a claim's chart.
-func chartScale(c *ClaimResult) string {
+func chartScale(c *audit.ClaimResult) string {
 	switch c.Scale {
 	case extract.ScaleLog:
 		return "log scale (0 is a ratio of 1)"
@@ -107,7 +108,7 @@ const (
 // one row per estimate and one for the difference, against a dashed line
 // at zero. It returns "" when there is nothing to draw. All text is
 // escaped; the result can be embedded in HTML as it is.
-func intervalChartSVG(c *ClaimResult) string {
+func intervalChartSVG(c *audit.ClaimResult) string {
 	rows := chartRows(c)
 	if len(rows) == 0 {
 		return ""
@@ -209,7 +210,7 @@ func rowText(r chartRow) string {
 	return s + ", " + r.intervalLabel
 }
 
-func chartTitle(c *ClaimResult, rows []chartRow) string {
+func chartTitle(c *audit.ClaimResult, rows []chartRow) string {
 	parts := make([]string, len(rows))
 	for i, r := range rows {
 		parts[i] = rowText(r)

@@ -1,4 +1,4 @@
-package audit
+package report
 
 import (
 	"context"
@@ -10,6 +10,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"coefaudit/audit"
 
 	"golang.org/x/net/html"
 )
@@ -52,14 +54,16 @@ func chromium(t *testing.T, bin, profile, page string, flags ...string) string {
 
 // TestWriteHTMLInChromium opens the demo's report in headless Chromium with
 // a filter in the URL, checks in the DOM the page's script left that every
-// claim is there and that exactly the filtered-out ones are hidden, and
-// takes a screenshot (kept in the test's temporary folder and logged).
+// claim has its line, that exactly the filtered-out lines and cards are
+// hidden, and that the summary and the filters were moved before the
+// claims, and takes a screenshot (kept in the test's temporary folder and
+// logged).
 func TestWriteHTMLInChromium(t *testing.T) {
 	bin := chromiumPath(t)
-	rep, _ := demoReport(t)
+	rep, in := demoReport(t)
 	dir := t.TempDir()
 	path := filepath.Join(dir, "report.html")
-	if err := os.WriteFile(path, []byte(writeHTMLForTest(t, rep)), 0o600); err != nil {
+	if err := os.WriteFile(path, writeInput(t, "html", in), 0o600); err != nil {
 		t.Fatal(err)
 	}
 	pageURL := (&url.URL{Scheme: "file", Path: path}).String()
@@ -76,15 +80,15 @@ func TestWriteHTMLInChromium(t *testing.T) {
 		name string
 		// query and fragment added to the page's URL
 		suffix string
-		keep   func(ClaimResult) bool
+		keep   func(audit.ClaimResult) bool
 	}{
-		{"outcome in the fragment", "#outcome=unsupported", func(c ClaimResult) bool { return c.Outcome == Unsupported }},
+		{"outcome in the fragment", "#outcome=unsupported", func(c audit.ClaimResult) bool { return c.Outcome == audit.Unsupported }},
 		{"two outcomes and a study", "#outcome=consistent,incomplete&study=" + url.QueryEscape(study),
-			func(c ClaimResult) bool {
-				return (c.Outcome == Consistent || c.Outcome == Incomplete) && c.Study == study
+			func(c audit.ClaimResult) bool {
+				return (c.Outcome == audit.Consistent || c.Outcome == audit.Incomplete) && c.Study == study
 			}},
-		{"study in the query", "?study=" + url.QueryEscape(study), func(c ClaimResult) bool { return c.Study == study }},
-		{"no filter", "", func(ClaimResult) bool { return true }},
+		{"study in the query", "?study=" + url.QueryEscape(study), func(c audit.ClaimResult) bool { return c.Study == study }},
+		{"no filter", "", func(audit.ClaimResult) bool { return true }},
 	}
 	// Each browser gets its own profile, so the runs can share the cores.
 	for i, tt := range tests {
@@ -96,22 +100,27 @@ func TestWriteHTMLInChromium(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			sections := claimSections(doc)
-			if len(sections) != len(rep.Claims) {
-				t.Fatalf("the DOM has %d claim sections, want every claim (%d)", len(sections), len(rep.Claims))
-			}
-			shown := 0
-			for i, s := range sections {
-				c := rep.Claims[i]
-				_, hidden := attr(s, "hidden")
-				filtered, _ := attr(s, "data-filtered")
-				if want := !tt.keep(c); hidden != want || (filtered == "out") != want {
-					t.Errorf("claim %s (%s, %s): hidden=%v data-filtered=%q, want hidden=%v", c.Claim, c.Study, c.Outcome, hidden, filtered, want)
+			check := func(what string, nodes []*html.Node, claims []audit.ClaimResult) int {
+				t.Helper()
+				if len(nodes) != len(claims) {
+					t.Fatalf("the DOM has %d %s, want %d", len(nodes), what, len(claims))
 				}
-				if !hidden {
-					shown++
+				shown := 0
+				for i, n := range nodes {
+					c := claims[i]
+					_, hidden := attr(n, "hidden")
+					filtered, _ := attr(n, "data-filtered")
+					if want := !tt.keep(c); hidden != want || (filtered == "out") != want {
+						t.Errorf("%s of claim %s (%s, %s): hidden=%v data-filtered=%q, want hidden=%v", what, c.Claim, c.Study, c.Outcome, hidden, filtered, want)
+					}
+					if !hidden {
+						shown++
+					}
 				}
+				return shown
 			}
+			shown := check("lines", claimLines(doc), rep.Claims)
+			check("cards", claimSections(doc), flaggedClaims(rep))
 			if shown == 0 {
 				t.Error("the filter left no claim shown; the test needs one")
 			}
@@ -123,6 +132,17 @@ func TestWriteHTMLInChromium(t *testing.T) {
 			form := findAll(doc, func(n *html.Node) bool { id, _ := attr(n, "id"); return id == "filters" })
 			if _, hidden := attr(form[0], "hidden"); len(form) != 1 || hidden {
 				t.Error("the script did not reveal the filters")
+			}
+			// The summary and the filters now stand before the table of claims.
+			var order []string
+			for _, n := range findAll(doc, func(n *html.Node) bool { id, _ := attr(n, "id"); return id != "" }) {
+				id, _ := attr(n, "id")
+				if id == "summary" || id == "filters" || id == "index" {
+					order = append(order, id)
+				}
+			}
+			if strings.Join(order, " ") != "summary filters index" {
+				t.Errorf("page order %v, want the summary and the filters before the claims", order)
 			}
 		})
 	}

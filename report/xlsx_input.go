@@ -1,4 +1,4 @@
-package audit
+package report
 
 import (
 	"strconv"
@@ -9,13 +9,21 @@ import (
 	"github.com/xuri/excelize/v2"
 )
 
+// coefficientInputColumns are the coefficients sheet's columns as the
+// reader knows them; rowResultColumns follow the input's own columns.
+var (
+	coefficientInputColumns = []string{"study", "label", "measure", "outcome", "predictor", "group", "model",
+		"estimate", "ci_low", "ci_high", "ci_level", "se", "stat", "p", "df", "n"}
+	rowResultColumns = []string{"problems", "source_row"}
+)
+
 // writeCoefficientsSheet writes the first of the xlsx report's input
-// sheets: the coefficients as they were read, beside the audit's sheets
-// (the correlations and correlation tables follow below).
-func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extract.Input) error {
+// sheets: the coefficients as they were read, with the problems of each
+// row (probs, by problemsByRow) beside it.
+func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, coefficients []extract.Coefficient, probs map[string][]string) error {
 	var extra []string
 	seen := nameSet(coefficientInputColumns, rowResultColumns)
-	for _, c := range in.Coefficients {
+	for _, c := range coefficients {
 		for _, n := range c.Extra.Names {
 			if !seen[strings.ToLower(n)] {
 				seen[strings.ToLower(n)] = true
@@ -34,9 +42,8 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extra
 	if err := s.header(st, names, len(coefficientInputColumns)+len(extra)); err != nil {
 		return err
 	}
-	probs := problemsByRow(rep)
-	for i := range in.Coefficients {
-		c := &in.Coefficients[i]
+	for i := range coefficients {
+		c := &coefficients[i]
 		level := ""
 		if c.CILevel > 0 && (c.CI.Low.Present() || c.CI.High.Present()) {
 			level = strconv.FormatFloat(c.CILevel, 'g', -1, 64)
@@ -54,7 +61,7 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extra
 	return s.filter(len(names))
 }
 
-func writeCorrelationsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extract.Input) error {
+func writeCorrelationsSheet(s *xlsxSheet, st *xlsxStyles, correlations []extract.Correlation, probs map[string][]string) error {
 	names := []string{"study", "group", "var_a", "var_b", "r", "n", "sd", "mean", "problems", "source_row"}
 	if err := s.columns([]float64{16, 12, 16, 16, 9, 8, 9, 9, 60, 11}, true); err != nil {
 		return err
@@ -62,8 +69,7 @@ func writeCorrelationsSheet(s *xlsxSheet, st *xlsxStyles, rep *Report, in *extra
 	if err := s.header(st, names, 8); err != nil {
 		return err
 	}
-	probs := problemsByRow(rep)
-	for _, c := range in.Correlations {
+	for _, c := range correlations {
 		if err := s.add(st.textCell(c.Study), st.textCell(c.Group), st.textCell(c.VarA), st.textCell(c.VarB),
 			st.textCell(c.R.Text), st.textCell(c.N.Text), st.textCell(c.SD.Text), st.textCell(c.Mean.Text),
 			st.textCell(rowProblems(probs, c.Position)), excelize.Cell{StyleID: st.count, Value: c.Row}); err != nil {
