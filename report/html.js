@@ -72,13 +72,18 @@
     var want = {};
     boxes.forEach(function (b) { want[b.value] = b.checked; });
     var s = study.value;
+    // Only the items whose state changes are touched: a page of many
+    // claims opens with none filtered out.
     items.forEach(function (e) {
-      var show = want[e.getAttribute("data-outcome")] === true && (s === "" || e.getAttribute("data-study") === s);
-      e.hidden = !show;
-      if (show) {
-        e.removeAttribute("data-filtered");
-      } else {
+      var hide = !(want[e.getAttribute("data-outcome")] === true && (s === "" || e.getAttribute("data-study") === s));
+      if (e.hidden === hide) {
+        return;
+      }
+      e.hidden = hide;
+      if (hide) {
         e.setAttribute("data-filtered", "out");
+      } else {
+        e.removeAttribute("data-filtered");
       }
     });
     var shown = lines.filter(function (e) { return !e.hidden; }).length;

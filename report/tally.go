@@ -1,6 +1,10 @@
 package report
 
-import "coefaudit/audit"
+import (
+	"strings"
+
+	"coefaudit/audit"
+)
 
 // studyTally is one study's claims counted by outcome, for the summaries
 // of the HTML page and the workbook. Counts follow audit.Outcomes; other
@@ -28,9 +32,12 @@ func (t *tallies) add(claims []audit.ClaimResult) {
 		c := &claims[i]
 		k, ok := t.index[c.Study]
 		if !ok {
+			// A copy of the name: the claim's may share its memory with the
+			// whole input line it was read from.
+			name := strings.Clone(c.Study)
 			k = len(t.studies)
-			t.index[c.Study] = k
-			t.studies = append(t.studies, studyTally{Study: c.Study, Counts: make([]int, len(audit.Outcomes))})
+			t.index[name] = k
+			t.studies = append(t.studies, studyTally{Study: name, Counts: make([]int, len(audit.Outcomes))})
 		}
 		s := &t.studies[k]
 		s.Total++
