@@ -42,8 +42,8 @@ var ErrSheetFull = errors.New("more rows than a worksheet holds")
 // methods sheets are written as the claims arrive; the input sheets, the
 // problems and a count per study are held until End (the coefficients
 // sheet's header names the unknown columns of every coefficient row, known
-// only then), so memory grows with the input's coefficients, not its
-// claims. A sheet holds at most 1,048,575 rows below its header: an input
+// only then; heldCoefficients keeps them compact), so memory grows with
+// the input's coefficients, not its claims. A sheet holds at most 1,048,575 rows below its header: an input
 // with more claims, or a paired CSV of more than 524,287 claims (two
 // coefficients each), fails with ErrSheetFull; write csv or json instead.
 //
@@ -64,7 +64,7 @@ type xlsxWriter struct {
 	// yet written, by Index.
 	inputs       map[int]*extract.Claim
 	shownInput   bool
-	coefficients []extract.Coefficient
+	coefficients heldCoefficients
 	correlations []extract.Correlation
 	tables       []extract.CorrelationTable
 	seenRow      map[extract.Position]bool // correlations rows held (a study's are handed to each study of its name)
@@ -135,7 +135,11 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 	for i := range st.Claims {
 		x.inputs[st.Claims[i].Index] = &st.Claims[i]
 	}
-	x.coefficients = append(x.coefficients, st.Coefficients...)
+	for i := range st.Coefficients {
+		if err := x.coefficients.add(&st.Coefficients[i]); err != nil {
+			return fmt.Errorf("xlsx report: %w", err)
+		}
+	}
 	for _, c := range st.Correlations {
 		if !x.seenRow[c.Position] {
 			x.seenRow[c.Position] = true
@@ -148,7 +152,7 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 			x.tables = append(x.tables, t)
 		}
 	}
-	if n := max(len(x.coefficients), len(x.correlations)); n >= excelize.TotalRows {
+	if n := max(x.coefficients.rows, len(x.correlations)); n >= excelize.TotalRows {
 		return fmt.Errorf("xlsx report: the input has %d rows of coefficients or correlations: %w (%d below the header)",
 			n, ErrSheetFull, excelize.TotalRows-1)
 	}
@@ -217,7 +221,7 @@ func (x *xlsxWriter) End(f Footer) error {
 	}
 	if x.shownInput {
 		byRow := problemsByRow(problems)
-		if err := add("coefficients", func(s *xlsxSheet) error { return writeCoefficientsSheet(s, x.st, x.coefficients, byRow) }); err != nil {
+		if err := add("coefficients", func(s *xlsxSheet) error { return writeCoefficientsSheet(s, x.st, &x.coefficients, byRow) }); err != nil {
 			return err
 		}
 		if len(x.correlations) > 0 {
