@@ -152,9 +152,9 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 			x.tables = append(x.tables, t)
 		}
 	}
-	if n := max(x.coefficients.rows, len(x.correlations)); n >= excelize.TotalRows {
-		return fmt.Errorf("xlsx report: the input has %d rows of coefficients or correlations: %w (%d below the header)",
-			n, ErrSheetFull, excelize.TotalRows-1)
+	if max(x.coefficients.rows, len(x.correlations)) >= excelize.TotalRows {
+		return fmt.Errorf("xlsx report: the input's coefficients or correlations pass %d rows: %w; write csv or json for an input this large",
+			excelize.TotalRows-1, ErrSheetFull)
 	}
 	return nil
 }

@@ -126,7 +126,7 @@ func (s *xlsxSheet) columns(widths []float64, freeze bool) error {
 // worksheet holds.
 func (s *xlsxSheet) add(cells ...any) error {
 	if s.row >= excelize.TotalRows {
-		return fmt.Errorf("%w: %d rows", ErrSheetFull, excelize.TotalRows)
+		return fmt.Errorf("%w (%d rows); write csv or json for an input this large", ErrSheetFull, excelize.TotalRows)
 	}
 	s.row++
 	ref, err := excelize.CoordinatesToCellName(1, s.row)
