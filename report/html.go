@@ -185,9 +185,6 @@ type htmlTail struct {
 	Problems                               []string
 	SummaryLine                            string
 	Counts                                 []htmlCount
-	Outcomes                               []string
-	Studies                                []htmlStudy
-	StudyChunks                            [][]htmlStudy // Studies, htmlChunkLines at a time
 	Cautions                               []string
 	JS                                     template.JS
 }
@@ -197,7 +194,14 @@ type htmlCount struct {
 	Count   int
 }
 
-// htmlStudy is one row of the study × outcome table; Counts follow Outcomes.
+// htmlStudies is one table of the study × outcome summary; each study's
+// Counts follow Outcomes.
+type htmlStudies struct {
+	First    bool
+	Outcomes []string
+	Studies  []htmlStudy
+}
+
 type htmlStudy struct {
 	Study  string
 	Counts []int
@@ -205,7 +209,8 @@ type htmlStudy struct {
 }
 
 // End implements Writer: the cards, the problems, the summary and the
-// filters.
+// filters. The study × outcome table and the filter's list of studies are
+// written htmlChunkLines studies at a time, from the tallies.
 func (h *htmlWriter) End(f Footer) error {
 	problems := h.problems.all(f)
 	cards := min(h.flagged, HTMLCards)
@@ -215,26 +220,40 @@ func (h *htmlWriter) End(f Footer) error {
 	for _, p := range problems {
 		v.Problems = append(v.Problems, problemText(p))
 	}
-	v.Outcomes = outcomesShown(f.Summary.Counts)
-	for _, o := range v.Outcomes {
+	outcomes := outcomesShown(f.Summary.Counts)
+	for _, o := range outcomes {
 		v.Counts = append(v.Counts, htmlCount{Outcome: o, Count: f.Summary.Counts[o]})
-	}
-	for i := range h.tally.studies {
-		s := &h.tally.studies[i]
-		row := htmlStudy{Study: s.Study, Total: s.Total}
-		for _, o := range v.Outcomes {
-			row.Counts = append(row.Counts, s.count(o))
-		}
-		v.Studies = append(v.Studies, row)
-	}
-	for rest := v.Studies; len(rest) > 0; {
-		n := min(len(rest), htmlChunkLines)
-		v.StudyChunks, rest = append(v.StudyChunks, rest[:n]), rest[n:]
 	}
 	if err := h.closeChunk(); err != nil {
 		return err
 	}
 	if err := h.execute("end", v); err != nil {
+		return err
+	}
+	for start := 0; start < h.tally.len(); start += htmlChunkLines {
+		var studies []htmlStudy
+		for k := start; k < min(start+htmlChunkLines, h.tally.len()); k++ {
+			row := htmlStudy{Study: h.tally.names[k], Total: h.tally.total(k)}
+			for _, o := range outcomes {
+				row.Counts = append(row.Counts, h.tally.count(k, o))
+			}
+			studies = append(studies, row)
+		}
+		if err := h.execute("study-chunk", htmlStudies{First: start == 0, Outcomes: outcomes, Studies: studies}); err != nil {
+			return err
+		}
+	}
+	if err := h.execute("filters", v); err != nil {
+		return err
+	}
+	for names := h.tally.names; len(names) > 0; {
+		n := min(len(names), htmlChunkLines)
+		if err := h.execute("study-options", names[:n]); err != nil {
+			return err
+		}
+		names = names[n:]
+	}
+	if err := h.execute("close", v); err != nil {
 		return err
 	}
 	return h.bw.Flush()

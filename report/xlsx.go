@@ -341,13 +341,12 @@ func (x *xlsxWriter) writeSummary(s *xlsxSheet, sum audit.Summary, problems int)
 			return err
 		}
 	}
-	for i := range x.tally.studies {
-		sc := &x.tally.studies[i]
-		row := []any{excelize.Cell{StyleID: st.label, Value: sc.Study}}
+	for k := range x.tally.len() {
+		row := []any{excelize.Cell{StyleID: st.label, Value: x.tally.names[k]}}
 		for _, o := range audit.Outcomes {
-			row = append(row, excelize.Cell{StyleID: st.count, Value: sc.count(o)})
+			row = append(row, excelize.Cell{StyleID: st.count, Value: x.tally.count(k, o)})
 		}
-		if err := s.add(append(row, excelize.Cell{StyleID: st.count, Value: sc.Total})...); err != nil {
+		if err := s.add(append(row, excelize.Cell{StyleID: st.count, Value: x.tally.total(k)})...); err != nil {
 			return err
 		}
 	}
