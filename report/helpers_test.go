@@ -2,8 +2,6 @@ package report
 
 import (
 	"bytes"
-	"strconv"
-	"strings"
 	"testing"
 
 	"coefaudit/audit"
@@ -11,18 +9,14 @@ import (
 	"coefaudit/fixtures"
 )
 
-// printed builds a number as printed, for tests only: the value and the
-// count of digits after the point.
+// printed reads a number as the input's reader does; the tests' numbers
+// are well formed.
 func printed(s string) extract.Printed {
-	v, err := strconv.ParseFloat(s, 64)
+	p, err := extract.ParseNumber(s)
 	if err != nil {
 		panic(err)
 	}
-	dec := 0
-	if i := strings.IndexByte(s, '.'); i >= 0 {
-		dec = len(s) - i - 1
-	}
-	return extract.Printed{Value: v, Decimals: int32(dec), Bound: extract.Exact, Text: s}
+	return p
 }
 
 // injectionTexts are text cells a spreadsheet would evaluate if they were
