@@ -23,10 +23,15 @@ type tableWriter struct {
 
 func newTableWriter(w io.Writer) *tableWriter { return &tableWriter{bw: bufio.NewWriter(w)} }
 
-// Begin implements Writer.
+// Begin implements Writer: a title line, since the summary comes last.
 func (t *tableWriter) Begin(h Header) error {
 	t.h = h
-	return nil
+	title := "Audit of published comparisons"
+	if h.Source != "" {
+		title += " in " + terminalText(h.Source)
+	}
+	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", title)
+	return err
 }
 
 // Study implements Writer.
