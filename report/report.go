@@ -50,7 +50,9 @@ type Footer struct {
 // run of results in input order (audit.Run's emit), End once. Each method
 // returns the first error of the underlying writer; after an error the
 // report is incomplete and the caller discards it. Nothing is written to
-// the io.Writer after End returns.
+// the io.Writer after End returns. A writer that keeps more than what it
+// writes to the io.Writer (the xlsx writer's temporary files) is also an
+// io.Closer, to be closed whether or not End ran; Check and Write do.
 type Writer interface {
 	Begin(h Header) error
 	Study(res audit.StudyResult) error
@@ -121,6 +123,9 @@ func Check(path string, w io.Writer, format string, o Options) (audit.Summary, e
 
 // run writes the report of an open source.
 func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summary, error) {
+	if c, ok := wr.(io.Closer); ok {
+		defer c.Close()
+	}
 	h := Header{Source: o.Source, Alpha: extract.DefaultAlpha, ClaimColumns: src.ClaimColumns,
 		Adjust: o.Audit.Adjust, Cautions: audit.Cautions}
 	if h.Source == "" {
@@ -203,6 +208,9 @@ func Write(format string, w io.Writer, rep *audit.Report) error {
 	wr, err := New(format, w)
 	if err != nil {
 		return err
+	}
+	if c, ok := wr.(io.Closer); ok {
+		defer c.Close()
 	}
 	h := Header{Source: rep.Source, Alpha: rep.Alpha, Cautions: rep.Cautions, Adjust: audit.DefaultOptions.Adjust}
 	for i := range rep.Claims {

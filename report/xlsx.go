@@ -192,6 +192,18 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 	return nil
 }
 
+// Close implements io.Closer: it removes the temporary files in which
+// excelize keeps long sheets. End closes the writer; a run that fails
+// before End must (Check and Write do).
+func (x *xlsxWriter) Close() error {
+	if x.f == nil {
+		return nil
+	}
+	err := x.f.Close()
+	x.f = nil
+	return err
+}
+
 // xlsxStep writes the rows of one sheet, before its stream is flushed.
 type xlsxStep struct {
 	s     *xlsxSheet
@@ -201,7 +213,7 @@ type xlsxStep struct {
 // End implements Writer: it finishes the claims and methods sheets, writes
 // the summary, the input sheets and the problems, and the workbook to w.
 func (x *xlsxWriter) End(f Footer) error {
-	defer x.f.Close()
+	defer x.Close()
 	problems := x.problems.all(f)
 	steps := []xlsxStep{
 		{x.claims, func(s *xlsxSheet) error {

@@ -296,3 +296,30 @@ func TestXLSXSheetFull(t *testing.T) {
 		t.Errorf("writing row %d: error %v, want ErrSheetFull", excelize.TotalRows+1, err)
 	}
 }
+
+// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
+// has grown past what excelize keeps in memory (16 MB) before End, as a
+// failed run does: Close must remove the temporary file excelize made.
+func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
+	dir := t.TempDir()
+	t.Setenv("TMPDIR", dir)
+	rep := tenThousandClaims()
+	wr := newXLSXWriter(io.Discard)
+	if err := wr.Begin(Header{}); err != nil {
+		t.Fatal(err)
+	}
+	for range 3 {
+		if err := wr.Study(audit.StudyResult{Claims: rep.Claims}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) == 0 {
+		t.Fatal("excelize made no temporary file; the test needs one")
+	}
+	if err := wr.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) != 0 {
+		t.Errorf("Close left %v", m)
+	}
+}
