@@ -10,6 +10,18 @@ import (
 	"coefaudit/audit"
 )
 
+// reportTitle is every report's title.
+const reportTitle = "Audit of published comparisons"
+
+// titleOf is the report's title with the input's name, escaped for the
+// format, after sep.
+func titleOf(h Header, sep string, escape func(string) string) string {
+	if h.Source == "" {
+		return reportTitle
+	}
+	return reportTitle + sep + escape(h.Source)
+}
+
 // formatNum writes a number with four significant digits, as the notes
 // print them; NA when it is not a number.
 func formatNum(x float64) string {

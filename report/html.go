@@ -105,7 +105,7 @@ type htmlHead struct {
 // the table of claims.
 func (h *htmlWriter) Begin(hd Header) error {
 	h.h = hd
-	v := htmlHead{Title: "Audit of published comparisons", Source: hd.Source, Alpha: formatAlpha(hd.Alpha),
+	v := htmlHead{Title: reportTitle, Source: hd.Source, Alpha: formatAlpha(hd.Alpha),
 		Cautions: hd.cautions(), CSS: template.CSS(h.css),
 		CSP: fmt.Sprintf("default-src 'none'; style-src '%s'; script-src '%s'; img-src data:; base-uri 'none'; form-action 'none'",
 			cspHash(h.css), cspHash(htmlReportJS))}

@@ -28,11 +28,8 @@ func newMarkdownWriter(w io.Writer) *markdownWriter {
 // Begin implements Writer.
 func (m *markdownWriter) Begin(h Header) error {
 	m.h = h
-	title := "Audit of published comparisons"
-	if h.Source != "" {
-		title += ": " + mdText(h.Source)
-	}
-	_, err := fmt.Fprintf(m.bw, "# %s\n\nThe summary, the problems of the input and the cautions follow the claims.\n\n## Claims\n", title)
+	_, err := fmt.Fprintf(m.bw, "# %s\n\nThe summary, the problems of the input and the cautions follow the claims.\n\n## Claims\n",
+		titleOf(h, ": ", mdCell))
 	return err
 }
 

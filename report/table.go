@@ -26,11 +26,7 @@ func newTableWriter(w io.Writer) *tableWriter { return &tableWriter{bw: bufio.Ne
 // Begin implements Writer: a title line, since the summary comes last.
 func (t *tableWriter) Begin(h Header) error {
 	t.h = h
-	title := "Audit of published comparisons"
-	if h.Source != "" {
-		title += " in " + terminalText(h.Source)
-	}
-	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", title)
+	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", titleOf(h, " in ", terminalText))
 	return err
 }
 

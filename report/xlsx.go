@@ -264,7 +264,7 @@ func (x *xlsxWriter) End(f Footer) error {
 	}
 	// The summary, the first sheet, is active as made. (SetActiveSheet would
 	// parse every streamed sheet back into memory.)
-	if err := x.f.SetDocProps(&excelize.DocProperties{Creator: "coefaudit", Title: "Audit of published comparisons",
+	if err := x.f.SetDocProps(&excelize.DocProperties{Creator: "coefaudit", Title: reportTitle,
 		Description: strings.Join(x.h.cautions(), " ")}); err != nil {
 		return fmt.Errorf("xlsx report: %w", err)
 	}
@@ -326,7 +326,7 @@ func (x *xlsxWriter) writeSummary(s *xlsxSheet, sum audit.Summary, problems int)
 	}
 	n := sum.Claims
 	rows := [][]any{
-		{excelize.Cell{StyleID: st.title, Value: "Audit of published comparisons"}},
+		{excelize.Cell{StyleID: st.title, Value: reportTitle}},
 		{excelize.Cell{StyleID: st.label, Value: "Input"}, st.textCell(x.h.Source)},
 		{excelize.Cell{StyleID: st.label, Value: "Claims audited"}, excelize.Cell{StyleID: st.count, Value: n}},
 		{excelize.Cell{StyleID: st.label, Value: "Problems in the input"}, excelize.Cell{StyleID: st.count, Value: problems}},
