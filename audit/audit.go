@@ -60,13 +60,12 @@ func Audit(in *extract.Input, opts Options) *Report {
 	return rep
 }
 
-// finishClaims adjusts the claims' p within their study (one family),
-// decides their outcomes and writes their methods paragraphs.
+// finishClaims adjusts the claims' p within their study (one family) and
+// decides their outcomes.
 func finishClaims(claims []ClaimResult, opts Options) {
 	adjustFamily(claims)
 	for i := range claims {
 		claims[i].settle(opts.Adjust)
-		claims[i].Methods = methodsText(&claims[i])
 	}
 }
 

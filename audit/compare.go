@@ -1,14 +1,11 @@
 package audit
 
 import (
-	"bufio"
 	"errors"
 	"fmt"
-	"io"
 	"math"
 	"strconv"
 	"strings"
-	"unicode/utf8"
 
 	"coefaudit/extract"
 )
@@ -198,100 +195,6 @@ func oneOf(s string, list ...string) bool {
 		}
 	}
 	return false
-}
-
-// WriteComparison writes the audit of one comparison for the terminal: the
-// two estimates as given and as read, the test, the verdict, the notes,
-// the methods paragraph and the cautions.
-func WriteComparison(w io.Writer, rep *Report, c Comparison) error {
-	if len(rep.Claims) != 1 {
-		return fmt.Errorf("a comparison report holds %d claims, want 1", len(rep.Claims))
-	}
-	r := rep.Claims[0]
-	bw := bufio.NewWriter(w)
-	for i, s := range []Side{r.First, r.Second} {
-		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", []Reported{c.First, c.Second}[i].Text)
-		if s.Estimate.Known() {
-			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", formatNum(float64(s.Estimate)), numberOrDash(s.SE))
-			if s.SEFrom != "" {
-				fmt.Fprintf(bw, " (from %s)", s.SEFrom)
-			}
-			if r.Scale != "" && r.Scale != extract.ScaleAsPrinted && r.Scale != "correlation" {
-				fmt.Fprintf(bw, ", on the %s scale", r.Scale)
-			}
-			fmt.Fprintln(bw)
-		}
-	}
-	fmt.Fprintf(bw, "%-10s %s\n", "Design:", designWords(r.Relation))
-	if r.Method != "" {
-		fmt.Fprintf(bw, "%-10s %s: difference %s", "Test:", r.Method, differenceCell(r))
-		if r.Statistic.Known() {
-			fmt.Fprintf(bw, ", statistic %s", formatNum(float64(r.Statistic)))
-		}
-		if r.DF.Known() {
-			fmt.Fprintf(bw, ", df %s", formatNum(float64(r.DF)))
-		}
-		if r.P.Known() {
-			fmt.Fprintf(bw, ", p %s", pCell(r.P))
-		}
-		if pr := pRangeCell(r.PRange); pr != "-" {
-			fmt.Fprintf(bw, ", p range %s", pr)
-		}
-		fmt.Fprintln(bw)
-	}
-	fmt.Fprintf(bw, "%-10s %s; recomputed: %s; α = %s\n", "Published:", dash(r.Published), dash(r.Recomputed), formatAlpha(r.Alpha))
-	fmt.Fprintf(bw, "%-10s %s\n", "Verdict:", strings.ToUpper(r.Outcome))
-	if len(r.Notes) > 0 {
-		fmt.Fprintln(bw, "\nNotes")
-		for _, n := range r.Notes {
-			fmt.Fprintf(bw, "  - %s\n", n)
-		}
-	}
-	if m := strings.TrimSpace(r.Methods); m != "" {
-		fmt.Fprintln(bw, "\nMethods")
-		writeWrapped(bw, m, "  ", 78)
-	}
-	if len(rep.Problems) > 0 {
-		fmt.Fprintln(bw, "\nProblems")
-		for _, p := range rep.Problems {
-			fmt.Fprintf(bw, "  - %s\n", p.Message)
-		}
-	}
-	fmt.Fprintln(bw, "\nCautions")
-	for _, c := range cautionsOf(rep) {
-		fmt.Fprintf(bw, "  - %s\n", c)
-	}
-	return bw.Flush()
-}
-
-func designWords(relation string) string {
-	switch relation {
-	case Independent:
-		return "independent samples"
-	case SameModel:
-		return "one fitted model"
-	case SameSample:
-		return "one sample, two models"
-	}
-	return "-"
-}
-
-// writeWrapped writes a paragraph wrapped at width runes, each line indented.
-func writeWrapped(w io.Writer, text, indent string, width int) {
-	line := indent
-	for _, word := range strings.Fields(text) {
-		if utf8.RuneCountInString(line)+1+utf8.RuneCountInString(word) > width && line != indent {
-			fmt.Fprintln(w, line)
-			line = indent
-		}
-		if line != indent {
-			line += " "
-		}
-		line += word
-	}
-	if line != indent {
-		fmt.Fprintln(w, line)
-	}
 }
 
 // ParseCorrelation reads the printed sampling correlation of two estimates

@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"bytes"
 	"errors"
 	"math"
 	"strings"
@@ -154,28 +153,5 @@ func TestCompareReportedErrors(t *testing.T) {
 				t.Errorf("CompareReported(%s) error = %v, want ErrComparison saying %q", tt.name, err, tt.want)
 			}
 		})
-	}
-}
-
-func TestWriteComparison(t *testing.T) {
-	c := Comparison{First: mustReported(t, "0.41 [0.30, 0.52]"), Second: mustReported(t, "0.18 (0.05 to 0.31)"),
-		Relation: Independent, Published: extract.PublishedDiffer}
-	rep, err := CompareReported(c, DefaultOptions)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var buf bytes.Buffer
-	if err := WriteComparison(&buf, rep, c); err != nil {
-		t.Fatal(err)
-	}
-	out := buf.String()
-	for _, want := range []string{"0.41 [0.30, 0.52]", "0.18 (0.05 to 0.31)", "independent samples", "independent-z",
-		"Verdict:", strings.ToUpper(rep.Claims[0].Outcome), "Cautions", Cautions[0]} {
-		if !strings.Contains(out, want) {
-			t.Errorf("WriteComparison() lacks %q:\n%s", want, out)
-		}
-	}
-	if m := rep.Claims[0].Methods; m != "" && !strings.Contains(out, "Methods") {
-		t.Errorf("WriteComparison() leaves out the methods paragraph:\n%s", out)
 	}
 }

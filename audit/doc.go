@@ -2,13 +2,13 @@
 // it picks the test the design calls for (independent samples, one fitted
 // model, one sample), runs it on the reconstructed estimates, compares the
 // result with the published verdict allowing for rounding and for what was
-// never printed, and explains the outcome in plain words and in a methods
-// paragraph a reviewer can paste into a report.
+// never printed, and explains the outcome in plain words.
 //
-// Beyond the per-claim audit (Audit, Check) it pools the claims of a topic
-// across studies (Pool), runs the bootstrap comparison on raw data
-// (Bootstrap), and writes the reports: a terminal table, CSV, JSON,
-// Markdown, xlsx and HTML, and forest plots through package forestplot.
+// Beyond the per-claim audit (AuditStudy, Run, and Audit for an input held
+// in memory) it pools the claims of a topic across studies (Pool) and runs
+// the bootstrap comparison on raw data already read (Bootstrap). It reads
+// and writes no file: package coefaudit/report reads the input, streams
+// studies through Run and writes every report.
 //
 // The range of p under rounding (p_range) is computed three ways, and the
 // notes say which: exactly at the corners of the rounding box when the test

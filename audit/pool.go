@@ -172,16 +172,6 @@ type PoolLeftOut struct {
 	Reason string `json:"reason"`
 }
 
-// PoolInput reads and audits the input at path (see Check) and pools its
-// topics (see Pool).
-func PoolInput(path string, check Options, opts PoolOptions) (*PoolReport, error) {
-	rep, err := Check(path, check)
-	if err != nil {
-		return nil, err
-	}
-	return Pool(rep, opts)
-}
-
 // Pool meta-analyses the differences of the claims that share a non-empty
 // topic (compared after trimming spaces). Claim i contributes
 //

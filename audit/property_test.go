@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"coefaudit/audit"
+	"coefaudit/extract"
 )
 
 // The property test builds a few hundred random folders of CSV files
@@ -149,7 +150,7 @@ func propGenerate(rng *rand.Rand) propInput {
 	return propInput{coefficients: []byte(coef.String()), claims: []byte(cl.String()), rows: out}
 }
 
-// TestCheckProperties runs audit.Check on 300 generated folders.
+// TestCheckProperties reads and audits 300 generated folders.
 func TestCheckProperties(t *testing.T) {
 	rng := rand.New(rand.NewPCG(2024, 8))
 	old := time.Now().Add(-time.Hour).Truncate(time.Second)
@@ -166,7 +167,7 @@ func TestCheckProperties(t *testing.T) {
 				t.Fatal(err)
 			}
 		}
-		rep, err := audit.Check(dir, audit.DefaultOptions)
+		rep, err := readAndAudit(dir)
 		if err != nil {
 			t.Fatalf("input %d: Check = %v\nclaims.csv:\n%q", k, err, in.claims)
 		}
@@ -240,6 +241,15 @@ func propCheckClaims(t *testing.T, k int, in propInput, rep *audit.Report) {
 	}
 }
 
+// readAndAudit reads the input at path and audits it, as a report does.
+func readAndAudit(path string) (*audit.Report, error) {
+	in, err := extract.Read(path)
+	if err != nil {
+		return nil, err
+	}
+	return audit.Audit(in, audit.DefaultOptions), nil
+}
+
 // propFolder writes coefficients.csv and claims.csv into a new folder.
 func propFolder(t *testing.T, coefficients, claims string) string {
 	t.Helper()
@@ -285,7 +295,7 @@ func TestCheckBrokenContent(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			dir := propFolder(t, header+tt.coefs, "study,claim,first,second,published\ns,c1,"+tt.first+",b,differ\n")
-			rep, err := audit.Check(dir, audit.DefaultOptions)
+			rep, err := readAndAudit(dir)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"encoding/json"
 	"math"
 	"strconv"
 )
@@ -106,9 +105,6 @@ type ClaimResult struct {
 	// claim's difference has no SE (an unknown covariance, or incomplete).
 	PoolEstimate, PoolSE Number `json:"-"`
 	PoolScale            string `json:"-"`
-	// Methods is a paragraph a reviewer can paste into a report: the
-	// method, the numbers, the verdict and its caveats.
-	Methods string `json:"-"`
 	// AdjustedP holds the claim's p adjusted within its study; nil when the
 	// claim has no p.
 	AdjustedP *AdjustedPValues `json:"p_adjusted,omitempty"`
@@ -164,22 +160,6 @@ type Summary struct {
 	Counts map[string]int
 }
 
-// MarshalJSON writes the summary with "claims" first and the outcomes in
-// the order of Outcomes, leaving out outcomes that did not occur.
-func (s Summary) MarshalJSON() ([]byte, error) {
-	b := []byte(`{"claims":`)
-	b = strconv.AppendInt(b, int64(s.Claims), 10)
-	for _, o := range Outcomes {
-		if n := s.Counts[o]; n > 0 {
-			b = append(b, `,"`...)
-			b = append(b, o...)
-			b = append(b, `":`...)
-			b = strconv.AppendInt(b, int64(n), 10)
-		}
-	}
-	return append(b, '}'), nil
-}
-
 // Report is the audit of one input.
 type Report struct {
 	Source   string        `json:"-"`
@@ -189,5 +169,3 @@ type Report struct {
 	Problems []Problem     `json:"problems"`
 	Cautions []string      `json:"-"`
 }
-
-var _ json.Marshaler = Summary{}

@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"bytes"
 	"math"
 	"strings"
 	"testing"
@@ -96,8 +95,8 @@ func TestBasisNotes(t *testing.T) {
 	if !strings.Contains(notes, "a: p = 0.012, significant") || !strings.Contains(notes, "b: p = 0.317, not significant") {
 		t.Errorf("significance-split note: %q", notes)
 	}
-	if !strings.Contains(r.Methods, "Caveats:") || !strings.Contains(r.Methods, "Outcome: unsupported") {
-		t.Errorf("methods text: %q", r.Methods)
+	if r.Outcome != Unsupported {
+		t.Errorf("significance-split outcome = %s, want unsupported", r.Outcome)
 	}
 }
 
@@ -131,25 +130,5 @@ func TestSignificanceSplitPrintedP(t *testing.T) {
 				t.Errorf("significance-split note lacks %q: %q", tt.want, notes)
 			}
 		})
-	}
-}
-
-func TestWriteMarkdown(t *testing.T) {
-	in := &extract.Input{
-		Coefficients: []extract.Coefficient{
-			coefficient("S*1", 2, coefSpec{label: "x", measure: "b", group: "g", est: "0.42", lo: "0.30", hi: "0.54"}),
-			coefficient("S*1", 3, coefSpec{label: "y", measure: "b", group: "h", est: "0.18", lo: "0.05", hi: "0.31"}),
-		},
-		Claims: []extract.Claim{claim("S*1", "c|1", 2, "x", "y", "first-larger", "test")},
-	}
-	var b bytes.Buffer
-	if err := WriteMarkdown(&b, Audit(in, DefaultOptions)); err != nil {
-		t.Fatal(err)
-	}
-	md := b.String()
-	for _, want := range []string{"# Audit of published comparisons", "| consistent | 1 |", `S\*1`, `c\|1`, "### Claim", "## Cautions", Cautions[0]} {
-		if !strings.Contains(md, want) {
-			t.Errorf("Markdown lacks %q:\n%s", want, md)
-		}
 	}
 }

@@ -2,27 +2,58 @@ package main
 
 import (
 	"fmt"
-	"os"
+	"io"
 	"strings"
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
 	"coefaudit/cmd/coefaudit/internal/progress"
+	"coefaudit/report"
 
 	"github.com/spf13/cobra"
 )
 
-type bootstrapFlags struct {
-	opts       audit.BootstrapOptions
-	predictors string
-	compare    string
-	level      float64
-	format     string
-	out        string
+// bootstrapOptions are the flags of the bootstrap command; opts is filled
+// from them by validate.
+type bootstrapOptions struct {
+	opts           audit.BootstrapOptions
+	predictors     string
+	compare        string
+	level          float64
+	format         string
+	out            string
+	stdout, stderr io.Writer
 }
 
-func newBootstrapCmd() *cobra.Command {
-	f := bootstrapFlags{opts: audit.DefaultBootstrapOptions}
+// validate checks the flags and fills o.opts from them and the data's
+// path.
+func (f *bootstrapOptions) validate(data string) error {
+	o := &f.opts
+	o.Data = data
+	o.Predictors = splitList(f.predictors)
+	cmp := splitList(f.compare)
+	if o.Outcome == "" || len(o.Predictors) < 2 {
+		return flagErrorf("--outcome and at least two --predictors are required")
+	}
+	if len(cmp) != 2 {
+		return flagErrorf("--compare needs two predictors, e.g. --compare a,b")
+	}
+	o.Compare = [2]string{cmp[0], cmp[1]}
+	if !(f.level > 0 && f.level < 100) {
+		return flagErrorf("--level %v: want a percentage between 0 and 100, e.g. 95", f.level)
+	}
+	o.Level = f.level / 100
+	if o.Resamples < 100 {
+		return flagErrorf("--resamples %d: want at least 100", o.Resamples)
+	}
+	if f.format != "table" && f.format != "json" {
+		return flagErrorf("--format %q: want table or json", f.format)
+	}
+	return nil
+}
+
+func newBootstrapCmd(runF func(*bootstrapOptions) error) *cobra.Command {
+	f := &bootstrapOptions{opts: audit.DefaultBootstrapOptions}
 	cmd := &cobra.Command{
 		Use:   "bootstrap DATA",
 		Short: "Bootstrap the difference between two coefficients from raw data",
@@ -44,47 +75,14 @@ any number of cores.`,
   coefaudit bootstrap trial.xlsx --sheet data --outcome y --predictors a,b,c --compare a,b --resamples 20000 --seed 7 --format json`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			o := f.opts
-			o.Data = args[0]
-			o.Predictors = splitList(f.predictors)
-			cmp := splitList(f.compare)
-			if o.Outcome == "" || len(o.Predictors) < 2 {
-				return flagErrorf("--outcome and at least two --predictors are required")
-			}
-			if len(cmp) != 2 {
-				return flagErrorf("--compare needs two predictors, e.g. --compare a,b")
-			}
-			o.Compare = [2]string{cmp[0], cmp[1]}
-			if !(f.level > 0 && f.level < 100) {
-				return flagErrorf("--level %v: want a percentage between 0 and 100, e.g. 95", f.level)
-			}
-			o.Level = f.level / 100
-			if o.Resamples < 100 {
-				return flagErrorf("--resamples %d: want at least 100", o.Resamples)
-			}
-			if f.format != "table" && f.format != "json" {
-				return flagErrorf("--format %q: want table or json", f.format)
-			}
-			bar := progress.New(os.Stderr, "resampling")
-			o.Progress = bar.Update
-			rep, err := audit.Bootstrap(o)
-			bar.Done()
-			if err != nil {
+			if err := f.validate(args[0]); err != nil {
 				return err
 			}
-			t, err := output.Open(cmd.OutOrStdout(), f.out, o.Data)
-			if err != nil {
-				return flagError{err}
+			f.stdout, f.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
+			if runF != nil {
+				return runF(f)
 			}
-			write := audit.WriteBootstrapTable
-			if f.format == "json" {
-				write = audit.WriteBootstrapJSON
-			}
-			if err := write(t, rep); err != nil {
-				t.Abort()
-				return fmt.Errorf("writing the report: %w", err)
-			}
-			return t.Close()
+			return runBootstrap(f)
 		},
 	}
 	fl := cmd.Flags()
@@ -100,6 +98,32 @@ any number of cores.`,
 	fl.StringVarP(&f.format, "format", "f", "table", "output format: table or json")
 	fl.StringVarP(&f.out, "out", "o", "", "write the report to this file (- or nothing: standard output; a device or FIFO is written in place)")
 	return cmd
+}
+
+// runBootstrap reads the data, bootstraps the comparison with a progress
+// bar on a terminal's standard error, and writes the report.
+func runBootstrap(f *bootstrapOptions) error {
+	o := f.opts
+	bar := progress.New(f.stderr, "resampling")
+	o.Progress = bar.Update
+	rep, err := report.Bootstrap(o)
+	bar.Done()
+	if err != nil {
+		return err
+	}
+	t, err := output.Open(f.stdout, f.out, o.Data)
+	if err != nil {
+		return flagError{err}
+	}
+	write := report.WriteBootstrapTable
+	if f.format == "json" {
+		write = report.WriteBootstrapJSON
+	}
+	if err := write(t, rep); err != nil {
+		t.Abort()
+		return fmt.Errorf("writing the report: %w", err)
+	}
+	return t.Close()
 }
 
 func splitList(s string) []string {

@@ -3,9 +3,11 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 
 	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/report"
 
 	"github.com/spf13/cobra"
 )
@@ -16,6 +18,7 @@ type compareOptions struct {
 	independent, sameModel, sameSample bool
 	format                             string
 	report                             reportOptions // for --fail-on
+	stdout                             io.Writer
 }
 
 func (o *compareOptions) validate() error {
@@ -37,8 +40,8 @@ func (o *compareOptions) validate() error {
 	return err
 }
 
-func newCompareCmd() *cobra.Command {
-	o := compareOptions{format: "text"}
+func newCompareCmd(runF func(*compareOptions) error) *cobra.Command {
+	o := &compareOptions{format: "text"}
 	cmd := &cobra.Command{
 		Use:   "compare --first EST --second EST (--independent | --same-model | --same-sample)",
 		Short: "Test one claim from two numbers typed on the command line",
@@ -69,7 +72,11 @@ is listed in --fail-on, 2 for a usage error.`,
 			if err := o.validate(); err != nil {
 				return err
 			}
-			return runCompare(cmd, o)
+			o.stdout = cmd.OutOrStdout()
+			if runF != nil {
+				return runF(o)
+			}
+			return runCompare(o)
 		},
 	}
 	f := cmd.Flags()
@@ -99,7 +106,7 @@ is listed in --fail-on, 2 for a usage error.`,
 }
 
 // runCompare parses and audits the comparison and prints the result.
-func runCompare(cmd *cobra.Command, o compareOptions) error {
+func runCompare(o *compareOptions) error {
 	c, err := audit.ParseComparison(o.text)
 	if err != nil {
 		var fe *audit.FieldError
@@ -113,14 +120,14 @@ func runCompare(cmd *cobra.Command, o compareOptions) error {
 		return flagError{err}
 	}
 	if o.format == "json" {
-		err = audit.WriteJSON(cmd.OutOrStdout(), rep)
+		err = report.Write("json", o.stdout, rep)
 	} else {
-		err = audit.WriteComparison(cmd.OutOrStdout(), rep, c)
+		err = report.WriteComparison(o.stdout, rep, c)
 	}
 	if err != nil {
 		return fmt.Errorf("writing the result: %w", err)
 	}
-	if flagged(rep, o.report.failOn) {
+	if flagged(rep.Summary, o.report.failOn) {
 		return errFlagged
 	}
 	return nil

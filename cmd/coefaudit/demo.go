@@ -6,8 +6,14 @@ import (
 	"github.com/spf13/cobra"
 )
 
-func newDemoCmd() *cobra.Command {
-	var o reportOptions
+// demoOptions are the flags of the demo command.
+type demoOptions struct {
+	check checkOptions
+	save  string
+}
+
+func newDemoCmd(runF func(*demoOptions) error) *cobra.Command {
+	o := &demoOptions{}
 	cmd := &cobra.Command{
 		Use:   "demo",
 		Short: "Audit the bundled demo workbook (invented data)",
@@ -20,22 +26,32 @@ give. The data are invented for the demonstration; no real study is meant.
   coefaudit demo --save demo.xlsx`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := o.validate(); err != nil {
+			if err := o.check.report.validate(); err != nil {
 				return err
 			}
-			save, _ := cmd.Flags().GetString("save")
-			if save != "" {
-				return fixtures.SaveDemo(save)
+			o.check.stdout = cmd.OutOrStdout()
+			if runF != nil {
+				return runF(o)
 			}
-			path, cleanup, err := fixtures.DemoFile()
-			if err != nil {
-				return err
-			}
-			defer cleanup()
-			return runReport(cmd, path, fixtures.DemoName, o)
+			return runDemo(o)
 		},
 	}
-	o.bind(cmd)
-	cmd.Flags().String("save", "", "write the demo workbook to this file instead of auditing it")
+	o.check.report.bind(cmd)
+	cmd.Flags().StringVar(&o.save, "save", "", "write the demo workbook to this file instead of auditing it")
 	return cmd
+}
+
+// runDemo writes the demo workbook out, or audits it as check does under
+// the demo's own name.
+func runDemo(o *demoOptions) error {
+	if o.save != "" {
+		return fixtures.SaveDemo(o.save)
+	}
+	path, cleanup, err := fixtures.DemoFile()
+	if err != nil {
+		return err
+	}
+	defer cleanup()
+	o.check.input, o.check.shown = path, fixtures.DemoName
+	return runCheck(&o.check)
 }

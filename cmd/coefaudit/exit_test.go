@@ -226,8 +226,12 @@ func TestCheckXLSXAndHTML(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Count(string(b), `<section class="claim `); got != claims {
-		t.Errorf("the page has %d claim sections, want %d", got, claims)
+	if got := strings.Count(string(b), `<tr data-outcome=`); got != claims {
+		t.Errorf("the page has %d lines of claims, want %d", got, claims)
+	}
+	flaggedClaims := claims - strings.Count(jsonOut, `"outcome":"consistent"`)
+	if got := strings.Count(string(b), `<section class="claim `); got != flaggedClaims {
+		t.Errorf("the page has %d claim cards, want one per flagged claim (%d)", got, flaggedClaims)
 	}
 	stdout, _, code := runArgs("check", demo, "--format", "html")
 	if code != exitFlagged || !strings.HasPrefix(stdout, "<!DOCTYPE html>") {

@@ -2,22 +2,26 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/report"
 
 	"github.com/spf13/cobra"
 )
 
 // poolOptions are the flags of the pool command.
 type poolOptions struct {
+	input  string
 	format string
 	out    string
 	plots  string
 	method string
 	level  float64
 	adjust string
+	stdout io.Writer
 }
 
 func (o *poolOptions) validate() error {
@@ -50,15 +54,15 @@ func (o *poolOptions) validate() error {
 func (o *poolOptions) writer() func(*output.Target, *audit.PoolReport) error {
 	switch o.format {
 	case "json":
-		return func(t *output.Target, r *audit.PoolReport) error { return audit.WritePoolJSON(t, r) }
+		return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolJSON(t, r) }
 	case "md":
-		return func(t *output.Target, r *audit.PoolReport) error { return audit.WritePoolMarkdown(t, r) }
+		return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolMarkdown(t, r) }
 	}
-	return func(t *output.Target, r *audit.PoolReport) error { return audit.WritePoolTable(t, r) }
+	return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolTable(t, r) }
 }
 
-func newPoolCmd() *cobra.Command {
-	o := poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level}
+func newPoolCmd(runF func(*poolOptions) error) *cobra.Command {
+	o := &poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level}
 	cmd := &cobra.Command{
 		Use:   "pool INPUT",
 		Short: "Pool the differences of claims that share a topic across studies",
@@ -92,7 +96,11 @@ the files written.`,
 			if err := o.validate(); err != nil {
 				return err
 			}
-			return runPool(cmd, args[0], o)
+			o.input, o.stdout = args[0], cmd.OutOrStdout()
+			if runF != nil {
+				return runF(o)
+			}
+			return runPool(o)
 		},
 	}
 	cmd.Flags().StringVarP(&o.format, "format", "f", "table", "output format: table, json or md")
@@ -106,20 +114,20 @@ the files written.`,
 
 // runPool pools input, writes the forest plots and then the report, which
 // lists the plots written.
-func runPool(cmd *cobra.Command, input string, o poolOptions) error {
-	rep, err := audit.PoolInput(input, audit.Options{Adjust: o.adjust},
+func runPool(o *poolOptions) error {
+	rep, err := report.PoolInput(o.input, report.Options{Audit: audit.Options{Adjust: o.adjust}},
 		audit.PoolOptions{Method: o.method, Level: o.level / 100})
 	if err != nil {
 		return err
 	}
 	// The report's target is opened first, so that a bad --out stops the
 	// run before any plot is written.
-	t, err := output.Open(cmd.OutOrStdout(), o.out, input)
+	t, err := output.Open(o.stdout, o.out, o.input)
 	if err != nil {
 		return flagError{err}
 	}
-	for _, f := range audit.PoolPlotFiles(rep, o.out, o.plots) {
-		if err := writePlot(cmd, input, rep, f); err != nil {
+	for _, f := range report.PoolPlotFiles(rep, o.out, o.plots) {
+		if err := writePlot(o, rep, f); err != nil {
 			t.Abort()
 			return err
 		}
@@ -134,12 +142,12 @@ func runPool(cmd *cobra.Command, input string, o poolOptions) error {
 
 // writePlot writes one forest plot through the same safe writer as the
 // report: never over the input, renamed into place when complete.
-func writePlot(cmd *cobra.Command, input string, rep *audit.PoolReport, f audit.PoolPlotFile) error {
-	t, err := output.Open(cmd.OutOrStdout(), f.Path, input)
+func writePlot(o *poolOptions, rep *audit.PoolReport, f report.PoolPlotFile) error {
+	t, err := output.Open(o.stdout, f.Path, o.input)
 	if err != nil {
 		return flagError{err}
 	}
-	if err := audit.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f.Format); err != nil {
+	if err := report.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f.Format); err != nil {
 		t.Abort()
 		return fmt.Errorf("writing %s: %w", f.Path, err)
 	}

@@ -7,7 +7,13 @@ import (
 	"github.com/spf13/cobra"
 )
 
-func newTemplateCmd() *cobra.Command {
+// templateOptions are what the template command runs with.
+type templateOptions struct {
+	path string
+}
+
+func newTemplateCmd(runF func(*templateOptions) error) *cobra.Command {
+	o := &templateOptions{}
 	cmd := &cobra.Command{
 		Use:   "template FILE.xlsx",
 		Short: "Write a blank input workbook that explains every column",
@@ -19,16 +25,25 @@ not overwritten.`,
 		Example: `  coefaudit template review.xlsx`,
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			t, err := output.Create(args[0])
-			if err != nil {
-				return flagError{err}
+			o.path = args[0]
+			if runF != nil {
+				return runF(o)
 			}
-			if err := extract.WriteTemplate(t); err != nil {
-				t.Abort()
-				return err
-			}
-			return t.Close()
+			return runTemplate(o)
 		},
 	}
 	return cmd
+}
+
+// runTemplate writes the blank workbook, never over an existing file.
+func runTemplate(o *templateOptions) error {
+	t, err := output.Create(o.path)
+	if err != nil {
+		return flagError{err}
+	}
+	if err := extract.WriteTemplate(t); err != nil {
+		t.Abort()
+		return err
+	}
+	return t.Close()
 }

@@ -1,0 +1,33 @@
+package report
+
+import (
+	"bytes"
+	"strings"
+	"testing"
+
+	"coefaudit/audit"
+	"coefaudit/extract"
+)
+
+func TestWriteComparison(t *testing.T) {
+	c, err := audit.ParseComparison(audit.ComparisonText{First: "0.41 [0.30, 0.52]", Second: "0.18 (0.05 to 0.31)",
+		Relation: audit.Independent, Published: extract.PublishedDiffer})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := audit.CompareReported(c, audit.DefaultOptions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WriteComparison(&buf, rep, c); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, want := range []string{"0.41 [0.30, 0.52]", "0.18 (0.05 to 0.31)", "independent samples", "independent-z",
+		"Verdict:", strings.ToUpper(rep.Claims[0].Outcome), "Methods", "Cautions", audit.Cautions[0]} {
+		if !strings.Contains(out, want) {
+			t.Errorf("WriteComparison() lacks %q:\n%s", want, out)
+		}
+	}
+}

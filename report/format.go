@@ -1,0 +1,184 @@
+package report
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+
+	"coefaudit/audit"
+)
+
+// reportTitle is every report's title.
+const reportTitle = "Audit of published comparisons"
+
+// titleOf is the report's title with the input's name, escaped for the
+// format, after sep.
+func titleOf(h Header, sep string, escape func(string) string) string {
+	if h.Source == "" {
+		return reportTitle
+	}
+	return reportTitle + sep + escape(h.Source)
+}
+
+// formatNum writes a number with four significant digits, as the notes
+// print them; NA when it is not a number.
+func formatNum(x float64) string {
+	switch {
+	case math.IsNaN(x):
+		return "NA"
+	case math.IsInf(x, 1):
+		return "∞"
+	case math.IsInf(x, -1):
+		return "−∞"
+	}
+	return strconv.FormatFloat(x, 'g', 4, 64)
+}
+
+// formatP writes a p-value the way reports print them: three decimals,
+// "< 0.001" below that.
+func formatP(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "NA"
+	case p < 0.001:
+		return "< 0.001"
+	}
+	return strconv.FormatFloat(p, 'f', 3, 64)
+}
+
+// pStatement is "p = 0.012" or "p < 0.001".
+func pStatement(p float64) string {
+	if p < 0.001 {
+		return "p " + formatP(p)
+	}
+	return "p = " + formatP(p)
+}
+
+// formatAlpha writes a significance level as given (0.05).
+func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
+
+func dash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
+}
+
+func numberOrDash(n audit.Number) string {
+	if !n.Known() {
+		return "–"
+	}
+	return formatNum(float64(n))
+}
+
+// differenceCell is the difference with its interval: "0.23 [0.06, 0.40]".
+func differenceCell(c *audit.ClaimResult) string {
+	if !c.Difference.Known() {
+		return "-"
+	}
+	if !c.DifferenceCI[0].Known() {
+		return formatNum(float64(c.Difference))
+	}
+	return fmt.Sprintf("%s [%s, %s]", formatNum(float64(c.Difference)), formatNum(float64(c.DifferenceCI[0])), formatNum(float64(c.DifferenceCI[1])))
+}
+
+func pCell(p audit.Number) string {
+	if !p.Known() {
+		return "-"
+	}
+	return formatP(float64(p))
+}
+
+func pRangeCell(r [2]audit.Number) string {
+	if !r[0].Known() || !r[1].Known() {
+		return "-"
+	}
+	lo, hi := formatP(float64(r[0])), formatP(float64(r[1]))
+	if lo == hi {
+		return lo
+	}
+	return lo + "–" + hi
+}
+
+// adjustedP is the claim's p adjusted within its study by method, NaN
+// when there is none.
+func adjustedP(c *audit.ClaimResult, method string) audit.Number {
+	q, _ := c.AdjustedP.By(method)
+	return q
+}
+
+// problemText places a problem: `sheet "claims", row 4, column "p": …`.
+func problemText(p audit.Problem) string {
+	var loc []string
+	if p.Sheet != "" {
+		loc = append(loc, fmt.Sprintf("sheet %q", p.Sheet))
+	}
+	if p.Row > 0 {
+		loc = append(loc, fmt.Sprintf("row %d", p.Row))
+	}
+	if p.Column != "" {
+		loc = append(loc, fmt.Sprintf("column %q", p.Column))
+	}
+	if len(loc) == 0 {
+		return p.Message
+	}
+	return strings.Join(loc, ", ") + ": " + p.Message
+}
+
+// summaryLine is "12 claims audited in review.xlsx: 9 consistent, 3
+// unsupported; 2 problem(s) in the input."
+func summaryLine(source string, sum audit.Summary, problems int) string {
+	var parts []string
+	for _, o := range outcomesShown(sum.Counts) {
+		parts = append(parts, fmt.Sprintf("%d %s", sum.Counts[o], o))
+	}
+	src := ""
+	if source != "" {
+		src = " in " + source
+	}
+	noun := "claims"
+	if sum.Claims == 1 {
+		noun = "claim"
+	}
+	s := fmt.Sprintf("%d %s audited%s", sum.Claims, noun, src)
+	if len(parts) > 0 {
+		s += ": " + strings.Join(parts, ", ")
+	}
+	if problems > 0 {
+		s += fmt.Sprintf("; %d problem(s) in the input", problems)
+	}
+	return s + "."
+}
+
+// outcomesShown lists the outcomes that occur, in the order of
+// audit.Outcomes, then any outcome outside it in the order of the names.
+func outcomesShown(counts map[string]int) []string {
+	var out, other []string
+	for _, o := range audit.Outcomes {
+		if counts[o] > 0 {
+			out = append(out, o)
+		}
+	}
+	for o, n := range counts {
+		if n > 0 && !isOutcome(o) {
+			other = append(other, o)
+		}
+	}
+	slices.Sort(other)
+	return append(out, other...)
+}
+
+func isOutcome(o string) bool { return slices.Contains(audit.Outcomes, o) }
+
+// heldProblems collects the problems of a report's studies until End,
+// where every format but CSV lists them after the claims.
+type heldProblems []audit.Problem
+
+func (h *heldProblems) add(ps []audit.Problem) { *h = append(*h, ps...) }
+
+// all returns the input's own problems, then the studies'.
+func (h heldProblems) all(f Footer) []audit.Problem {
+	return append(append([]audit.Problem(nil), f.Problems...), h...)
+}

@@ -1,0 +1,237 @@
+package report
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"iter"
+	"slices"
+
+	"coefaudit/audit"
+	"coefaudit/extract"
+)
+
+// Header is what a report knows before its first claim.
+type Header struct {
+	// Source names the input as the report shows it.
+	Source string
+	// Alpha is the significance level of a claim that sets none.
+	Alpha float64
+	// ClaimColumns are the claims rows' unknown columns, in header order:
+	// they pass through to the CSV and xlsx reports.
+	ClaimColumns []string
+	// Adjust is the multiplicity adjustment deciding the outcomes
+	// (audit.AdjustNone, AdjustHolm or AdjustBH).
+	Adjust string
+	// Cautions are printed with every report a person reads; audit.Cautions
+	// when empty.
+	Cautions []string
+}
+
+// cautions returns the header's cautions, or the audit's.
+func (h Header) cautions() []string {
+	if len(h.Cautions) > 0 {
+		return h.Cautions
+	}
+	return audit.Cautions
+}
+
+// Footer is what a report knows after its last claim.
+type Footer struct {
+	// Summary counts the claims and their outcomes.
+	Summary audit.Summary
+	// Problems are the input's problems that belong to no study (a
+	// missing sheet or column, a header-only file); the studies' own came
+	// with their results.
+	Problems []audit.Problem
+}
+
+// Writer writes one report as the audit goes: Begin once, Study for each
+// run of results in input order (audit.Run's emit), End once. Each method
+// returns the first error of the underlying writer; after an error the
+// report is incomplete and the caller discards it. Nothing is written to
+// the io.Writer after End returns. A writer that keeps more than what it
+// writes to the io.Writer (the xlsx writer's temporary files) is also an
+// io.Closer, to be closed whether or not End ran; Check and Write do.
+type Writer interface {
+	Begin(h Header) error
+	Study(res audit.StudyResult) error
+	End(f Footer) error
+}
+
+// InputWriter is a Writer that also shows the input as it was read (the
+// xlsx workbook keeps the input's sheets): Check hands it each study
+// before the study is audited.
+type InputWriter interface {
+	Writer
+	Input(st *extract.Study) error
+}
+
+// ErrFormat is returned for a report format New does not know.
+var ErrFormat = errors.New("unknown report format")
+
+// Formats returns the formats New knows, in the order help lists them.
+func Formats() []string { return []string{"table", "json", "csv", "md", "xlsx", "html"} }
+
+// New returns the writer of format (one of Formats) writing to w. The
+// writers buffer what they write and flush it by End.
+func New(format string, w io.Writer) (Writer, error) {
+	switch format {
+	case "table":
+		return newTableWriter(w), nil
+	case "json":
+		return newJSONWriter(w), nil
+	case "csv":
+		return newCSVWriter(w), nil
+	case "md":
+		return newMarkdownWriter(w), nil
+	case "html":
+		return newHTMLWriter(w), nil
+	case "xlsx":
+		return newXLSXWriter(w), nil
+	}
+	return nil, fmt.Errorf("%q: %w (want one of %v)", format, ErrFormat, Formats())
+}
+
+// Options are the settings of Check and Collect.
+type Options struct {
+	// Audit are the audit's settings.
+	Audit audit.Options
+	// Source names the input in the report; the path when empty.
+	Source string
+}
+
+// Check reads the input at path (a workbook, a folder of CSVs or a paired
+// CSV), audits it study by study and writes the report in format to w as
+// it goes: extract.Open, then Begin, audit.Run handing each run of results
+// to Study, and End. It returns the summary of the claims audited. The
+// error is non-nil when the input cannot be opened or read on, or the
+// report cannot be written; problems with single rows are in the report.
+// Nothing is written to w when the input cannot be opened.
+func Check(path string, w io.Writer, format string, o Options) (audit.Summary, error) {
+	wr, err := New(format, w)
+	if err != nil {
+		return audit.Summary{}, err
+	}
+	src, err := extract.Open(path)
+	if err != nil {
+		return audit.Summary{}, err
+	}
+	defer src.Close()
+	return run(src, wr, format, o)
+}
+
+// run writes the report of an open source.
+func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summary, error) {
+	if c, ok := wr.(io.Closer); ok {
+		defer c.Close()
+	}
+	h := Header{Source: o.Source, Alpha: extract.DefaultAlpha, ClaimColumns: src.ClaimColumns,
+		Adjust: o.Audit.Adjust, Cautions: audit.Cautions}
+	if h.Source == "" {
+		h.Source = src.Path
+	}
+	if h.Adjust == "" {
+		h.Adjust = audit.DefaultOptions.Adjust
+	}
+	if err := wr.Begin(h); err != nil {
+		return audit.Summary{}, fmt.Errorf("writing the %s report: %w", format, err)
+	}
+	studies := src.Studies()
+	if iw, ok := wr.(InputWriter); ok {
+		studies = showingInput(studies, iw)
+	}
+	sum, err := audit.Run(studies, o.Audit, func(res audit.StudyResult) error {
+		if err := wr.Study(res); err != nil {
+			return fmt.Errorf("writing the %s report: %w", format, err)
+		}
+		return nil
+	})
+	if err != nil {
+		return sum, err
+	}
+	if err := wr.End(Footer{Summary: sum, Problems: audit.InputProblems(src.Problems())}); err != nil {
+		return sum, fmt.Errorf("writing the %s report: %w", format, err)
+	}
+	return sum, nil
+}
+
+// showingInput hands each study to iw before it is audited.
+func showingInput(studies iter.Seq2[*extract.Study, error], iw InputWriter) iter.Seq2[*extract.Study, error] {
+	return func(yield func(*extract.Study, error) bool) {
+		for st, err := range studies {
+			if err == nil {
+				if err := iw.Input(st); err != nil {
+					yield(nil, fmt.Errorf("writing the input into the report: %w", err))
+					return
+				}
+			}
+			if !yield(st, err) {
+				return
+			}
+		}
+	}
+}
+
+// Collect reads and audits the input at path into one report held in
+// memory, for what needs every claim at once (pooling). Its problems list
+// the input's own first, then each study's.
+func Collect(path string, o Options) (*audit.Report, error) {
+	src, err := extract.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer src.Close()
+	rep := &audit.Report{Source: o.Source, Alpha: extract.DefaultAlpha, Cautions: audit.Cautions,
+		Claims: []audit.ClaimResult{}, Problems: []audit.Problem{}}
+	if rep.Source == "" {
+		rep.Source = path
+	}
+	rep.Summary, err = audit.Run(src.Studies(), o.Audit, func(res audit.StudyResult) error {
+		rep.Claims = append(rep.Claims, res.Claims...)
+		rep.Problems = append(rep.Problems, res.Problems...)
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	rep.Problems = append(audit.InputProblems(src.Problems()), rep.Problems...)
+	return rep, nil
+}
+
+// Write writes a report already held in memory (the audit of one typed
+// comparison, say) through the writer of format: each run of consecutive
+// claims of one study is one Study call, and every problem of the report
+// goes to End. There is no input to show, so the xlsx workbook has no
+// input sheets.
+func Write(format string, w io.Writer, rep *audit.Report) error {
+	wr, err := New(format, w)
+	if err != nil {
+		return err
+	}
+	if c, ok := wr.(io.Closer); ok {
+		defer c.Close()
+	}
+	h := Header{Source: rep.Source, Alpha: rep.Alpha, Cautions: rep.Cautions, Adjust: audit.DefaultOptions.Adjust}
+	for i := range rep.Claims {
+		for _, n := range rep.Claims[i].ExtraNames {
+			if !slices.Contains(h.ClaimColumns, n) {
+				h.ClaimColumns = append(h.ClaimColumns, n)
+			}
+		}
+	}
+	if err := wr.Begin(h); err != nil {
+		return err
+	}
+	for start := 0; start < len(rep.Claims); {
+		end := start + 1
+		for end < len(rep.Claims) && rep.Claims[end].Study == rep.Claims[start].Study {
+			end++
+		}
+		if err := wr.Study(audit.StudyResult{Study: rep.Claims[start].Study, Claims: rep.Claims[start:end]}); err != nil {
+			return err
+		}
+		start = end
+	}
+	return wr.End(Footer{Summary: rep.Summary, Problems: rep.Problems})
+}

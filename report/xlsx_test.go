@@ -1,0 +1,325 @@
+package report
+
+import (
+	"archive/zip"
+	"bytes"
+	"errors"
+	"io"
+	"os"
+	"path/filepath"
+	"regexp"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"coefaudit/audit"
+	"coefaudit/extract"
+
+	"github.com/xuri/excelize/v2"
+)
+
+func openXLSX(t *testing.T, b []byte) *excelize.File {
+	t.Helper()
+	f, err := excelize.OpenReader(bytes.NewReader(b))
+	if err != nil {
+		t.Fatalf("the workbook does not reopen: %v", err)
+	}
+	t.Cleanup(func() { f.Close() })
+	return f
+}
+
+// columnIndex finds a header in the first row.
+func columnIndex(t *testing.T, rows [][]string, name string) int {
+	t.Helper()
+	if len(rows) == 0 {
+		t.Fatal("sheet has no header row")
+	}
+	i := slices.Index(rows[0], name)
+	if i < 0 {
+		t.Fatalf("header %v lacks %q", rows[0], name)
+	}
+	return i
+}
+
+func TestWriteXLSXClaimsAndOutcomeFills(t *testing.T) {
+	in := reportInput()
+	rep := audit.Audit(in, audit.DefaultOptions)
+	f := openXLSX(t, writeInput(t, "xlsx", in))
+	if got, want := f.GetSheetList(), []string{"summary", "claims", "methods", "coefficients"}; !slices.Equal(got, want) {
+		t.Errorf("sheets = %v, want %v", got, want)
+	}
+	rows, err := f.GetRows("claims", excelize.Options{RawCellValue: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != len(rep.Claims)+1 {
+		t.Fatalf("claims sheet has %d rows, want a header and %d claims", len(rows), len(rep.Claims))
+	}
+	oc, sc, cc, pc := columnIndex(t, rows, "outcome"), columnIndex(t, rows, "study"), columnIndex(t, rows, "claim"), columnIndex(t, rows, "p")
+	outcomes := map[string]bool{}
+	for i, c := range rep.Claims {
+		row := rows[i+1]
+		if row[sc] != c.Study || row[cc] != c.Claim {
+			t.Errorf("claims row %d = (%q, %q), want (%q, %q)", i+2, row[sc], row[cc], c.Study, c.Claim)
+		}
+		if row[oc] != c.Outcome {
+			t.Errorf("claims row %d outcome = %q, want %q", i+2, row[oc], c.Outcome)
+		}
+		outcomes[c.Outcome] = true
+		cell, _ := excelize.CoordinatesToCellName(oc+1, i+2)
+		id, err := f.GetCellStyle("claims", cell)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := f.GetStyle(id)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if st.Fill.Pattern != 1 || len(st.Fill.Color) == 0 ||
+			!strings.EqualFold(strings.TrimPrefix(st.Fill.Color[0], "#"), strings.TrimPrefix(fillOf(c.Outcome), "#")) {
+			t.Errorf("outcome cell %s fill = %+v, want solid %s", cell, st.Fill, fillOf(c.Outcome))
+		}
+		if c.P.Known() {
+			pcell, _ := excelize.CoordinatesToCellName(pc+1, i+2)
+			id, _ := f.GetCellStyle("claims", pcell)
+			st, _ := f.GetStyle(id)
+			want := "0.0000"
+			if c.P < 1e-4 {
+				want = "0.0E+00"
+			}
+			if st.CustomNumFmt == nil || *st.CustomNumFmt != want {
+				t.Errorf("p cell %s number format = %v, want %s", pcell, st.CustomNumFmt, want)
+			}
+			// The displayed text is the p rounded as the format says.
+			shown, _ := f.GetCellValue("claims", pcell)
+			if want == "0.0000" && shown != strconv.FormatFloat(float64(c.P), 'f', 4, 64) {
+				t.Errorf("p cell %s shows %q, want %.4f", pcell, shown, float64(c.P))
+			}
+			if typ, _ := f.GetCellType("claims", pcell); typ == excelize.CellTypeInlineString || typ == excelize.CellTypeSharedString {
+				t.Errorf("p cell %s is text, want a number", pcell)
+			}
+		}
+	}
+	if len(outcomes) < 3 {
+		t.Errorf("the invented input gave outcomes %v; the test needs several to check fills", outcomes)
+	}
+	for _, sheet := range []string{"claims", "coefficients", "methods"} {
+		p, err := f.GetPanes(sheet)
+		if err != nil || !p.Freeze || p.YSplit != 1 {
+			t.Errorf("sheet %s panes = %+v (%v), want the header row frozen", sheet, p, err)
+		}
+	}
+	// The claims header carries filter buttons (an autofilter, set before
+	// the stream's Flush, which would drop it afterwards).
+	filtered := false
+	for _, d := range f.GetDefinedName() {
+		if d.Name == "_xlnm._FilterDatabase" && strings.HasPrefix(d.RefersTo, "'claims'!") {
+			filtered = true
+		}
+	}
+	if !filtered {
+		t.Error("the claims sheet has no autofilter")
+	}
+	// The summary counts every outcome.
+	sum, _ := f.GetRows("summary", excelize.Options{RawCellValue: true})
+	found := 0
+	for _, r := range sum {
+		if len(r) >= 2 && slices.Contains(audit.Outcomes, r[0]) && found < len(audit.Outcomes) {
+			if n, _ := strconv.Atoi(r[1]); n != rep.Summary.Counts[r[0]] {
+				t.Errorf("summary count of %s = %s, want %d", r[0], r[1], rep.Summary.Counts[r[0]])
+			}
+			found++
+		}
+	}
+	if found != len(audit.Outcomes) {
+		t.Errorf("summary lists %d outcomes, want %d", found, len(audit.Outcomes))
+	}
+}
+
+// TestWriteXLSXFormulaLikeText checks that text starting with =, +, -, @,
+// tab or CR is stored as text: an inline string with no formula, read back
+// exactly as written, and that no sheet of the file holds a formula.
+func TestWriteXLSXFormulaLikeText(t *testing.T) {
+	b := writeInput(t, "xlsx", reportInput())
+	f := openXLSX(t, b)
+	for _, sheet := range []string{"claims", "coefficients", "methods"} {
+		rows, err := f.GetRows(sheet, excelize.Options{RawCellValue: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		seen := map[string]bool{}
+		for r, row := range rows {
+			for c, v := range row {
+				if !slices.Contains(injectionTexts, v) {
+					continue
+				}
+				seen[v] = true
+				cell, _ := excelize.CoordinatesToCellName(c+1, r+1)
+				if formula, err := f.GetCellFormula(sheet, cell); err != nil || formula != "" {
+					t.Errorf("%s!%s holds formula %q (%v), want none", sheet, cell, formula, err)
+				}
+				if typ, _ := f.GetCellType(sheet, cell); typ != excelize.CellTypeInlineString {
+					t.Errorf("%s!%s type = %v, want an inline string", sheet, cell, typ)
+				}
+			}
+		}
+		for _, text := range injectionTexts {
+			if !seen[text] {
+				t.Errorf("sheet %s: no cell reads back as %q", sheet, text)
+			}
+		}
+	}
+	zr, err := zip.NewReader(bytes.NewReader(b), int64(len(b)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	formula := regexp.MustCompile(`<f[ >/]`)
+	for _, zf := range zr.File {
+		if !strings.HasPrefix(zf.Name, "xl/worksheets/") || !strings.HasSuffix(zf.Name, ".xml") {
+			continue
+		}
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		xml, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if formula.Match(xml) {
+			t.Errorf("%s holds a formula element", zf.Name)
+		}
+	}
+}
+
+// TestWriteXLSXReadsBack writes the demo's audit as a workbook, reads that
+// workbook as an input and audits it again: the input sheets must carry
+// the input faithfully, so every claim gets the same outcome and p. A
+// claims row that could not be read is the exception: the reader keeps no
+// text of a malformed cell, so the workbook leaves it blank with the
+// problem beside it, and the row reads back as a claim of its own.
+func TestWriteXLSXReadsBack(t *testing.T) {
+	rep, in := demoReport(t)
+	out := filepath.Join(t.TempDir(), "audit.xlsx")
+	if err := os.WriteFile(out, writeInput(t, "xlsx", in), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	again, err := extract.Read(out)
+	if err != nil {
+		t.Fatalf("extract.Read(written workbook): %v", err)
+	}
+	if len(again.Coefficients) != len(in.Coefficients) || len(again.Correlations) != len(in.Correlations) || len(again.Tables) != len(in.Tables) {
+		t.Errorf("read back %d coefficients, %d correlations, %d tables, want %d, %d, %d", len(again.Coefficients),
+			len(again.Correlations), len(again.Tables), len(in.Coefficients), len(in.Correlations), len(in.Tables))
+	}
+	rep2 := audit.Audit(again, audit.DefaultOptions)
+	if len(rep2.Claims) != len(rep.Claims) {
+		t.Fatalf("read back %d claims, want %d", len(rep2.Claims), len(rep.Claims))
+	}
+	for i, c := range rep.Claims {
+		d := rep2.Claims[i]
+		if len(in.Claims[i].Problems) > 0 {
+			if d.Study != c.Study || d.Claim != c.Claim {
+				t.Errorf("claim %d read back as (%s, %s), want (%s, %s)", i, d.Study, d.Claim, c.Study, c.Claim)
+			}
+			continue
+		}
+		if d.Study != c.Study || d.Claim != c.Claim || d.Outcome != c.Outcome {
+			t.Errorf("claim %d read back as (%s, %s, %s), want (%s, %s, %s)", i, d.Study, d.Claim, d.Outcome, c.Study, c.Claim, c.Outcome)
+		}
+		if c.P.Known() && (!d.P.Known() || float64(d.P) != float64(c.P)) {
+			t.Errorf("claim %s p read back as %v, want %v", c.Claim, d.P, c.P)
+		}
+	}
+}
+
+// TestWriteXLSXWithoutInput: with no input, the claims come from the report.
+func TestWriteXLSXWithoutInput(t *testing.T) {
+	rep := audit.Audit(reportInput(), audit.DefaultOptions)
+	f := openXLSX(t, writeReport(t, "xlsx", rep))
+	if got, want := f.GetSheetList(), []string{"summary", "claims", "methods"}; !slices.Equal(got, want) {
+		t.Errorf("sheets = %v, want %v", got, want)
+	}
+	rows, _ := f.GetRows("claims", excelize.Options{RawCellValue: true})
+	sc := columnIndex(t, rows, "study")
+	for i, c := range rep.Claims {
+		if rows[i+1][sc] != c.Study {
+			t.Errorf("claims row %d study = %q, want %q", i+2, rows[i+1][sc], c.Study)
+		}
+	}
+}
+
+func TestTableSheetName(t *testing.T) {
+	used := map[string]bool{"summary": true}
+	tests := []struct{ name, in, want string }{
+		{"plain", "Lee 2019", "table Lee 2019"},
+		{"forbidden characters", "a/b:c*d?[e]", "table a_b_c_d__e_"},
+		{"cut to 31", "a very long correlation table name indeed", "table a very long correlation t"},
+		{"duplicate", "Lee 2019", "table Lee 2019 2"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := tableSheetName(tt.in, used); got != tt.want {
+				t.Errorf("tableSheetName(%q) = %q, want %q", tt.in, got, tt.want)
+			}
+		})
+	}
+}
+
+// BenchmarkWriteXLSX measures the workbook of 10,000 claims.
+func BenchmarkWriteXLSX(b *testing.B) {
+	rep := tenThousandClaims()
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := Write("xlsx", io.Discard, rep); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// TestXLSXSheetFull: a sheet whose last row is written refuses the next
+// one with ErrSheetFull, rather than a workbook Excel cannot open.
+func TestXLSXSheetFull(t *testing.T) {
+	f := excelize.NewFile()
+	defer f.Close()
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := &xlsxSheet{f: f, name: "Sheet1", sw: sw, row: excelize.TotalRows - 1}
+	if err := s.add("last"); err != nil {
+		t.Fatalf("writing row %d: %v", excelize.TotalRows, err)
+	}
+	if err := s.add("one more"); !errors.Is(err, ErrSheetFull) {
+		t.Errorf("writing row %d: error %v, want ErrSheetFull", excelize.TotalRows+1, err)
+	}
+}
+
+// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
+// has grown past what excelize keeps in memory (16 MB) before End, as a
+// failed run does: Close must remove the temporary file excelize made.
+func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
+	dir := t.TempDir()
+	t.Setenv("TMPDIR", dir)
+	rep := tenThousandClaims()
+	wr := newXLSXWriter(io.Discard)
+	if err := wr.Begin(Header{}); err != nil {
+		t.Fatal(err)
+	}
+	for range 3 {
+		if err := wr.Study(audit.StudyResult{Claims: rep.Claims}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) == 0 {
+		t.Fatal("excelize made no temporary file; the test needs one")
+	}
+	if err := wr.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) != 0 {
+		t.Errorf("Close left %v", m)
+	}
+}
