@@ -1,6 +1,8 @@
 package audit
 
 import (
+	"slices"
+
 	"coefaudit/extract"
 )
 
@@ -19,8 +21,12 @@ type StudyResult struct {
 // them. It never fails: a claim that cannot be tested is incomplete, with
 // notes saying why. It reads and writes nothing.
 func AuditStudy(st *extract.Study, opts Options) StudyResult {
+	coefs := st.Coefficients
+	if len(st.Borrowed) > 0 {
+		coefs = append(slices.Clip(coefs), st.Borrowed...)
+	}
 	in := &extract.Input{
-		Coefficients: append(append([]extract.Coefficient(nil), st.Coefficients...), st.Borrowed...),
+		Coefficients: coefs,
 		Claims:       st.Claims,
 		Correlations: st.Correlations,
 		Tables:       st.Tables,
