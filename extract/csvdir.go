@@ -8,8 +8,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
-	"sort"
 	"strings"
 	"unicode/utf8"
 )
@@ -364,67 +362,3 @@ func openCSV(path string) (*csvSource, error) {
 	return src, nil
 }
 
-// readFolder reads a folder of CSV files: coefficients.csv, claims.csv, and
-// optionally correlations.csv and "table *.csv" files (names
-// case-insensitive). Other files are ignored.
-func readFolder(dir string) (*Input, error) {
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		return nil, err
-	}
-	found := map[string]string{}
-	var tables []string
-	for _, e := range entries {
-		if e.IsDir() {
-			continue
-		}
-		name := e.Name()
-		lower := strings.ToLower(name)
-		if !strings.HasSuffix(lower, ".csv") {
-			continue
-		}
-		base := strings.TrimSuffix(lower, ".csv")
-		switch base {
-		case "coefficients", "claims", "correlations":
-			found[base] = name
-		default:
-			if _, ok := tableName(name[:len(name)-4]); ok {
-				tables = append(tables, name)
-			}
-		}
-	}
-	if found["claims"] == "" {
-		return nil, fmt.Errorf("%s: no claims.csv in the folder (expected coefficients.csv, claims.csv, optionally correlations.csv and table *.csv): %w", dir, ErrMissingSheet)
-	}
-	sort.Strings(tables)
-	in := &Input{Source: dir}
-	sheets := []struct{ kind, name string }{
-		{"coefficients", found["coefficients"]}, {"claims", found["claims"]}, {"correlations", found["correlations"]},
-	}
-	for _, t := range tables {
-		sheets = append(sheets, struct{ kind, name string }{"table", t})
-	}
-	for _, sh := range sheets {
-		if sh.name == "" {
-			if sh.kind == "coefficients" {
-				in.Problems = append(in.Problems, &CellError{Position: Position{File: dir},
-					Err: fmt.Errorf("no coefficients.csv in the folder: %w", ErrMissingSheet)})
-			}
-			continue
-		}
-		path := filepath.Join(dir, sh.name)
-		src, err := openCSV(path)
-		if err != nil {
-			return nil, err
-		}
-		err = readInto(in, src, sh.kind, Position{File: path}, strings.TrimSuffix(sh.name, filepath.Ext(sh.name)))
-		cerr := src.Close()
-		if err != nil {
-			return nil, err
-		}
-		if cerr != nil {
-			return nil, cerr
-		}
-	}
-	return in, nil
-}

@@ -47,9 +47,9 @@ func Read(path string) (*Input, error) {
 	}
 	switch f {
 	case formFolder:
-		return readFolder(path)
+		return readSheets(folderSheets(path))
 	case formWorkbook:
-		return readWorkbook(path)
+		return readSheets(workbookSheets(path))
 	}
 	return readPairedFile(path)
 }
@@ -84,64 +84,6 @@ func formOf(path string) (form, error) {
 		return formWorkbook, nil
 	}
 	return formPaired, nil
-}
-
-// readWorkbook reads the sheets of a workbook.
-func readWorkbook(path string) (*Input, error) {
-	wb, err := openWorkbook(path)
-	if err != nil {
-		return nil, err
-	}
-	defer wb.Close()
-	found := map[string]string{}
-	var tables []string
-	sheets := wb.sheets()
-	for _, s := range sheets {
-		key := strings.ToLower(trimSpace(s))
-		switch key {
-		case "coefficients", "claims", "correlations":
-			if _, dup := found[key]; !dup {
-				found[key] = s
-			}
-		default:
-			if _, ok := tableName(s); ok {
-				tables = append(tables, s)
-			}
-		}
-	}
-	if found["claims"] == "" {
-		return nil, fmt.Errorf("%s has no claims sheet (its sheets: %s; expected coefficients, claims, optionally correlations and \"table …\"): %w",
-			path, strings.Join(quoteAll(sheets), ", "), ErrMissingSheet)
-	}
-	in := &Input{Source: path}
-	if found["coefficients"] == "" {
-		in.Problems = append(in.Problems, &CellError{Position: Position{File: path},
-			Err: fmt.Errorf("the workbook has no coefficients sheet: %w", ErrMissingSheet)})
-	}
-	order := []struct{ kind, sheet string }{
-		{"coefficients", found["coefficients"]}, {"claims", found["claims"]}, {"correlations", found["correlations"]},
-	}
-	for _, t := range tables {
-		order = append(order, struct{ kind, sheet string }{"table", t})
-	}
-	for _, o := range order {
-		if o.sheet == "" {
-			continue
-		}
-		src, err := wb.source(o.sheet)
-		if err != nil {
-			return nil, err
-		}
-		err = readInto(in, src, o.kind, Position{File: path, Sheet: o.sheet}, o.sheet)
-		cerr := src.Close()
-		if err != nil {
-			return nil, err
-		}
-		if cerr != nil {
-			return nil, fmt.Errorf("%s, sheet %q: %w", path, o.sheet, cerr)
-		}
-	}
-	return in, nil
 }
 
 // readInto reads one sheet of the given kind into in. It returns only a

@@ -72,14 +72,21 @@ func Open(path string) (*Source, error) {
 	if err != nil {
 		return nil, err
 	}
-	if f == formPaired {
+	switch f {
+	case formPaired:
 		return openPaired(path)
+	case formFolder:
+		s, err := folderSheets(path)
+		if err != nil {
+			return nil, err
+		}
+		return openSheets(s)
 	}
-	in, err := Read(path)
+	s, err := workbookSheets(path)
 	if err != nil {
 		return nil, err
 	}
-	return FromInput(in), nil
+	return openSheets(s)
 }
 
 // FromInput makes a Source of an input already in memory (a workbook or a
@@ -406,6 +413,11 @@ func countPaired(path string) (map[string]int, []string, []*CellError, error) {
 		}
 		if err != nil {
 			return nil, nil, nil, err
+		}
+		if _, seen := counts[study]; !seen {
+			// A cell is cut from its whole input line, which a key would
+			// keep alive for the rest of the run.
+			study = strings.Clone(study)
 		}
 		counts[study]++
 	}

@@ -172,13 +172,31 @@ func outcomesShown(counts map[string]int) []string {
 
 func isOutcome(o string) bool { return slices.Contains(audit.Outcomes, o) }
 
-// heldProblems collects the problems of a report's studies until End,
-// where every format but CSV lists them after the claims.
-type heldProblems []audit.Problem
+// MaxProblems is how many problems of the studies a report lists; beyond
+// it they are counted, and a last problem says how many were left out. A
+// file of a million broken rows would otherwise be held whole until the
+// report's end (common practice, no source).
+const MaxProblems = 10000
 
-func (h *heldProblems) add(ps []audit.Problem) { *h = append(*h, ps...) }
+// heldProblems collects the problems of a report's studies until End, at
+// most MaxProblems of them.
+type heldProblems struct {
+	kept    []audit.Problem
+	omitted int
+}
 
-// all returns the input's own problems, then the studies'.
-func (h heldProblems) all(f Footer) []audit.Problem {
-	return append(append([]audit.Problem(nil), f.Problems...), h...)
+func (h *heldProblems) add(ps []audit.Problem) {
+	n := min(len(ps), MaxProblems-len(h.kept))
+	h.kept = append(h.kept, ps[:n]...)
+	h.omitted += len(ps) - n
+}
+
+// all returns the input's own problems, then the studies', then how many
+// were left out.
+func (h *heldProblems) all(f Footer) []audit.Problem {
+	out := append(append([]audit.Problem(nil), f.Problems...), h.kept...)
+	if h.omitted > 0 {
+		out = append(out, audit.Problem{Message: fmt.Sprintf("%d more problems of the rows are not listed: a report lists the first %d; the claims they touch say in their notes what was wrong", h.omitted, MaxProblems)})
+	}
+	return out
 }
