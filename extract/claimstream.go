@@ -287,4 +287,3 @@ func (x *rowIndex) rest() []*Study {
 	}
 	return order
 }
-

@@ -361,4 +361,3 @@ func openCSV(path string) (*csvSource, error) {
 	}
 	return src, nil
 }
-
