@@ -71,15 +71,26 @@ func TestAuditPublishedExamples(t *testing.T) {
 		wantRelation      string
 		wantNoteSubstring string
 	}{
-		// Altman & Bland (2003) BMJ 326:219: HRT and fractures, RR 0.67 (0.46–0.98)
-		// in women under 60 vs 0.88 (0.71–1.08) at 60 and over (PUBLISHED-VALUES.md
-		// §2.1: d −0.2726, SE 0.2206 SECONDARY; P 0.2165 DERIVED). The paper's
-		// conclusion: no evidence that the effect differs.
+		// Altman DG, Bland JM (2003). Interaction revisited: the difference between
+		// two estimates. BMJ 326:219, worked example: HRT and non-vertebral
+		// fractures (data of Torgerson & Bell-Syer 2001, JAMA 285:2891–2897), RR
+		// 0.67 (0.46–0.98) in women under 60 vs 0.88 (0.71–1.08, this CI from
+		// memory) at 60 and over. d −0.2726 and SE 0.2206 as printed (SECONDARY:
+		// OCR of the printed note on es.scribd.com, document 375349251); P 0.2165
+		// derived here from the note's formula applied to those inputs, not a
+		// published value. The paper's conclusion, no evidence that the effect
+		// differs, is from memory (as are its printed z = −1.24 and P = 0.2).
 		{"Altman Bland 2003", coefSpec{label: "under60", measure: "rr", group: "<60", est: "0.67", lo: "0.46", hi: "0.98"},
 			coefSpec{label: "over60", measure: "rr", group: ">=60", est: "0.88", lo: "0.71", hi: "1.08"},
 			"no-difference", "test", Consistent, -0.2726, 0.2206, 0.2165, 0.003, "no-difference", "independent-z", Independent, "log scale"},
-		// Gelman & Stern (2006) Am Stat 60:328: 25 (SE 10) significant, 10 (SE 10) not;
-		// the difference 15 (SE 14.1) gives z 1.06, P 0.2888 (PUBLISHED-VALUES.md §2.4).
+		// Gelman A, Stern H (2006). The difference between "significant" and "not
+		// significant" is not itself statistically significant. The American
+		// Statistician 60(4):328–331: 25 (SE 10) significant, 10 (SE 10) not; the
+		// difference 15 has "s.e. 14.1" and "z-score is only 1.1" (SECONDARY: a copy
+		// of a first-person blog post, apparently Gelman's, at
+		// 1-urlm.se/g/c/a/397088; the paper's own page was not seen). SE √200 =
+		// 14.142, z 1.0607 and P 0.2888 (normal two-sided) are derived here; not
+		// published values.
 		{"Gelman Stern 2006", coefSpec{label: "a", measure: "other", group: "g1", est: "25", se: "10"},
 			coefSpec{label: "b", measure: "other", group: "g2", est: "10", se: "10"},
 			"differ", "significance-split", Unsupported, 15, 14.142, 0.2888, 0.0005, "no-difference", "independent-z", Independent, "does not test their difference"},

@@ -31,28 +31,36 @@ func TestCompareReportedPublished(t *testing.T) {
 		wantSE1, tolSE1     float64
 		wantMethod, outcome string
 	}{
-		// Altman & Bland (2003) BMJ 326:219, HRT and fractures (PUBLISHED-VALUES.md
-		// §2.1): d −0.2726, SE 0.2206 (SECONDARY); P 0.2165 and ratio CI 0.494 to
-		// 1.173, i.e. log −0.7052 to 0.1596 (DERIVED).
+		// Altman DG, Bland JM (2003). Interaction revisited: the difference between
+		// two estimates. BMJ 326:219, worked example (HRT and non-vertebral
+		// fractures, data of Torgerson & Bell-Syer 2001, JAMA 285:2891–2897; the
+		// second group's CI 0.71 to 1.08 is from memory): d −0.2726 and SE(d) 0.2206
+		// as printed (SECONDARY: OCR of the printed note on es.scribd.com, document
+		// 375349251). P 0.2165, the ratio CI 0.494 to 1.173 (log −0.7052 to 0.1596)
+		// and the first SE 0.1929 are derived here from the note's formula applied
+		// to those inputs; not published values.
 		{name: "Altman Bland 2003",
 			c: Comparison{First: mustReported(t, "0.67 (0.46 to 0.98)"), Second: mustReported(t, "0.88 (0.71 to 1.08)"),
 				Relation: Independent, Measure: extract.MeasureRR, Published: extract.PublishedNoDifference},
 			wantD: -0.2726, wantSE: 0.2206, tolD: 1e-4, wantCI: [2]float64{-0.7052, 0.1596}, tolCI: 2e-3,
 			wantP: 0.2165, tolP: 1e-3, wantSE1: 0.1929, tolSE1: 1e-4, wantMethod: "independent-z", outcome: Consistent},
-		// Woodward (2019) Heart 105:1701, Table 4 (VERIFIED in PUBLISHED-VALUES.md
-		// §2.2): women RR 2.15 (1.33 to 3.47), SE 0.244637 from the mean of the two
-		// half-widths; men ln RR 0.746688 (printed here as the ratio 2.10997), SE
-		// 0.324736; ln RRR 0.01878, variance 0.165301 (SE 0.406572), CI −0.778101
-		// to 0.815661. The interval includes no difference.
+		// Woodward M (2019). Rationale and tutorial for analysing and reporting sex
+		// differences in cardiovascular associations. Heart 105(22):1701–1708,
+		// Table 4 (Adventist study): women RR 2.15 (1.33 to 3.47), SE 0.244637 from
+		// the mean of the two half-widths; men ln RR 0.746688 (given here as the
+		// ratio exp(0.746688) = 2.10997), SE 0.324736; ln RRR 0.01878, variance
+		// 0.165301 (SE √0.165301 = 0.406572), CI −0.778101 to 0.815661. The interval
+		// includes no difference.
 		{name: "Woodward 2019 Table 4",
 			c: Comparison{First: mustReported(t, "2.15 (1.33 to 3.47)"), Second: mustReported(t, "2.10997, SE 0.324736"),
 				Relation: Independent, Measure: extract.MeasureRR, Published: extract.PublishedNoDifference},
 			wantD: 0.01878, wantSE: 0.406572, tolD: 2e-5, wantCI: [2]float64{-0.778101, 0.815661}, tolCI: 2e-4,
 			wantP: math.NaN(), wantSE1: 0.244637, tolSE1: 1e-5, wantMethod: "independent-z", outcome: Consistent},
-		// Altman & Bland (2011) BMJ 343:d2090, zinc trial: 17 points, P = 0.032;
-		// the exact normal quantile is z = 2.1444 (PUBLISHED-VALUES.md §1.1,
-		// DERIVED), so SE = 17/2.1444 = 7.9276 (the note's approximation gives
-		// 7.940).
+		// Altman DG, Bland JM (2011). How to obtain the confidence interval from a
+		// P value. BMJ 343:d2090, Box, example (a), zinc trial: 17 points,
+		// P = 0.032. The exact normal quantile z = 2.1444, and so SE = 17/2.1444 =
+		// 7.9276, are derived here; not published values (the note's polynomial
+		// gives the published 7.940).
 		{name: "Altman Bland 2011 SE from p",
 			c: Comparison{First: mustReported(t, "17, p = 0.032"), Second: mustReported(t, "0.0, SE 0.001"),
 				Relation: Independent, Published: extract.PublishedDiffer},

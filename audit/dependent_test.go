@@ -43,8 +43,17 @@ func rCoef(label, a, b string, r float64, row int) extract.Coefficient {
 }
 
 func TestDependentCorrelationsFromTable(t *testing.T) {
-	// PUBLISHED-VALUES.md §3.4 (DERIVED from the published formulas; no published
-	// worked example was found): n = 100.
+	// Invented inputs, n = 100. The check values are derived here, in double
+	// precision, from the formulas of Williams' t (Steiger JH (1980). Tests for
+	// comparing elements of a correlation matrix. Psychological Bulletin
+	// 87(2):245–251, eq. 7), ZPF (Raghunathan TE, Rosenthal R, Rubin DB (1996).
+	// Comparing correlated but nonoverlapping correlations. Psychological Methods
+	// 1(2):178–183) and Zou's interval (Zou GY (2007). Toward using confidence
+	// intervals to compare correlations. Psychological Methods 12(4):399–413);
+	// the Steiger citation, Zou's volume and pages and all three formulas are
+	// from memory, not checked against the papers. They are not published
+	// values: no worked example with numbers of Steiger 1980, Raghunathan et al.
+	// 1996 or Zou 2007 could be read in any copy seen.
 	// Overlapping r12 = .50 vs r13 = .30 with r23 = .40: Williams t = 2.0650 (P .0416),
 	// Zou interval (0.0080, 0.3928).
 	// Non-overlapping r12 = .50 vs r34 = .30 with r13 .40, r14 .20, r23 .25, r24 .35:
@@ -58,7 +67,7 @@ func TestDependentCorrelationsFromTable(t *testing.T) {
 		Tables: []extract.CorrelationTable{corrTable("S", "g", vars, r, 100, nil)},
 	}
 	// For the overlapping case the table's r13 must be .30 and r23 .40: use a second
-	// sample whose table has exactly the §3.4 overlapping numbers.
+	// sample whose table has exactly the overlapping numbers above.
 	vars3 := []string{"a", "b", "c"}
 	r3 := [][]float64{{1, .50, .30}, {.50, 1, .40}, {.30, .40, 1}}
 	in.Tables = append(in.Tables, corrTable("S", "h", vars3, r3, 100, nil))

@@ -15,8 +15,9 @@ import (
 
 // bcgCounts are the 13 BCG vaccine trials as (a, n1, c, n2): TB cases
 // among the vaccinated, number vaccinated, TB cases among the unvaccinated,
-// number unvaccinated; Colditz GA et al. (1994), JAMA 271(9):698-702, as
-// tabulated in /work/shared/reference/PUBLISHED-VALUES.md §7.1.
+// number unvaccinated. Source: Colditz GA et al. (1994). Efficacy of BCG
+// vaccine in the prevention of tuberculosis: meta-analysis of the published
+// literature. JAMA 271(9):698-702 (citation from memory; an open dataset).
 var bcgCounts = [13][4]float64{
 	{4, 123, 11, 139}, {6, 306, 29, 303}, {3, 231, 11, 220}, {62, 13598, 248, 12867},
 	{33, 5069, 47, 5808}, {180, 1541, 372, 1451}, {8, 2545, 10, 629}, {505, 88391, 499, 88391},
@@ -32,7 +33,8 @@ func pooled(study string, row int, measure, scale string, est, se float64, outco
 }
 
 // bcgClaims has one claim per trial whose difference is the log risk
-// ratio, ln(a/n1) − ln(c/n2), with variance 1/a − 1/n1 + 1/c − 1/n2 (§7.1).
+// ratio, ln(a/n1) − ln(c/n2), with variance 1/a − 1/n1 + 1/c − 1/n2 (the
+// usual large-sample variance of a log risk ratio).
 func bcgClaims(topic string) []audit.ClaimResult {
 	var out []audit.ClaimResult
 	for i, t := range bcgCounts {
@@ -44,7 +46,7 @@ func bcgClaims(topic string) []audit.ClaimResult {
 }
 
 // bcgLogOddsRatioClaims has ln OR = ln(ad/bc), v = 1/a + 1/b + 1/c + 1/d
-// for the first n trials of §7.1.
+// for the first n trials of bcgCounts.
 func bcgLogOddsRatioClaims(n int, topic string) []audit.ClaimResult {
 	var out []audit.ClaimResult
 	for i, t := range bcgCounts[:n] {
@@ -55,9 +57,12 @@ func bcgLogOddsRatioClaims(n int, topic string) []audit.ClaimResult {
 	return out
 }
 
-// kackerClaims are the interlaboratory example of Kacker RN (2004),
-// Metrologia 41(3):132-136 (citation from memory), as given in
-// PUBLISHED-VALUES.md §7.2: y_i and v_i, one claim per laboratory.
+// kackerClaims are the interlaboratory example of Kacker RN (2004).
+// Combining information from interlaboratory evaluations using a random
+// effects model. Metrologia 41(3):132-136 (citation from memory); y_i and
+// v_i as given with R metafor's results in statsmodels' test results file
+// statsmodels/stats/tests/results/results_meta.py (SECONDARY; Kacker's own
+// table was not seen), one claim per laboratory.
 func kackerClaims(topic string, firstRow int) []audit.ClaimResult {
 	y := []float64{61.0, 61.4, 62.21, 62.3, 62.34, 62.6, 62.7, 62.84, 65.9}
 	v := []float64{0.2025, 1.2100, 0.0900, 0.2025, 0.3844, 0.5625, 0.0676, 0.0225, 1.8225}
@@ -96,8 +101,12 @@ func checkAll(t *testing.T, checks []check) {
 	}
 }
 
-// The DL and fixed-effect values of §7.1 (SECONDARY, recomputed there and
-// agreeing) are printed to 6 decimals: tolerance one unit in the 6th.
+// Fixed-effect and DerSimonian–Laird (DerSimonian R, Laird N (1986).
+// Meta-analysis in clinical trials. Controlled Clinical Trials 7(3):177–188)
+// values for the Colditz et al. (1994) BCG trials, log risk ratio: SECONDARY,
+// said to be "widely published for this dataset" with no particular
+// publication recorded, and recomputed independently by the project,
+// agreeing. They are printed to 6 decimals: tolerance one unit in the 6th.
 func TestPoolBCG(t *testing.T) {
 	tp := poolOne(t, bcgClaims("BCG vaccine"), audit.PoolOptions{Method: audit.PoolDL})
 	if tp.K != 13 || tp.Tau2Method != "DL" || tp.Scale != extract.ScaleLog || tp.Measure != extract.MeasureRR {
@@ -114,11 +123,13 @@ func TestPoolBCG(t *testing.T) {
 		{"DL SE", float64(tp.Random.SE), 0.178742, 1e-6},
 		{"I2", float64(h.I2), 0.92117347, 1e-8},
 		{"H2", float64(h.H2), 12.686084, 1e-6},
-		// For DL, I² from τ² equals (Q − df)/Q (Higgins & Thompson 2002, eq. 9).
+		// For DL, I² from τ² equals (Q − df)/Q (Higgins & Thompson 2002, Stat Med
+		// 21:1539–1558, eq. 9; citation from memory).
 		{"I2 from tau2", float64(h.I2Tau2), 0.92117347, 1e-8},
 	})
-	// DERIVED from the §7.1 values: the prediction interval μ̂ ± t_(11, 0.975)
-	// √(τ² + SE²) of Higgins, Thompson & Spiegelhalter (2009, eq. 12).
+	// Derived here from the prediction interval μ̂ ± t_(11, 0.975) √(τ² + SE²)
+	// of Higgins, Thompson & Spiegelhalter (2009, eq. 12) applied to the DL
+	// values above; not a published value.
 	tc, err := infer.StudentTCriticalValue(0.95, 11)
 	if err != nil {
 		t.Fatal(err)
@@ -183,8 +194,12 @@ func TestPoolBCGREML(t *testing.T) {
 	})
 }
 
-// The Kacker values of §7.2 (SECONDARY, recomputed there to ~11 digits)
-// can only come out if every claim of the other kinds is left out.
+// Kacker (2004, Metrologia 41:132–136; citation from memory): R metafor's
+// rma output for method "FE", "DL" and "DL" with test = "knha"
+// (Knapp–Hartung) as recorded in statsmodels'
+// statsmodels/stats/tests/results/results_meta.py (SECONDARY), recomputed
+// independently to ~11 digits, agreeing. These values can only come out if
+// every claim of the other kinds is left out.
 func TestPoolLeftOut(t *testing.T) {
 	const topic = "interlab"
 	claims := kackerClaims(topic, 2)
@@ -251,7 +266,7 @@ func TestPoolLeftOut(t *testing.T) {
 
 // Kacker's data with REML limited to one iteration: meta's own test shows
 // that this does not converge, so the topic must fall back to DL, say so,
-// and give the DL values of §7.2.
+// and give the DL values of Kacker's example (see TestPoolLeftOut).
 func TestPoolREMLFallback(t *testing.T) {
 	tp := poolOne(t, kackerClaims("interlab", 2), audit.PoolOptions{Method: audit.PoolREML,
 		REML: meta.REMLOptions{Tolerance: 1e-15, MaxIterations: 1}})
@@ -378,8 +393,9 @@ func TestSlug(t *testing.T) {
 	}
 }
 
-// Three of the BCG trials of PUBLISHED-VALUES.md §7.1 and a claim whose
-// covariance was not reported.
+// Three of the BCG trials of Colditz et al. (1994) (bcgCounts) and a claim
+// whose covariance was not reported. The printed values have no outside
+// source; they record this package's output.
 func ExamplePool() {
 	claims := bcgClaims("BCG vaccine")[:3]
 	claims = append(claims, audit.ClaimResult{Study: "trial X", Claim: "c", Row: 9, Topic: "BCG vaccine",
@@ -400,7 +416,7 @@ func ExamplePool() {
 	// left out row 9: its outcome is indeterminate: ...
 }
 
-// BenchmarkPool pools the 13 BCG trials of §7.1 with REML, including the
+// BenchmarkPool pools the 13 BCG trials of bcgCounts with REML, including the
 // Q-profile interval and the 13 leave-one-out refits.
 func BenchmarkPool(b *testing.B) {
 	rep := &audit.Report{Claims: bcgClaims("BCG")}

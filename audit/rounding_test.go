@@ -62,9 +62,13 @@ func TestRoundingRanges(t *testing.T) {
 }
 
 func TestBasisNotes(t *testing.T) {
-	// Ann Rheum Dis Table 3, COBRA trial (PUBLISHED-VALUES.md §2.3): log RR −0.7765
-	// (SE 0.4081) vs −0.3567 (SE 0.1692), printed "p = 0.17" for the difference, which
-	// DERIVED there is one-sided: the two-sided p is 0.342.
+	// Annals of the Rheumatic Diseases, Table 3 "Comparing relative risks in two risk
+	// groups", COBRA trial (table page ard.bmj.com/highwire/markup/174036; the
+	// article's authors and title were not visible, so it is not identified): log RR
+	// −0.7765 (SE 0.4081) vs −0.3567 (SE 0.1692), printed "p = 0.17" for the
+	// difference. That p is one-sided: the two-sided p, 0.342, is derived here from the
+	// printed values (d = −0.4198, SE(d) = 0.4418, z = −0.950, normal two-sided; the
+	// one-sided p is 0.171); not a published value.
 	c1 := coefficient("S", 2, coefSpec{label: "low", measure: "other", group: "low", est: "-0.7765", se: "0.4081"})
 	c2 := coefficient("S", 3, coefSpec{label: "high", measure: "other", group: "high", est: "-0.3567", se: "0.1692"})
 	cl := claim("S", "cobra", 2, "low", "high", "no-difference", "test")
@@ -88,7 +92,9 @@ func TestBasisNotes(t *testing.T) {
 			t.Errorf("overlap note lacks %q: %q", want, notes)
 		}
 	}
-	// Gelman & Stern (2006): 25 (SE 10) has p 0.0124, 10 (SE 10) p 0.3173.
+	// The example of Gelman A, Stern H (2006), The American Statistician
+	// 60(4):328–331 (see TestAuditPublishedExamples): 25 (SE 10) has p 0.0124,
+	// 10 (SE 10) p 0.3173, normal two-sided, derived here; not published values.
 	r = auditOne(t, coefSpec{label: "a", measure: "other", group: "g1", est: "25", se: "10"},
 		coefSpec{label: "b", measure: "other", group: "g2", est: "10", se: "10"}, "differ", "significance-split")
 	notes = strings.Join(r.Notes, " ")
@@ -104,7 +110,9 @@ func TestBasisNotes(t *testing.T) {
 // estimate whose SE came from its printed p: it states that p, so a p
 // printed as α is not significant (p < α is the rule), and a bound "< x"
 // is stated as a bound, significant only when x ≤ α. The other side, 10
-// (SE 10), has p 0.3173 (Gelman & Stern 2006).
+// (SE 10), from the example of Gelman & Stern (2006), The American
+// Statistician 60(4):328–331, has p 0.3173 (normal two-sided, derived here;
+// not a published value).
 func TestSignificanceSplitPrintedP(t *testing.T) {
 	other := coefSpec{label: "b", measure: "other", group: "g2", est: "10", se: "10"}
 	tests := []struct {

@@ -9,8 +9,14 @@ import (
 )
 
 // The estimates in testdata/folder are printed values from published
-// tables (see testdata/README.md for each row's source); the claims rows
-// are made up for the reader and say nothing about the papers.
+// tables, the same as in testdata/paired.csv (see TestReadPaired for the
+// full citations): Torgerson DJ, Bell-Syer SEM (2001), JAMA 285:2891–2897,
+// abstract (RR 0.67, 95% CI 0.46–0.98, P = .03; the 60-or-over CI
+// 0.71–1.08 is from memory); Woodward M (2019), Heart 105(22):1701–1708,
+// Table 4 (RR 2.15, 1.33 to 3.47); Annals of the Rheumatic Diseases,
+// Table 3 "Comparing relative risks in two risk groups", COBRA trial
+// (−0.7765, SE 0.4081; the article is not identified). The claims rows are
+// made up for the reader and say nothing about the papers.
 func TestReadFolder(t *testing.T) {
 	dir := filepath.Join("testdata", "folder")
 	in, err := Read(dir)

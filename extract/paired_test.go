@@ -14,8 +14,22 @@ import (
 	"testing"
 )
 
-// Values in testdata/paired.csv are printed values from the sources listed
-// in testdata/README.md; the claims around them are made up.
+// Values in testdata/paired.csv are printed values from these publications;
+// the claims around them are made up:
+//   - Torgerson DJ, Bell-Syer SEM (2001), JAMA 285:2891–2897, abstract:
+//     women under 60, RR 0.67, 95% CI 0.46–0.98, P = .03. Women 60 or over:
+//     RR 0.88, read only as quoted in a rapid response to Altman DG, Bland
+//     JM (2003), BMJ 326:219 (bmj.com/content/326/7382/219/rapid-responses);
+//     its CI 0.71–1.08 is from memory.
+//   - Woodward M (2019). Rationale and tutorial for analysing and reporting
+//     sex differences in cardiovascular associations. Heart
+//     105(22):1701–1708, Table 4 (Adventist study): women RR 2.15 (1.33 to
+//     3.47); men ln(RR) 0.746688, SE 0.324736.
+//   - Annals of the Rheumatic Diseases, Table 3 "Comparing relative risks in
+//     two risk groups", COBRA trial: log RR −0.7765 (SE 0.4081) and −0.3567
+//     (SE 0.1692) (table page ard.bmj.com/highwire/markup/174036; the
+//     article's authors and title were not visible, so it is not
+//     identified).
 func TestReadPaired(t *testing.T) {
 	path := filepath.Join("testdata", "paired.csv")
 	in, err := Read(path)

@@ -18,8 +18,11 @@ import (
 //	       ("RR 0.67, 95% CI 0.46–0.98, P = .03").
 //	[W19]  Woodward M (2019). Heart 105:1701–1708, Table 4
 //	       ("2.15 (1.33 to 3.47)", "(−0.778101 to 0.815661)").
-//	[ARD]  Ann Rheum Dis, Table 3 "Comparing relative risks in two risk
-//	       groups" ("−1.0555 to 0.5933"), as in PUBLISHED-VALUES.md §2.3.
+//	[ARD]  Annals of the Rheumatic Diseases, Table 3 "Comparing relative
+//	       risks in two risk groups" ("−1.0555 to 0.5933"; read on the table
+//	       page ard.bmj.com/highwire/markup/174036, where the article's
+//	       authors and title were not visible: the article is not
+//	       identified).
 //	[APA]  APA Publication Manual, 7th ed. (2020): no leading zero for p and
 //	       r (".03"), "p < .001" (from memory).
 //	[ISO]  ISO 80000-1:2009, the decimal sign is a comma or a point (from

@@ -39,10 +39,12 @@ func TestReconstructSources(t *testing.T) {
 		wantDF     float64 // NaN for the normal
 		wantInNote string
 	}{
-		// Woodward (2019) Heart 105:1701, Table 4: women RR 2.15 (1.33 to 3.47): "The two
-		// equations for SE give the results 0.244228 and 0.245045, which average out to
-		// 0.244637" (computed there with 1.96; we use 1.959964). The two halves differ by
-		// less than the rounding of 2.15 and 1.33 explains, so no asymmetry is noted.
+		// Woodward M (2019). Rationale and tutorial for analysing and reporting sex
+		// differences in cardiovascular associations. Heart 105(22):1701–1708, Table 4:
+		// women RR 2.15 (1.33 to 3.47): "The two equations for SE give the results
+		// 0.244228 and 0.245045, which average out to 0.244637" (computed in the paper
+		// with 1.96; we use 1.959964). The two halves differ by less than the rounding of
+		// 2.15 and 1.33 explains, so no asymmetry is noted.
 		{"Woodward 2019 ratio interval",
 			Coefficient{Label: "women", Measure: MeasureRR, Estimate: num("2.15"), CI: Interval{Low: num("1.33"), High: num("3.47")}},
 			0, 0.244637, 3e-5, "ci_low, ci_high (normal)", ScaleLog, math.NaN(), ""},
@@ -52,19 +54,26 @@ func TestReconstructSources(t *testing.T) {
 			Coefficient{Label: "boot", Measure: MeasureB, Estimate: num("0.30"), CI: Interval{Low: num("0.05"), High: num("0.45")}},
 			0, 0.40 / 3.919928, 1e-6, "ci_low, ci_high, mean of the two half-widths (normal)", ScaleAsPrinted, math.NaN(),
 			"boot: asymmetric interval (SE 0.1276 from the lower half, 0.07653 from the upper); the SE is their mean"},
-		// Altman & Bland (2011) BMJ 343:d2090: "P=0.032", Est 17, SE 7.940 via the note's
-		// polynomial; the exact normal quantile gives 17/2.1444 (PUBLISHED-VALUES §1.1).
+		// Altman DG, Bland JM (2011). How to obtain the confidence interval from a P
+		// value. BMJ 343:d2090, Box, example (a): "P=0.032", Est 17, SE 7.940 via the
+		// note's polynomial; the exact normal quantile gives 17/2.1444 (z = 2.1444 derived
+		// here; not a published value).
 		{"Altman Bland 2011 from p",
 			Coefficient{Label: "zinc", Measure: MeasureMD, Estimate: num("17"), P: num("0.032")},
 			0, 7.940, 0.002, "estimate, p (normal)", ScaleAsPrinted, math.NaN(), ""},
-		// Cochrane Handbook 5.1 §7.7.3.3 (SECONDARY): groups of 25 and 22, so t with 45 df;
-		// P = 0.008 and 3.8 give SE 1.37. Here df is derived from n = 47 as n − 2.
+		// Higgins JPT, Green S, eds (2011). Cochrane Handbook for Systematic Reviews of
+		// Interventions 5.1, §7.7.3.3 (SECONDARY: the Handbook text as reproduced in
+		// third-party pages, listed at TestReconstructSEIsInfers; the Handbook's own page
+		// was not seen): groups of 25 and 22, so t with 45 df; P = 0.008 and 3.8 give
+		// SE 1.37. Here df is derived from n = 47 as n − 2.
 		{"Cochrane df from n for a mean difference",
 			Coefficient{Label: "md", Measure: MeasureMD, Estimate: num("3.8"), P: num("0.008"), N: num("47")},
 			0, 1.37, 0.005, "estimate, p (t, df 45)", ScaleAsPrinted, 45, "n − 2"},
-		// NIST Longley (certified B6 = 1829.15146461355, SE 455.478499142212, df 9 = 16 − 6 − 1):
-		// the t interval DERIVED in PUBLISHED-VALUES §1.4 gives back the SE when df is derived
-		// from n = 16 and the 6 listed coefficients of the model.
+		// NIST StRD, Longley, certified values: B6 = 1829.15146461355, SE 455.478499142212,
+		// residual df 9 = 16 − 6 − 1. The 95% t interval (798.7875153, 2859.515414) is
+		// derived here as B6 ± t(0.975, 9)·SE with t(0.975, 9) = 2.2621571628; not a
+		// published value. It gives back the certified SE when df is derived from n = 16
+		// and the 6 listed coefficients of the model.
 		{"Longley df from n and model size",
 			Coefficient{Label: "B6", Measure: MeasureB, Estimate: num("1829.15146461355"), CI: Interval{Low: num("798.7875153"), High: num("2859.515414")}, N: num("16")},
 			6, 455.478499142212, 1e-8, "ci_low, ci_high (t, df 9)", ScaleAsPrinted, 9, "n − k − 1"},
@@ -129,50 +138,65 @@ func TestReconstructSEIsInfers(t *testing.T) {
 		published float64
 		tol       float64 // relative, for the published value
 	}{
-		// Altman DG, Bland JM (2011) How to obtain the confidence interval from a P value.
-		// BMJ 343:d2090, example (a): "49% v 32%, P=0.032", Est = 17, "SE = 17/2.141 = 7.940"
-		// with the note's polynomial for z; the exact normal quantile is 2.1444 (0.16% apart).
+		// Altman DG, Bland JM (2011). How to obtain the confidence interval from a P value.
+		// BMJ 343:d2090, Box, example (a): "49% v 32%, P=0.032", Est = 17, "SE = 17/2.141 =
+		// 7.940" with the note's polynomial for z; the exact normal quantile is 2.1444
+		// (derived here, not a published value; 0.16% apart).
 		{"Altman & Bland 2011 d2090 (a), from P",
 			Coefficient{Label: "zinc", Measure: MeasureMD, Estimate: num("17"), P: num("0.032")}, 0,
 			func() (float64, error) { return infer.StandardErrorFromP(17, 0.032, nan) }, 7.940, 0.002},
-		// The same note, example (b), on the log scale: RR 0.30, P = 0.034 (inputs as
-		// quoted by a tutorial; the note's own printed result not seen): SE(log RR) 0.5688
-		// with the polynomial's z = 2.1166 (the exact z, 2.1201, gives 0.5679).
+		// The same note, example (b), on the log scale: RR 0.30, P = 0.034 (SECONDARY:
+		// inputs and steps as quoted by a third-party tutorial,
+		// vaszar.org/wordpress/index.php/2021/05/07/obtain-the-ci-from-a-p-value/, which
+		// prints z = 2.116569 and SE(log RR) 0.5688323; the note's own printed result was
+		// not seen): SE(log RR) 0.5688 with the polynomial's z = 2.1166 (the exact z,
+		// 2.1201, gives 0.5679; derived here, not published values).
 		{"Altman & Bland 2011 d2090 (b), ratio from P",
 			Coefficient{Label: "dbp", Measure: MeasureRR, Estimate: num("0.30"), P: num("0.034")}, 0,
 			func() (float64, error) { return infer.StandardErrorFromP(math.Log(0.30), 0.034, nan) }, 0.5688, 0.002},
-		// Woodward M (2019) Heart 105:1701, Table 4: women RR 2.15 (1.33 to 3.47), "the two
-		// equations for SE give the results 0.244228 and 0.245045, which average out to
-		// 0.244637" (with 1.96; we use 1.959964, 1.8e-5 apart).
+		// Woodward M (2019), Heart 105(22):1701–1708, Table 4: women RR 2.15 (1.33 to
+		// 3.47), "the two equations for SE give the results 0.244228 and 0.245045, which
+		// average out to 0.244637" (with 1.96; we use 1.959964, 1.8e-5 apart).
 		{"Woodward 2019 Table 4, ratio interval",
 			Coefficient{Label: "women", Measure: MeasureRR, Estimate: num("2.15"), CI: Interval{Low: num("1.33"), High: num("3.47")}}, 0,
 			func() (float64, error) { return infer.StandardErrorFromCI(math.Log(1.33), math.Log(3.47), 0.95, nan) }, 0.244637, 3e-5},
-		// Cochrane Handbook 5.1 (Higgins & Green 2011) §7.7.3.3: groups of 25 and 22, so
-		// t with 45 df; "dividing 3.8 by 2.78, which gives 1.37" for P = 0.008. Here the
-		// df is derived from n = 47 as n − 2.
+		// Higgins JPT, Green S, eds (2011). Cochrane Handbook for Systematic Reviews of
+		// Interventions 5.1, §7.7.3.3 (SECONDARY here and in the next two rows: the
+		// Handbook text as reproduced in third-party pages,
+		// metnoob.blogg.se/2022/march/calculate-standard-error-from-confidence-interval.html,
+		// miliebay.blogg.se/2023/july/7-permute-2.html and
+		// info.5y1.org/reporting-median-and-interquartile-range_1_6c2fb0.html; the
+		// Handbook's own pages were not seen): groups of 25 and 22, so t with 45 df;
+		// "dividing 3.8 by 2.78, which gives 1.37" for P = 0.008. Here the df is derived
+		// from n = 47 as n − 2.
 		{"Cochrane 5.1 §7.7.3.3, P with t(45)",
 			Coefficient{Label: "md", Measure: MeasureMD, Estimate: num("3.8"), P: num("0.008"), N: num("47")}, 0,
 			func() (float64, error) { return infer.StandardErrorFromP(3.8, 0.008, 45) }, 1.37, 0.005},
 		// Cochrane Handbook 5.1 §7.7.3.2: with n = 25 "the divisor, 3.92, … would be
 		// replaced by 2 × 2.0639 = 4.128". An interval 4.128 wide with df 24 printed
-		// (10.000, 7.936 to 12.064) has SE 4.128/4.1278 = 1.00005.
+		// (10.000, 7.936 to 12.064, invented) has SE 4.128/4.1278 = 1.00005 (divisor
+		// 2 × t(0.975, 24) = 4.1278 derived here; not a published value).
 		{"Cochrane 5.1 §7.7.3.2, interval with t(24)",
 			Coefficient{Label: "mean", Measure: MeasureMD, Estimate: num("10.000"), CI: Interval{Low: num("7.936"), High: num("12.064")}, DF: num("24")}, 0,
 			func() (float64, error) { return infer.StandardErrorFromCI(7.936, 12.064, 0.95, 24) }, 1, 1e-4},
 		// Cochrane Handbook 5.1 §7.7.3.2: "For 90% confidence intervals divide by 3.29
-		// rather than 3.92": an interval 0.658 wide (0.429, 0.100 to 0.758) has SE 0.2
-		// (0.658/3.2897 = 0.20002 with the exact quantile).
+		// rather than 3.92": an interval 0.658 wide (0.429, 0.100 to 0.758, invented) has
+		// SE 0.2 (0.658/3.2897 = 0.20002 with the exact quantile, 2 × z(0.95) = 3.2897
+		// derived here; not a published value).
 		{"Cochrane 5.1 §7.7.3.2, 90% interval",
 			Coefficient{Label: "b90", Measure: MeasureB, Estimate: num("0.429"), CI: Interval{Low: num("0.100"), High: num("0.758")}, CILevel: 90}, 0,
 			func() (float64, error) { return infer.StandardErrorFromCI(0.100, 0.758, 0.90, nan) }, 0.2, 2e-4},
-		// NIST StRD Longley, certified B6 = 1829.15146461355 with SE 455.478499142212 and
-		// residual df 9 = 16 − 6 − 1; its 95% t interval (798.7875153, 2859.515414) gives
-		// the certified SE back when df is derived from n = 16 and the 6 listed coefficients.
+		// NIST StRD, Longley, certified values: B6 = 1829.15146461355 with SE
+		// 455.478499142212 and residual df 9 = 16 − 6 − 1. Its 95% t interval
+		// (798.7875153, 2859.515414), derived here as B6 ± t(0.975, 9)·SE (not a published
+		// value), gives the certified SE back when df is derived from n = 16 and the 6
+		// listed coefficients.
 		{"NIST Longley B6, interval with derived df",
 			Coefficient{Label: "B6", Measure: MeasureB, Estimate: num("1829.15146461355"), CI: Interval{Low: num("798.7875153"), High: num("2859.515414")}, N: num("16")}, 6,
 			func() (float64, error) { return infer.StandardErrorFromCI(798.7875153, 2859.515414, 0.95, 9) }, 455.478499142212, 1e-8},
-		// NIST StRD Longley, certified B3 = −2.02022980381683 with SE 0.488399681651699:
-		// t = B3/SE = −4.136427 to seven digits.
+		// NIST StRD, Longley, certified values: B3 = −2.02022980381683 with SE
+		// 0.488399681651699; t = B3/SE = −4.136427 to seven digits, derived here (not a
+		// published value).
 		{"NIST Longley B3, from t",
 			Coefficient{Label: "B3", Measure: MeasureB, Estimate: num("-2.02022980381683"), Stat: num("-4.136427")}, 0,
 			func() (float64, error) { return infer.StandardErrorFromStatistic(-2.02022980381683, -4.136427, true) }, 0.488399681651699, 1e-6},

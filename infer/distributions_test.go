@@ -20,8 +20,14 @@ func TestCriticalValues(t *testing.T) {
 		want  float64
 		tol   float64 // absolute: the source's printed precision
 	}{
-		// Cochrane Handbook 5.1 §7.7.3.2 (SECONDARY copy, PUBLISHED-VALUES.md §1.3):
-		// 95%, 90%, 99% intervals are 3.92, 3.29, 5.15 SEs wide.
+		// Higgins JPT, Green S, eds (2011). Cochrane Handbook for Systematic Reviews
+		// of Interventions 5.1, §7.7.3.2 (SECONDARY: the Handbook text as reproduced
+		// in third-party pages, among them
+		// metnoob.blogg.se/2022/march/calculate-standard-error-from-confidence-interval.html,
+		// miliebay.blogg.se/2023/july/7-permute-2.html and
+		// info.5y1.org/reporting-median-and-interquartile-range_1_6c2fb0.html; the
+		// Handbook's own page was not seen): 95%, 90%, 99% intervals are 3.92, 3.29,
+		// 5.15 SEs wide.
 		{"normal 95%", 0.95, math.NaN(), 3.92 / 2, 0.005 / 2},
 		{"normal 90%", 0.90, math.NaN(), 3.29 / 2, 0.005 / 2},
 		{"normal 99%", 0.99, math.NaN(), 5.15 / 2, 0.005 / 2},

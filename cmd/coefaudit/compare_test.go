@@ -20,8 +20,13 @@ func TestCompareCommand(t *testing.T) {
 		// variance of a difference): z = 0.23/0.06325 = 3.64, p < 0.001.
 		{"same model with a printed correlation", []string{"--first", "0.41, SE 0.05", "--second", "0.18, SE 0.06", "--same-model", "--corr", "0.35"},
 			exitOK, []string{"one fitted model", "z-with-estimate-corr", "difference 0.23 [", "p < 0.001"}},
-		// Altman & Bland (2003) BMJ 326:219 (PUBLISHED-VALUES.md §2.1): log
-		// difference −0.2726, P 0.2165 (DERIVED), no evidence of a difference.
+		// Altman DG, Bland JM (2003). Interaction revisited: the difference
+		// between two estimates. BMJ 326:219, worked example (data of Torgerson
+		// & Bell-Syer 2001, JAMA 285:2891–2897; the CI 0.71 to 1.08 from
+		// memory): log difference −0.2726 as printed (SECONDARY: OCR of the
+		// printed note on es.scribd.com, document 375349251); P 0.2165 derived
+		// here from the note's formula, not a published value; no evidence of
+		// a difference.
 		{"ratios, no difference published", []string{"--first", "0.67 (0.46 to 0.98)", "--second", "0.88 (0.71 to 1.08)",
 			"--independent", "--measure", "rr", "--published", "no-difference"},
 			exitOK, []string{"-0.2726", "p 0.217", "log scale", "CONSISTENT"}},

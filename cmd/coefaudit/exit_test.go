@@ -19,10 +19,13 @@ func runArgs(args ...string) (stdout, stderr string, code exitCode) {
 }
 
 // consistentFolder writes a folder of CSVs holding one claim that stands:
-// Altman & Bland (2003) BMJ 326:219, RR 0.67 (0.46–0.98) against 0.88
-// (0.71–1.08) in independent subgroups, published as no difference; the
-// test of the difference gives P = 0.2165 (PUBLISHED-VALUES.md §2.1,
-// DERIVED), so the verdict is consistent.
+// Altman DG, Bland JM (2003). Interaction revisited: the difference between
+// two estimates. BMJ 326:219, worked example (data of Torgerson & Bell-Syer
+// 2001, JAMA 285:2891–2897): RR 0.67 (0.46–0.98) against 0.88 (0.71–1.08,
+// this CI from memory) in independent subgroups, published as no difference
+// (from memory). The test of the difference gives P = 0.2165, derived here
+// from the note's formula, not a published value, so the verdict is
+// consistent.
 func consistentFolder(t *testing.T) string {
 	t.Helper()
 	dir := t.TempDir()

@@ -14,8 +14,11 @@ import (
 )
 
 // writeKackerInput writes a CSV folder whose claims carry the
-// interlaboratory example of Kacker RN (2004), Metrologia 41(3):132-136
-// (citation from memory), as given in PUBLISHED-VALUES.md §7.2: laboratory
+// interlaboratory example of Kacker RN (2004). Combining information from
+// interlaboratory evaluations using a random effects model. Metrologia
+// 41(3):132-136 (citation from memory), y and v as given with R metafor's
+// results in statsmodels' test results file
+// statsmodels/stats/tests/results/results_meta.py (SECONDARY): laboratory
 // i's claim compares a coefficient y_i with a reference coefficient 0 from
 // an independent group, each printed with SE √(v_i/2), so that the claim's
 // difference is y_i with SE √v_i. A tenth claim lacks an SE (left out) and
@@ -127,8 +130,10 @@ func TestPoolCommandJSON(t *testing.T) {
 	if tp.K != 9 || tp.Slug != "interlab-comparison" || len(tp.LeftOut) != 1 || tp.LeftOut[0].Study != "lab 10" {
 		t.Errorf("pool JSON topic K %d slug %q left out %+v; want 9, interlab-comparison, lab 10", tp.K, tp.Slug, tp.LeftOut)
 	}
-	// DL values of §7.2 (SECONDARY, recomputed there to ~11 digits),
-	// through reading, SE reconstruction and the z difference.
+	// Kacker (2004): R metafor's rma(method = "DL") output as recorded in
+	// statsmodels' results_meta.py (SECONDARY), recomputed independently to
+	// ~11 digits, agreeing; here through reading, SE reconstruction and the z
+	// difference.
 	for _, c := range []struct {
 		name      string
 		got, want float64
