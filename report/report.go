@@ -6,6 +6,7 @@ import (
 	"io"
 	"iter"
 	"slices"
+	"sync"
 
 	"coefaudit/audit"
 	"coefaudit/extract"
@@ -61,7 +62,9 @@ type Writer interface {
 
 // InputWriter is a Writer that also shows the input as it was read (the
 // xlsx workbook keeps the input's sheets): Check hands it each study
-// before the study is audited.
+// before the study is audited. Input is called as the studies are read,
+// in a goroutine of audit.Run's own, but never while Study runs, so that
+// a writer need not be safe for concurrent use.
 type InputWriter interface {
 	Writer
 	Input(st *extract.Study) error
@@ -138,10 +141,15 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 		return audit.Summary{}, fmt.Errorf("writing the %s report: %w", format, err)
 	}
 	studies := src.Studies()
+	// audit.Run reads the studies in a goroutine of its own: Input (as a
+	// study is read) and Study (as results come back) take turns.
+	var turn sync.Mutex
 	if iw, ok := wr.(InputWriter); ok {
-		studies = showingInput(studies, iw)
+		studies = showingInput(studies, iw, &turn)
 	}
 	sum, err := audit.Run(studies, o.Audit, func(res audit.StudyResult) error {
+		turn.Lock()
+		defer turn.Unlock()
 		if err := wr.Study(res); err != nil {
 			return fmt.Errorf("writing the %s report: %w", format, err)
 		}
@@ -156,12 +164,16 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 	return sum, nil
 }
 
-// showingInput hands each study to iw before it is audited.
-func showingInput(studies iter.Seq2[*extract.Study, error], iw InputWriter) iter.Seq2[*extract.Study, error] {
+// showingInput hands each study to iw before it is audited, holding turn
+// while it does.
+func showingInput(studies iter.Seq2[*extract.Study, error], iw InputWriter, turn *sync.Mutex) iter.Seq2[*extract.Study, error] {
 	return func(yield func(*extract.Study, error) bool) {
 		for st, err := range studies {
 			if err == nil {
-				if err := iw.Input(st); err != nil {
+				turn.Lock()
+				err := iw.Input(st)
+				turn.Unlock()
+				if err != nil {
 					yield(nil, fmt.Errorf("writing the input into the report: %w", err))
 					return
 				}
