@@ -78,7 +78,10 @@ func Formats() []string { return []string{"table", "json", "csv", "md", "xlsx", 
 
 // New returns the writer of format (one of Formats) writing to w. The
 // writers buffer what they write and flush it by End.
-func New(format string, w io.Writer) (Writer, error) {
+func New(format string, w io.Writer) (Writer, error) { return newWriter(format, w, Options{}) }
+
+// newWriter is New with the settings of Check.
+func newWriter(format string, w io.Writer, o Options) (Writer, error) {
 	switch format {
 	case "table":
 		return newTableWriter(w), nil
@@ -91,7 +94,7 @@ func New(format string, w io.Writer) (Writer, error) {
 	case "html":
 		return newHTMLWriter(w), nil
 	case "xlsx":
-		return newXLSXWriter(w), nil
+		return newXLSXWriter(w, o.TempDir), nil
 	}
 	return nil, fmt.Errorf("%q: %w (want one of %v)", format, ErrFormat, Formats())
 }
@@ -102,6 +105,10 @@ type Options struct {
 	Audit audit.Options
 	// Source names the input in the report; the path when empty.
 	Source string
+	// TempDir is the folder where a writer keeps its temporary files (the
+	// xlsx writer's long sheets), so that a caller can remove them should
+	// the run be cut short; the system's temporary folder when empty.
+	TempDir string
 }
 
 // Check reads the input at path (a workbook, a folder of CSVs or a paired
@@ -112,7 +119,7 @@ type Options struct {
 // report cannot be written; problems with single rows are in the report.
 // Nothing is written to w when the input cannot be opened.
 func Check(path string, w io.Writer, format string, o Options) (audit.Summary, error) {
-	wr, err := New(format, w)
+	wr, err := newWriter(format, w, o)
 	if err != nil {
 		return audit.Summary{}, err
 	}

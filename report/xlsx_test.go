@@ -304,7 +304,7 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 	dir := t.TempDir()
 	t.Setenv("TMPDIR", dir)
 	rep := tenThousandClaims()
-	wr := newXLSXWriter(io.Discard)
+	wr := newXLSXWriter(io.Discard, "")
 	if err := wr.Begin(Header{}); err != nil {
 		t.Fatal(err)
 	}
@@ -321,5 +321,30 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 	}
 	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) != 0 {
 		t.Errorf("Close left %v", m)
+	}
+}
+
+// TestXLSXTempDir: with a folder for temporary files (Options.TempDir),
+// excelize keeps its long sheets there and nowhere else, so that a run
+// cut short by a signal can remove them with the folder.
+func TestXLSXTempDir(t *testing.T) {
+	system, own := t.TempDir(), t.TempDir()
+	t.Setenv("TMPDIR", system)
+	rep := tenThousandClaims()
+	wr := newXLSXWriter(io.Discard, own)
+	defer wr.Close()
+	if err := wr.Begin(Header{}); err != nil {
+		t.Fatal(err)
+	}
+	for range 3 {
+		if err := wr.Study(audit.StudyResult{Claims: rep.Claims}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if m, _ := filepath.Glob(filepath.Join(own, "*")); len(m) == 0 {
+		t.Error("excelize made no temporary file in the writer's folder")
+	}
+	if m, _ := filepath.Glob(filepath.Join(system, "*")); len(m) != 0 {
+		t.Errorf("excelize made temporary files in the system's folder: %v", m)
 	}
 }

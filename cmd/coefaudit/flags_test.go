@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"coefaudit/audit"
+	"coefaudit/cmd/coefaudit/internal/output"
 
 	"github.com/spf13/cobra"
 )
@@ -107,7 +108,7 @@ func TestNewPoolCmd(t *testing.T) {
 				t.Fatalf("pool %q: %v", tt.args, err)
 			}
 			got := *o
-			got.stdout = nil
+			got.stdout, got.files = nil, nil
 			if got != tt.want {
 				t.Errorf("pool %q options = %+v, want %+v", tt.args, got, tt.want)
 			}
@@ -120,7 +121,7 @@ func TestNewPoolCmd(t *testing.T) {
 func TestCheckRunWritesNothingForAnUnreadableInput(t *testing.T) {
 	dir := t.TempDir()
 	var stdout bytes.Buffer
-	o := &checkOptions{input: filepath.Join(dir, "missing.csv"), shown: "missing.csv", stdout: &stdout,
+	o := &checkOptions{input: filepath.Join(dir, "missing.csv"), shown: "missing.csv", stdout: &stdout, files: output.NewFiles(),
 		report: reportOptions{format: "json", out: filepath.Join(dir, "out.json"), adjust: audit.AdjustNone}}
 	if err := runCheck(o); err == nil {
 		t.Fatal("runCheck(missing input): no error")

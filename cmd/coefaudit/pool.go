@@ -22,6 +22,7 @@ type poolOptions struct {
 	level  float64
 	adjust string
 	stdout io.Writer
+	files  *output.Files
 }
 
 func (o *poolOptions) validate() error {
@@ -96,7 +97,7 @@ the files written.`,
 			if err := o.validate(); err != nil {
 				return err
 			}
-			o.input, o.stdout = args[0], cmd.OutOrStdout()
+			o.input, o.stdout, o.files = args[0], cmd.OutOrStdout(), runFiles(cmd)
 			if runF != nil {
 				return runF(o)
 			}
@@ -113,42 +114,40 @@ the files written.`,
 }
 
 // runPool pools input, writes the forest plots and then the report, which
-// lists the plots written.
+// lists the plots written. The plots and the report are put in place
+// together, once all are complete.
 func runPool(o *poolOptions) error {
 	rep, err := report.PoolInput(o.input, report.Options{Audit: audit.Options{Adjust: o.adjust}},
 		audit.PoolOptions{Method: o.method, Level: o.level / 100})
 	if err != nil {
-		return err
+		return finish(o.files, err)
 	}
 	// The report's target is opened first, so that a bad --out stops the
 	// run before any plot is written.
-	t, err := output.Open(o.stdout, o.out, o.input)
+	t, err := o.files.Open(o.stdout, o.out, o.input)
 	if err != nil {
-		return flagError{err}
+		return finish(o.files, flagError{err})
 	}
 	for _, f := range report.PoolPlotFiles(rep, o.out, o.plots) {
 		if err := writePlot(o, rep, f); err != nil {
-			t.Abort()
-			return err
+			return finish(o.files, err)
 		}
 		rep.Plots = append(rep.Plots, f.Path)
 	}
 	if err := o.writer()(t, rep); err != nil {
-		t.Abort()
-		return fmt.Errorf("writing the report: %w", err)
+		return finish(o.files, fmt.Errorf("writing the report: %w", err))
 	}
-	return t.Close()
+	return finish(o.files, t.Close())
 }
 
 // writePlot writes one forest plot through the same safe writer as the
-// report: never over the input, renamed into place when complete.
+// report: never over the input, put in place with the report.
 func writePlot(o *poolOptions, rep *audit.PoolReport, f report.PoolPlotFile) error {
-	t, err := output.Open(o.stdout, f.Path, o.input)
+	t, err := o.files.Open(o.stdout, f.Path, o.input)
 	if err != nil {
 		return flagError{err}
 	}
 	if err := report.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f.Format); err != nil {
-		t.Abort()
 		return fmt.Errorf("writing %s: %w", f.Path, err)
 	}
 	return t.Close()
