@@ -194,6 +194,40 @@ func TestWriteXLSXFormulaLikeText(t *testing.T) {
 	}
 }
 
+// TestWriteXLSXFormulaLikeColumnNames: the pass-through columns' names
+// that start like a formula are text cells of the claims and coefficients
+// headers, shown as written, like the values.
+func TestWriteXLSXFormulaLikeColumnNames(t *testing.T) {
+	in := reportInput()
+	for i := range in.Claims {
+		in.Claims[i].Extra = extract.Extra{Names: injectionTexts, Values: injectionTexts}
+	}
+	for i := range in.Coefficients {
+		in.Coefficients[i].Extra = extract.Extra{Names: injectionTexts, Values: injectionTexts}
+	}
+	f := openXLSX(t, writeInput(t, "xlsx", in))
+	for _, sheet := range []string{"claims", "coefficients"} {
+		rows, err := f.GetRows(sheet, excelize.Options{RawCellValue: true})
+		if err != nil || len(rows) == 0 {
+			t.Fatalf("sheet %s: %v", sheet, err)
+		}
+		for _, name := range injectionTexts {
+			c := slices.Index(rows[0], name)
+			if c < 0 {
+				t.Errorf("sheet %s: no header cell reads back as %q (header %q)", sheet, name, rows[0])
+				continue
+			}
+			cell, _ := excelize.CoordinatesToCellName(c+1, 1)
+			if formula, err := f.GetCellFormula(sheet, cell); err != nil || formula != "" {
+				t.Errorf("%s!%s holds formula %q (%v), want none", sheet, cell, formula, err)
+			}
+			if typ, _ := f.GetCellType(sheet, cell); typ != excelize.CellTypeInlineString {
+				t.Errorf("%s!%s (%q) type = %v, want an inline string", sheet, cell, name, typ)
+			}
+		}
+	}
+}
+
 // TestWriteXLSXReadsBack writes the demo's audit as a workbook, reads that
 // workbook as an input and audits it again: the input sheets must carry
 // the input faithfully, so every claim gets the same outcome and p. A
