@@ -56,15 +56,16 @@ func WritePoolJSON(w io.Writer, doc PoolDocument) error {
 func WritePoolTable(w io.Writer, doc PoolDocument) error {
 	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "%s\n%s\n", poolSummary(rep), rep.Orientation)
+	fmt.Fprintf(bw, "%s\n%s\n", escapeControls(poolSummary(rep)), rep.Orientation)
 	pct := poolLevelText(rep.Level)
 	for _, t := range rep.Topics {
-		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", t.Topic, t.K, len(t.LeftOut), t.ScaleNote)
+		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", escapeControls(t.Topic), t.K, len(t.LeftOut), t.ScaleNote)
 		if len(t.Studies) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  ROW\tSTUDY\tCLAIM\tFIRST − SECOND\tDIFFERENCE\tSE\t%s CI\tWEIGHT FE\tWEIGHT RE\n", pct)
 			for _, s := range t.Studies {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, s.Study, s.Claim, s.First, s.Second,
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, escapeControls(s.Study), escapeControls(s.Claim),
+					escapeControls(s.First), escapeControls(s.Second),
 					poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI), poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
 			}
 			if err := tw.Flush(); err != nil {
@@ -92,7 +93,8 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  WITHOUT ROW\tSTUDY\tCLAIM\tESTIMATE\t%s CI\tTAU²\tI²\n", pct)
 			for _, l := range t.LeaveOneOut {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, l.Study, l.Claim, poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, escapeControls(l.Study), escapeControls(l.Claim),
+					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
 			}
 			if err := tw.Flush(); err != nil {
 				return err
@@ -101,24 +103,24 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 		if len(t.LeftOut) > 0 {
 			fmt.Fprintln(bw, "  Left out")
 			for _, l := range t.LeftOut {
-				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, l.Study, l.Claim, l.Reason)
+				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, escapeControls(l.Study), escapeControls(l.Claim), escapeControls(l.Reason))
 			}
 		}
 		if len(t.Notes) > 0 {
 			fmt.Fprintln(bw, "  Notes")
 			for _, n := range t.Notes {
-				fmt.Fprintf(bw, "    - %s\n", n)
+				fmt.Fprintf(bw, "    - %s\n", escapeControls(n))
 			}
 		}
 	}
 	if len(rep.Plots) > 0 {
 		fmt.Fprintln(bw, "\nForest plots written")
 		for _, p := range rep.Plots {
-			fmt.Fprintf(bw, "  - %s\n", p)
+			fmt.Fprintf(bw, "  - %s\n", escapeControls(p))
 		}
 	}
 	if doc.PlotsNote != "" {
-		fmt.Fprintf(bw, "\n%s\n", terminalText(doc.PlotsNote))
+		fmt.Fprintf(bw, "\n%s\n", escapeControls(doc.PlotsNote))
 	}
 	fmt.Fprintln(bw, "\nCautions")
 	for _, c := range rep.Cautions {
@@ -135,15 +137,15 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
 	pct := poolLevelText(rep.Level)
-	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", poolMD(poolSummary(rep)), poolMD(rep.Orientation))
+	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", mdText(poolSummary(rep)), mdText(rep.Orientation))
 	for _, t := range rep.Topics {
-		fmt.Fprintf(bw, "\n## %s\n\n%s\n", poolMD(t.Topic), poolMD(t.ScaleNote))
+		fmt.Fprintf(bw, "\n## %s\n\n%s\n", mdText(t.Topic), mdText(t.ScaleNote))
 		if len(t.Studies) > 0 {
 			fmt.Fprintf(bw, "\n| Row | Study | Claim | First − second | Difference | SE | %s CI | Weight (fixed) | Weight (random) |\n", pct)
 			fmt.Fprintln(bw, "|---:|---|---|---|---:|---:|---|---:|---:|")
 			for _, s := range t.Studies {
-				fmt.Fprintf(bw, "| %d | %s | %s | %s − %s | %s | %s | %s | %s | %s |\n", s.Row, poolMD(s.Study), poolMD(s.Claim),
-					poolMD(s.First), poolMD(s.Second), poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI),
+				fmt.Fprintf(bw, "| %d | %s | %s | %s − %s | %s | %s | %s | %s | %s |\n", s.Row, mdText(s.Study), mdText(s.Claim),
+					mdText(s.First), mdText(s.Second), poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI),
 					poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
 			}
 		}
@@ -158,12 +160,12 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 			if s := poolRatioLine(t); s != "" {
 				fmt.Fprintf(bw, "\n%s\n", s)
 			}
-			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", poolMD(poolHeterogeneityText(t, pct)))
+			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", mdText(poolHeterogeneityText(t, pct)))
 		}
 		if len(t.LeaveOneOut) > 0 {
 			fmt.Fprintf(bw, "\n### Leave one out\n\n| Without row | Study | Claim | Estimate | %s CI | τ² | I² |\n|---:|---|---|---:|---|---:|---:|\n", pct)
 			for _, l := range t.LeaveOneOut {
-				fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s |\n", l.Row, poolMD(l.Study), poolMD(l.Claim),
+				fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s |\n", l.Row, mdText(l.Study), mdText(l.Claim),
 					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
 			}
 		}
@@ -171,14 +173,14 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 			fmt.Fprintln(bw, "\n### Left out")
 			fmt.Fprintln(bw)
 			for _, l := range t.LeftOut {
-				fmt.Fprintf(bw, "- Row %d (%s, %s): %s.\n", l.Row, poolMD(l.Study), poolMD(l.Claim), poolMD(l.Reason))
+				fmt.Fprintf(bw, "- Row %d (%s, %s): %s.\n", l.Row, mdText(l.Study), mdText(l.Claim), mdText(l.Reason))
 			}
 		}
 		if len(t.Notes) > 0 {
 			fmt.Fprintln(bw, "\n### Notes")
 			fmt.Fprintln(bw)
 			for _, n := range t.Notes {
-				fmt.Fprintf(bw, "- %s\n", poolMD(n))
+				fmt.Fprintf(bw, "- %s\n", mdText(n))
 			}
 		}
 	}
@@ -186,19 +188,19 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 		fmt.Fprintln(bw, "\n## Forest plots")
 		fmt.Fprintln(bw)
 		for _, p := range rep.Plots {
-			fmt.Fprintf(bw, "- `%s`\n", strings.ReplaceAll(p, "`", "'"))
+			fmt.Fprintf(bw, "- %s\n", mdText(p))
 		}
 		if doc.PlotsNote != "" {
 			if len(rep.Plots) > 0 {
 				fmt.Fprintln(bw)
 			}
-			fmt.Fprintln(bw, poolMD(doc.PlotsNote))
+			fmt.Fprintln(bw, mdText(doc.PlotsNote))
 		}
 	}
 	fmt.Fprintln(bw, "\n## Cautions")
 	fmt.Fprintln(bw)
 	for _, c := range rep.Cautions {
-		fmt.Fprintf(bw, "- %s\n", poolMD(c))
+		fmt.Fprintf(bw, "- %s\n", mdText(c))
 	}
 	return bw.Flush()
 }
@@ -424,10 +426,4 @@ func poolPText(p audit.Number) string {
 		return formatP(float64(p))
 	}
 	return "= " + formatP(float64(p))
-}
-
-// poolMD keeps a text from breaking a Markdown table or starting markup.
-func poolMD(s string) string {
-	r := strings.NewReplacer("|", `\|`, "\n", " ", "\r", " ", "<", "&lt;", ">", "&gt;")
-	return r.Replace(s)
 }

@@ -201,7 +201,7 @@ func TestWritePoolText(t *testing.T) {
 			return WritePoolMarkdown(b, PoolDocument{PoolReport: r})
 		},
 			[]string{"# Pooled differences", `## BCG \| vaccine`, "| Row | Study |", "### Pooled results", "### Heterogeneity",
-				"### Leave one out", "### Left out", "- Row 30 (X, c):", "## lonely", "## Forest plots", "`results/pool-bcg-vaccine.svg`"}},
+				"### Leave one out", "### Left out", "- Row 30 (X, c):", "## lonely", "## Forest plots", "- results/pool-bcg-vaccine.svg"}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
