@@ -15,11 +15,11 @@ import (
 )
 
 // WriteBootstrapTable writes the comparison for the terminal. Control
-// characters of the column names are shown escaped (escapeControls).
+// characters of the column names are shown escaped (EscapeControls).
 func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 	bw := bufio.NewWriter(w)
 	res, o := rep.Result, rep.Options
-	name := escapeControls
+	name := EscapeControls
 	kind := "standardized"
 	if !res.Standardized {
 		kind = "unstandardized"

@@ -11,7 +11,7 @@ import (
 // Text from the input (study, claim and topic names, labels, notes that
 // quote them, problems, the input's name) is shown as written, but can
 // neither drive the terminal nor change the structure of a Markdown
-// document: escapeControls for the terminal, mdText for Markdown.
+// document: EscapeControls for the terminal, mdText for Markdown.
 
 // hiddenRune reports whether r would act on a terminal or break a line
 // rather than show: a control character (C0, DEL, C1; ESC among them), a
@@ -21,10 +21,12 @@ func hiddenRune(r rune) bool {
 	return unicode.IsControl(r) || unicode.Is(unicode.Bidi_Control, r) || r == '\u2028' || r == '\u2029'
 }
 
-// escapeControls shows the hidden runes of s (hiddenRune), and each byte
+// EscapeControls shows the hidden runes of s (hiddenRune), and each byte
 // that is not UTF-8 (0x9b is a CSI to an 8-bit terminal), as Go quotes
 // them: ESC as \x1b, a tab as \t, a line end as \n, U+202E as \u202e.
-func escapeControls(s string) string {
+// Every terminal writer passes text from the input through it, and so
+// does the command's error line.
+func EscapeControls(s string) string {
 	if utf8.ValidString(s) && !strings.ContainsFunc(s, hiddenRune) {
 		return s
 	}
@@ -54,12 +56,12 @@ var mdBlockStart = regexp.MustCompile(`^(?:[-+]|[0-9]{1,9}[.)])`)
 
 // mdText writes text from the input into a Markdown document, on one line
 // whatever it holds: its markup is escaped (mdEscaper), a line end or
-// other control character is shown escaped (escapeControls), a list
+// other control character is shown escaped (EscapeControls), a list
 // marker at its start is escaped, and the white space around it is
 // dropped, so that four spaces cannot open a code block. It serves in
 // running text, list items, headings and table cells alike.
 func mdText(s string) string {
-	s = escapeControls(mdEscaper.Replace(strings.TrimSpace(s)))
+	s = EscapeControls(mdEscaper.Replace(strings.TrimSpace(s)))
 	if m := mdBlockStart.FindStringIndex(s); m != nil {
 		s = s[:m[1]-1] + `\` + s[m[1]-1:]
 	}

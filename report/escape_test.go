@@ -65,8 +65,8 @@ func TestEscapeControls(t *testing.T) {
 		{"\ufffd kept", "\ufffd kept"},
 	}
 	for _, tt := range tests {
-		if got := escapeControls(tt.in); got != tt.want {
-			t.Errorf("escapeControls(%q) = %q, want %q", tt.in, got, tt.want)
+		if got := EscapeControls(tt.in); got != tt.want {
+			t.Errorf("EscapeControls(%q) = %q, want %q", tt.in, got, tt.want)
 		}
 	}
 }

@@ -56,16 +56,16 @@ func WritePoolJSON(w io.Writer, doc PoolDocument) error {
 func WritePoolTable(w io.Writer, doc PoolDocument) error {
 	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "%s\n%s\n", escapeControls(poolSummary(rep)), rep.Orientation)
+	fmt.Fprintf(bw, "%s\n%s\n", EscapeControls(poolSummary(rep)), rep.Orientation)
 	pct := poolLevelText(rep.Level)
 	for _, t := range rep.Topics {
-		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", escapeControls(t.Topic), t.K, len(t.LeftOut), t.ScaleNote)
+		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", EscapeControls(t.Topic), t.K, len(t.LeftOut), t.ScaleNote)
 		if len(t.Studies) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  ROW\tSTUDY\tCLAIM\tFIRST − SECOND\tDIFFERENCE\tSE\t%s CI\tWEIGHT FE\tWEIGHT RE\n", pct)
 			for _, s := range t.Studies {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, escapeControls(s.Study), escapeControls(s.Claim),
-					escapeControls(s.First), escapeControls(s.Second),
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, EscapeControls(s.Study), EscapeControls(s.Claim),
+					EscapeControls(s.First), EscapeControls(s.Second),
 					poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI), poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
 			}
 			if err := tw.Flush(); err != nil {
@@ -93,7 +93,7 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  WITHOUT ROW\tSTUDY\tCLAIM\tESTIMATE\t%s CI\tTAU²\tI²\n", pct)
 			for _, l := range t.LeaveOneOut {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, escapeControls(l.Study), escapeControls(l.Claim),
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, EscapeControls(l.Study), EscapeControls(l.Claim),
 					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
 			}
 			if err := tw.Flush(); err != nil {
@@ -103,24 +103,24 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 		if len(t.LeftOut) > 0 {
 			fmt.Fprintln(bw, "  Left out")
 			for _, l := range t.LeftOut {
-				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, escapeControls(l.Study), escapeControls(l.Claim), escapeControls(l.Reason))
+				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, EscapeControls(l.Study), EscapeControls(l.Claim), EscapeControls(l.Reason))
 			}
 		}
 		if len(t.Notes) > 0 {
 			fmt.Fprintln(bw, "  Notes")
 			for _, n := range t.Notes {
-				fmt.Fprintf(bw, "    - %s\n", escapeControls(n))
+				fmt.Fprintf(bw, "    - %s\n", EscapeControls(n))
 			}
 		}
 	}
 	if len(rep.Plots) > 0 {
 		fmt.Fprintln(bw, "\nForest plots written")
 		for _, p := range rep.Plots {
-			fmt.Fprintf(bw, "  - %s\n", escapeControls(p))
+			fmt.Fprintf(bw, "  - %s\n", EscapeControls(p))
 		}
 	}
 	if doc.PlotsNote != "" {
-		fmt.Fprintf(bw, "\n%s\n", escapeControls(doc.PlotsNote))
+		fmt.Fprintf(bw, "\n%s\n", EscapeControls(doc.PlotsNote))
 	}
 	fmt.Fprintln(bw, "\nCautions")
 	for _, c := range rep.Cautions {

@@ -25,7 +25,7 @@ func newTableWriter(w io.Writer) *tableWriter { return &tableWriter{bw: bufio.Ne
 // Begin implements Writer: a title line, since the summary comes last.
 func (t *tableWriter) Begin(h Header) error {
 	t.h = h
-	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", titleOf(h, " in ", escapeControls))
+	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", titleOf(h, " in ", EscapeControls))
 	return err
 }
 
@@ -39,7 +39,7 @@ func (t *tableWriter) Study(res audit.StudyResult) error {
 	fmt.Fprintln(tw, "\nROW\tSTUDY\tCLAIM\tRELATION\tMETHOD\tDIFFERENCE [CI]\tP\tP RANGE\tPUBLISHED\tRECOMPUTED\tOUTCOME")
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.Row, escapeControls(c.Study), escapeControls(c.Claim),
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.Row, EscapeControls(c.Study), EscapeControls(c.Claim),
 			dash(c.Relation), dash(c.Method), differenceCell(c), pCell(c.P), pRangeCell(c.PRange),
 			dash(c.Published), dash(c.Recomputed), strings.ToUpper(c.Outcome))
 	}
@@ -49,9 +49,9 @@ func (t *tableWriter) Study(res audit.StudyResult) error {
 	fmt.Fprintln(t.bw, "Notes")
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(t.bw, "  row %d (%s, %s): %s\n", c.Row, escapeControls(c.Study), escapeControls(c.Claim), c.Outcome)
+		fmt.Fprintf(t.bw, "  row %d (%s, %s): %s\n", c.Row, EscapeControls(c.Study), EscapeControls(c.Claim), c.Outcome)
 		for _, n := range c.Notes {
-			fmt.Fprintf(t.bw, "    - %s\n", escapeControls(n))
+			fmt.Fprintf(t.bw, "    - %s\n", EscapeControls(n))
 		}
 	}
 	return nil
@@ -63,10 +63,10 @@ func (t *tableWriter) End(f Footer) error {
 	if len(problems) > 0 {
 		fmt.Fprintln(t.bw, "\nProblems in the input")
 		for _, p := range problems {
-			fmt.Fprintf(t.bw, "  - %s\n", escapeControls(problemText(p)))
+			fmt.Fprintf(t.bw, "  - %s\n", EscapeControls(problemText(p)))
 		}
 	}
-	fmt.Fprintf(t.bw, "\n%s\n", escapeControls(summaryLine(t.h.Source, f.Summary, len(problems))))
+	fmt.Fprintf(t.bw, "\n%s\n", EscapeControls(summaryLine(t.h.Source, f.Summary, len(problems))))
 	fmt.Fprintln(t.bw, "\nCautions")
 	for _, c := range t.h.cautions() {
 		fmt.Fprintf(t.bw, "  - %s\n", c)

@@ -11,6 +11,7 @@ import (
 	"syscall"
 
 	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/report"
 
 	"github.com/spf13/cobra"
 )
@@ -126,7 +127,9 @@ func execute(args []string, stdout, stderr io.Writer, files *output.Files, inter
 	case interrupted.Load():
 		return exitError
 	}
-	fmt.Fprintf(stderr, "coefaudit: %v\n", err)
+	// The error may quote what was typed or read (a file name): its
+	// control characters are shown, not sent to the terminal.
+	fmt.Fprintf(stderr, "coefaudit: %s\n", report.EscapeControls(err.Error()))
 	var fe flagError
 	if errors.As(err, &fe) {
 		fmt.Fprintln(stderr, "Run 'coefaudit help' for usage.")
