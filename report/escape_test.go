@@ -248,20 +248,47 @@ func checkMarkdownShape(t testing.TB, what, got, bland string) {
 	}
 }
 
+// checkMarkdownText writes the check's and the pool's Markdown of a study
+// whose every text is s: the structure must be that of bland text, and no
+// line may hold a control character.
+func checkMarkdownText(t *testing.T, s string) {
+	t.Helper()
+	h, res, f := hostileResults(s, nil)
+	bh, bres, bf := hostileResults(s, blandText)
+	what := strings.ReplaceAll(s, "\n", `\n`)
+	got := writeResults(t, "md", h, res, f)
+	checkVisible(t, "check markdown", got)
+	checkMarkdownShape(t, "check "+what, got, writeResults(t, "md", bh, bres, bf))
+	got = writePool(t, "md", h, res)
+	checkVisible(t, "pool markdown", got)
+	checkMarkdownShape(t, "pool "+what, got, writePool(t, "md", bh, bres))
+}
+
+// checkTerminalText writes the check's and the pool's terminal tables of
+// a study whose every text is s: no line may hold a control character,
+// and there are as many lines as for bland text.
+func checkTerminalText(t *testing.T, s string) {
+	t.Helper()
+	h, res, f := hostileResults(s, nil)
+	bh, bres, bf := hostileResults(s, blandText)
+	for _, out := range []struct{ what, got, bland string }{
+		{"check table", writeResults(t, "table", h, res, f), writeResults(t, "table", bh, bres, bf)},
+		{"pool table", writePool(t, "table", h, res), writePool(t, "table", bh, bres)},
+	} {
+		checkVisible(t, out.what, out.got)
+		if g, w := strings.Count(out.got, "\n"), strings.Count(out.bland, "\n"); g != w {
+			t.Errorf("%s of %q: %d lines, want %d:\n%s", out.what, s, g, w, out.got)
+		}
+	}
+}
+
 // TestHostileTextMarkdown: no text of the input changes the structure of
 // the check's or the pool's Markdown (the same headings, lists, tables of
 // the same shape, no link, image, HTML or code), and no line of them
 // holds a control character.
 func TestHostileTextMarkdown(t *testing.T) {
 	for _, s := range hostileTexts {
-		h, res, f := hostileResults(s, nil)
-		bh, bres, bf := hostileResults(s, blandText)
-		got := writeResults(t, "md", h, res, f)
-		checkMarkdownShape(t, "check "+strings.ReplaceAll(s, "\n", `\n`), got, writeResults(t, "md", bh, bres, bf))
-		checkVisible(t, "check markdown", got)
-		got = writePool(t, "md", h, res)
-		checkMarkdownShape(t, "pool "+strings.ReplaceAll(s, "\n", `\n`), got, writePool(t, "md", bh, bres))
-		checkVisible(t, "pool markdown", got)
+		checkMarkdownText(t, s)
 	}
 }
 
@@ -269,57 +296,22 @@ func TestHostileTextMarkdown(t *testing.T) {
 // on the terminal or a line more in the check's or the pool's table.
 func TestHostileTextTerminal(t *testing.T) {
 	for _, s := range hostileTexts {
-		h, res, f := hostileResults(s, nil)
-		bh, bres, bf := hostileResults(s, blandText)
-		for _, out := range []struct{ what, got, bland string }{
-			{"check table", writeResults(t, "table", h, res, f), writeResults(t, "table", bh, bres, bf)},
-			{"pool table", writePool(t, "table", h, res), writePool(t, "table", bh, bres)},
-		} {
-			checkVisible(t, out.what, out.got)
-			if g, w := strings.Count(out.got, "\n"), strings.Count(out.bland, "\n"); g != w {
-				t.Errorf("%s of %q: %d lines, want %d:\n%s", out.what, s, g, w, out.got)
-			}
-		}
+		checkTerminalText(t, s)
 	}
 }
 
-// FuzzMarkdownWriters writes the check's and the pool's Markdown of a
-// study whose every text is the fuzzed one: the structure must be that of
-// bland text, and no line may hold a control character.
+// FuzzMarkdownWriters is checkMarkdownText of any text.
 func FuzzMarkdownWriters(f *testing.F) {
 	for _, s := range hostileTexts {
 		f.Add(s)
 	}
-	f.Fuzz(func(t *testing.T, s string) {
-		h, res, ft := hostileResults(s, nil)
-		bh, bres, bft := hostileResults(s, blandText)
-		got := writeResults(t, "md", h, res, ft)
-		checkVisible(t, "check markdown", got)
-		checkMarkdownShape(t, "check", got, writeResults(t, "md", bh, bres, bft))
-		got = writePool(t, "md", h, res)
-		checkVisible(t, "pool markdown", got)
-		checkMarkdownShape(t, "pool", got, writePool(t, "md", bh, bres))
-	})
+	f.Fuzz(checkMarkdownText)
 }
 
-// FuzzTerminalWriters writes the check's and the pool's terminal tables
-// of a study whose every text is the fuzzed one: no line may hold a
-// control character, and there are as many lines as for bland text.
+// FuzzTerminalWriters is checkTerminalText of any text.
 func FuzzTerminalWriters(f *testing.F) {
 	for _, s := range hostileTexts {
 		f.Add(s)
 	}
-	f.Fuzz(func(t *testing.T, s string) {
-		h, res, ft := hostileResults(s, nil)
-		bh, bres, bft := hostileResults(s, blandText)
-		for _, out := range []struct{ what, got, bland string }{
-			{"check table", writeResults(t, "table", h, res, ft), writeResults(t, "table", bh, bres, bft)},
-			{"pool table", writePool(t, "table", h, res), writePool(t, "table", bh, bres)},
-		} {
-			checkVisible(t, out.what, out.got)
-			if g, w := strings.Count(out.got, "\n"), strings.Count(out.bland, "\n"); g != w {
-				t.Errorf("%s: %d lines, want %d:\n%s", out.what, g, w, out.got)
-			}
-		}
-	})
+	f.Fuzz(checkTerminalText)
 }

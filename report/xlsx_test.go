@@ -331,14 +331,13 @@ func TestXLSXSheetFull(t *testing.T) {
 	}
 }
 
-// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
-// has grown past what excelize keeps in memory (16 MB) before End, as a
-// failed run does: Close must remove the temporary file excelize made.
-func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
-	dir := t.TempDir()
-	t.Setenv("TMPDIR", dir)
+// longClaimsSheet begins a workbook whose claims sheet grows past what
+// excelize keeps in memory (16 MB), with excelize's temporary files in
+// tmpDir, and leaves it unfinished.
+func longClaimsSheet(t *testing.T, tmpDir string) *xlsxWriter {
+	t.Helper()
 	rep := tenThousandClaims()
-	wr := newXLSXWriter(io.Discard, "")
+	wr := newXLSXWriter(io.Discard, tmpDir)
 	if err := wr.Begin(Header{}); err != nil {
 		t.Fatal(err)
 	}
@@ -347,6 +346,16 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	return wr
+}
+
+// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
+// has grown past what excelize keeps in memory (16 MB) before End, as a
+// failed run does: Close must remove the temporary file excelize made.
+func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
+	dir := t.TempDir()
+	t.Setenv("TMPDIR", dir)
+	wr := longClaimsSheet(t, "")
 	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) == 0 {
 		t.Fatal("excelize made no temporary file; the test needs one")
 	}
@@ -364,17 +373,8 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 func TestXLSXTempDir(t *testing.T) {
 	system, own := t.TempDir(), t.TempDir()
 	t.Setenv("TMPDIR", system)
-	rep := tenThousandClaims()
-	wr := newXLSXWriter(io.Discard, own)
+	wr := longClaimsSheet(t, own)
 	defer wr.Close()
-	if err := wr.Begin(Header{}); err != nil {
-		t.Fatal(err)
-	}
-	for range 3 {
-		if err := wr.Study(audit.StudyResult{Claims: rep.Claims}); err != nil {
-			t.Fatal(err)
-		}
-	}
 	if m, _ := filepath.Glob(filepath.Join(own, "*")); len(m) == 0 {
 		t.Error("excelize made no temporary file in the writer's folder")
 	}

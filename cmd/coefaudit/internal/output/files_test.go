@@ -37,19 +37,27 @@ func names(t *testing.T, dir string) []string {
 	return out
 }
 
-// TestFilesCommit: closed Targets wait under their temporary names and
-// Commit puts every one in place and removes the temporary folder.
-func TestFilesCommit(t *testing.T) {
+// filesWithBuffer returns the Files of a run that has a file in its
+// temporary folder (as excelize's buffer would be), the system's temporary
+// folder being a test folder, and a folder for the run's files.
+func filesWithBuffer(t *testing.T) (*Files, string) {
+	t.Helper()
 	t.Setenv("TMPDIR", t.TempDir())
-	dir := t.TempDir()
 	f := NewFiles()
 	tmp, err := f.TempDir()
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile(filepath.Join(tmp, "buffer"), []byte("x"), 0o600); err != nil {
+	if err := os.WriteFile(filepath.Join(tmp, "excelize-1"), []byte("x"), 0o600); err != nil {
 		t.Fatal(err)
 	}
+	return f, t.TempDir()
+}
+
+// TestFilesCommit: closed Targets wait under their temporary names and
+// Commit puts every one in place and removes the temporary folder.
+func TestFilesCommit(t *testing.T) {
+	f, dir := filesWithBuffer(t)
 	openWritten(t, f, filepath.Join(dir, "report.md"), "report")
 	openWritten(t, f, filepath.Join(dir, "plot.svg"), "plot")
 	for _, n := range names(t, dir) {
@@ -80,16 +88,7 @@ func TestFilesCommit(t *testing.T) {
 // TestFilesAbort: Abort removes every file of the run, closed or not, and
 // the temporary folder with what it holds; nothing opens afterwards.
 func TestFilesAbort(t *testing.T) {
-	t.Setenv("TMPDIR", t.TempDir())
-	dir := t.TempDir()
-	f := NewFiles()
-	tmp, err := f.TempDir()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(tmp, "excelize-1"), []byte("x"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	f, dir := filesWithBuffer(t)
 	openWritten(t, f, filepath.Join(dir, "plot.svg"), "plot")
 	half, err := f.Open(&bytes.Buffer{}, filepath.Join(dir, "report.md"), "input.xlsx")
 	if err != nil {
