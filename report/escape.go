@@ -27,11 +27,13 @@ func hiddenRune(r rune) bool {
 // Every terminal writer passes text from the input through it, and so
 // does the command's error line.
 func EscapeControls(s string) string {
-	if utf8.ValidString(s) && !strings.ContainsFunc(s, hiddenRune) {
+	i := firstHidden(s)
+	if i < 0 {
 		return s
 	}
 	var b strings.Builder
-	for i := 0; i < len(s); {
+	b.WriteString(s[:i])
+	for i < len(s) {
 		r, size := utf8.DecodeRuneInString(s[i:])
 		if (r == utf8.RuneError && size == 1) || hiddenRune(r) {
 			q := strconv.Quote(s[i : i+size])
@@ -42,6 +44,24 @@ func EscapeControls(s string) string {
 		i += size
 	}
 	return b.String()
+}
+
+// firstHidden returns the index of the first hidden rune of s, or of its
+// first byte that is not UTF-8; -1 when there is none. Printable ASCII,
+// nearly all of any report, is passed over a byte at a time.
+func firstHidden(s string) int {
+	for i := 0; i < len(s); {
+		if c := s[i]; c >= 0x20 && c < 0x7f {
+			i++
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		if (r == utf8.RuneError && size == 1) || hiddenRune(r) {
+			return i
+		}
+		i += size
+	}
+	return -1
 }
 
 // mdEscaper escapes the characters Markdown would read as markup in text
