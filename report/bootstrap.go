@@ -14,16 +14,18 @@ import (
 	"coefaudit/infer/bootstrap"
 )
 
-// WriteBootstrapTable writes the comparison for the terminal.
+// WriteBootstrapTable writes the comparison for the terminal. Control
+// characters of the column names are shown escaped (EscapeControls).
 func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 	bw := bufio.NewWriter(w)
 	res, o := rep.Result, rep.Options
+	name := EscapeControls
 	kind := "standardized"
 	if !res.Standardized {
 		kind = "unstandardized"
 	}
 	fmt.Fprintf(bw, "OLS of %s on %s: n = %d (%d rows read, %d dropped for a missing value), R² = %.4f, residual df %d.\n\n",
-		o.Outcome, strings.Join(o.Predictors, ", "), res.Fit.N, rep.Rows, rep.Dropped, res.Fit.RSquared, res.Fit.ResidualDF)
+		name(o.Outcome), name(strings.Join(o.Predictors, ", ")), res.Fit.N, rep.Rows, rep.Dropped, res.Fit.RSquared, res.Fit.ResidualDF)
 	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "TERM\tB\tSE\tBETA\t")
 	names := append([]string{"(intercept)"}, o.Predictors...)
@@ -32,14 +34,14 @@ func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 		if k > 0 || !res.Fit.Intercept {
 			beta = formatNum(res.Fit.Standardized[k-boolInt(res.Fit.Intercept)])
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", names[k], formatNum(b), formatNum(res.Fit.StandardErrors[k]), beta)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", name(names[k]), formatNum(b), formatNum(res.Fit.StandardErrors[k]), beta)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
 	lvl := 100 * res.Level
 	fmt.Fprintf(bw, "\nDifference of the %s coefficients, %s − %s: %s (bootstrap SE %s, bias %s; %d of %d resamples usable, seed %d).\n",
-		kind, o.Compare[0], o.Compare[1], formatNum(res.Estimate), formatNum(res.BootstrapSE), formatNum(res.BootstrapBias), res.Used, res.Resamples, o.Seed)
+		kind, name(o.Compare[0]), name(o.Compare[1]), formatNum(res.Estimate), formatNum(res.BootstrapSE), formatNum(res.BootstrapBias), res.Used, res.Resamples, o.Seed)
 	tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "  %g%% percentile interval\t%s to %s\t\n", lvl, formatNum(res.Percentile.Lower), formatNum(res.Percentile.Upper))
 	fmt.Fprintf(tw, "  %g%% BC interval\t%s to %s\t\n", lvl, formatNum(res.BC.Lower), formatNum(res.BC.Upper))
@@ -63,7 +65,7 @@ func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 		}
 	}
 	for _, w := range res.Warnings {
-		fmt.Fprintf(bw, "Warning: %s\n", w)
+		fmt.Fprintf(bw, "Warning: %s\n", name(w))
 	}
 	if rep.Dropped > 0 {
 		fmt.Fprintf(bw, "Rows with a missing value in a model column were dropped (listwise deletion): unbiased only if the data are missing completely at random.\n")

@@ -13,7 +13,8 @@ import (
 
 // WriteComparison writes the audit of one comparison for the terminal: the
 // two estimates as given and as read, the test, the verdict, the notes,
-// the methods paragraph and the cautions.
+// the methods paragraph and the cautions. Control characters of the text
+// typed are shown escaped (EscapeControls).
 func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	if len(rep.Claims) != 1 {
 		return fmt.Errorf("a comparison report holds %d claims, want 1", len(rep.Claims))
@@ -21,7 +22,7 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	r := &rep.Claims[0]
 	bw := bufio.NewWriter(w)
 	for i, s := range []audit.Side{r.First, r.Second} {
-		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", []audit.Reported{c.First, c.Second}[i].Text)
+		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", EscapeControls([]audit.Reported{c.First, c.Second}[i].Text))
 		if s.Estimate.Known() {
 			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", formatNum(float64(s.Estimate)), numberOrDash(s.SE))
 			if s.SEFrom != "" {
@@ -55,17 +56,17 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	if len(r.Notes) > 0 {
 		fmt.Fprintln(bw, "\nNotes")
 		for _, n := range r.Notes {
-			fmt.Fprintf(bw, "  - %s\n", n)
+			fmt.Fprintf(bw, "  - %s\n", EscapeControls(n))
 		}
 	}
-	if m := strings.TrimSpace(methodsText(r)); m != "" {
+	if m := EscapeControls(strings.TrimSpace(methodsText(r))); m != "" {
 		fmt.Fprintln(bw, "\nMethods")
 		writeWrapped(bw, m, "  ", 78)
 	}
 	if len(rep.Problems) > 0 {
 		fmt.Fprintln(bw, "\nProblems")
 		for _, p := range rep.Problems {
-			fmt.Fprintf(bw, "  - %s\n", p.Message)
+			fmt.Fprintf(bw, "  - %s\n", EscapeControls(p.Message))
 		}
 	}
 	fmt.Fprintln(bw, "\nCautions")

@@ -101,4 +101,18 @@ func TestWriteCSVGuardsColumnNames(t *testing.T) {
 	if got := records[1][len(header)-1]; got != "z" {
 		t.Errorf("the last pass-through cell = %q, want z", got)
 	}
+	// Every trigger of the OWASP list, as a column's name.
+	in = reportInput()
+	for i := range in.Claims {
+		in.Claims[i].Extra = extract.Extra{Names: injectionTexts, Values: injectionTexts}
+	}
+	records, err = csv.NewReader(bytes.NewReader(writeInput(t, "csv", in))).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range injectionTexts {
+		if !slices.Contains(records[0], "'"+name) || slices.Contains(records[0], name) {
+			t.Errorf("header %q: want the name %q written with an apostrophe before it", records[0], name)
+		}
+	}
 }

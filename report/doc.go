@@ -15,6 +15,13 @@
 // bounded as each writer's doc says. Every format gives the same outcome,
 // p and notes for every claim: there is one path.
 //
+// Text from the input (names, labels, notes that quote them) is shown as
+// written but can neither drive a terminal nor change the structure of a
+// Markdown document: its control characters are shown escaped
+// (EscapeControls, "\x1b") and its Markdown markup is escaped (mdText). A
+// CSV cell or column name that a spreadsheet would evaluate is guarded
+// with an apostrophe, and every text of the workbook is a text cell.
+//
 // report decides no verdict (package audit) and reads no number (package
 // extract); it formats numbers with strconv and fmt, and encodes with
 // encoding/csv, encoding/json, html/template and excelize.

@@ -4,7 +4,6 @@ import (
 	"bufio"
 	"fmt"
 	"io"
-	"strings"
 
 	"coefaudit/audit"
 )
@@ -14,7 +13,7 @@ import (
 // run of a study's claims a table, then one section per claim with its
 // methods paragraph and notes; at the end the summary by outcome, the
 // input's problems and the cautions. Text taken from the input is escaped
-// (mdText, mdCell).
+// (mdText).
 type markdownWriter struct {
 	bw       *bufio.Writer
 	h        Header
@@ -29,7 +28,7 @@ func newMarkdownWriter(w io.Writer) *markdownWriter {
 func (m *markdownWriter) Begin(h Header) error {
 	m.h = h
 	_, err := fmt.Fprintf(m.bw, "# %s\n\nThe summary, the problems of the input and the cautions follow the claims.\n\n## Claims\n",
-		titleOf(h, ": ", mdCell))
+		titleOf(h, ": ", mdText))
 	return err
 }
 
@@ -40,17 +39,17 @@ func (m *markdownWriter) Study(res audit.StudyResult) error {
 		return nil
 	}
 	bw := m.bw
-	fmt.Fprintf(bw, "\n### Study %s\n", mdCell(res.Study))
+	fmt.Fprintf(bw, "\n### Study %s\n", mdText(res.Study))
 	fmt.Fprintln(bw, "\n| row | study | claim | relation | method | difference [CI] | p | p range | published | outcome |")
 	fmt.Fprintln(bw, "|---:|---|---|---|---|---|---|---|---|---|")
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s | %s | %s | **%s** |\n", c.Row, mdCell(c.Study), mdCell(c.Claim),
+		fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s | %s | %s | **%s** |\n", c.Row, mdText(c.Study), mdText(c.Claim),
 			dash(c.Relation), dash(c.Method), differenceCell(c), pCell(c.P), pRangeCell(c.PRange), dash(c.Published), c.Outcome)
 	}
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(bw, "\n#### Claim %s (%s), row %d: %s\n\n%s\n", mdCell(c.Claim), mdCell(c.Study), c.Row, c.Outcome, mdText(methodsText(c)))
+		fmt.Fprintf(bw, "\n#### Claim %s (%s), row %d: %s\n\n%s\n", mdText(c.Claim), mdText(c.Study), c.Row, c.Outcome, mdText(methodsText(c)))
 		if len(c.Notes) > 0 {
 			bw.WriteString("\nNotes:\n\n")
 			for _, n := range c.Notes {
@@ -69,7 +68,7 @@ func (m *markdownWriter) End(f Footer) error {
 	fmt.Fprintln(bw, "| outcome | claims |")
 	fmt.Fprintln(bw, "|---|---:|")
 	for _, o := range outcomesShown(f.Summary.Counts) {
-		fmt.Fprintf(bw, "| %s | %d |\n", mdCell(o), f.Summary.Counts[o])
+		fmt.Fprintf(bw, "| %s | %d |\n", mdText(o), f.Summary.Counts[o])
 	}
 	if len(problems) > 0 {
 		fmt.Fprintln(bw, "\n## Problems in the input")
@@ -84,15 +83,4 @@ func (m *markdownWriter) End(f Footer) error {
 		fmt.Fprintf(bw, "- %s\n", c)
 	}
 	return bw.Flush()
-}
-
-// mdEscaper escapes the characters Markdown would read as markup in
-// running text taken from the input.
-var mdEscaper = strings.NewReplacer(`\`, `\\`, "*", `\*`, "_", `\_`, "`", "\\`", "<", "&lt;", ">", "&gt;", "[", `\[`, "]", `\]`, "#", `\#`)
-
-func mdText(s string) string { return mdEscaper.Replace(s) }
-
-// mdCell also keeps a table cell in one piece.
-func mdCell(s string) string {
-	return strings.ReplaceAll(strings.ReplaceAll(mdText(s), "|", `\|`), "\n", " ")
 }

@@ -26,7 +26,7 @@ func mdInput() *extract.Input {
 
 func TestWriteMarkdown(t *testing.T) {
 	md := string(writeInput(t, "md", mdInput()))
-	for _, want := range []string{"# Audit of published comparisons", "| consistent | 1 |", `S\*1`, `c\|1 second line`,
+	for _, want := range []string{"# Audit of published comparisons", "| consistent | 1 |", `S\*1`, `c\|1\nsecond line`,
 		"#### Claim", "## Summary", "## Cautions", audit.Cautions[0]} {
 		if !strings.Contains(md, want) {
 			t.Errorf("Markdown lacks %q:\n%s", want, md)
@@ -48,13 +48,13 @@ func TestWriteMarkdown(t *testing.T) {
 
 // TestWriteTable checks the terminal table: every claim's line and notes,
 // the summary line and the cautions, and control characters from the input
-// shown as spaces so that they neither move the columns nor reach the
-// terminal.
+// shown escaped (\x1b, \t) so that they neither move the columns nor reach
+// the terminal.
 func TestWriteTable(t *testing.T) {
 	in := mdInput()
 	in.Claims[0].Claim = "c1\x1b[31m\tred"
 	out := string(writeInput(t, "table", in))
-	for _, want := range []string{"ROW", "CONSISTENT", "row 2 (S*1, c1 [31m red): consistent", "1 claim audited", "Cautions", audit.Cautions[0]} {
+	for _, want := range []string{"ROW", "CONSISTENT", `row 2 (S*1, c1\x1b[31m\tred): consistent`, "1 claim audited", "Cautions", audit.Cautions[0]} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}

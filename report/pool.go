@@ -26,32 +26,46 @@ func PoolInput(path string, o Options, po audit.PoolOptions) (*audit.PoolReport,
 	return audit.Pool(rep, po)
 }
 
+// PoolDocument is what the pooling writers write: the pooling, with the
+// forest plots written (PoolReport.Plots) and a note on those that were
+// not.
+type PoolDocument struct {
+	*audit.PoolReport
+	// PlotsNote says which forest plots were not written and why (a limit
+	// on the topics drawn, a report with no folder beside it); empty when
+	// every plot asked for was written.
+	PlotsNote string `json:"plots_note,omitempty"`
+}
+
 // WritePoolJSON writes the pooling report as JSON: the PoolReport fields
 // under their json names, every interval as [low, high], proportions (not
 // percentages) for levels, weights and I², and null for a number that is
-// not known (NaN or infinite; a df of null means the standard normal).
-func WritePoolJSON(w io.Writer, rep *audit.PoolReport) error {
+// not known (NaN or infinite; a df of null means the standard normal);
+// then plots_note, when there is one.
+func WritePoolJSON(w io.Writer, doc PoolDocument) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(rep)
+	return enc.Encode(doc)
 }
 
 // WritePoolTable writes the pooling report for the terminal: a block per
 // topic with its claims, the pooled lines, heterogeneity, leave-one-out
-// estimates, the claims left out and notes; then the plots written and the
-// cautions.
-func WritePoolTable(w io.Writer, rep *audit.PoolReport) error {
+// estimates, the claims left out and notes; then the plots written, the
+// note on those not written, and the cautions.
+func WritePoolTable(w io.Writer, doc PoolDocument) error {
+	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "%s\n%s\n", poolSummary(rep), rep.Orientation)
+	fmt.Fprintf(bw, "%s\n%s\n", EscapeControls(poolSummary(rep)), rep.Orientation)
 	pct := poolLevelText(rep.Level)
 	for _, t := range rep.Topics {
-		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", t.Topic, t.K, len(t.LeftOut), t.ScaleNote)
+		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", EscapeControls(t.Topic), t.K, len(t.LeftOut), t.ScaleNote)
 		if len(t.Studies) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  ROW\tSTUDY\tCLAIM\tFIRST − SECOND\tDIFFERENCE\tSE\t%s CI\tWEIGHT FE\tWEIGHT RE\n", pct)
 			for _, s := range t.Studies {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, s.Study, s.Claim, s.First, s.Second,
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, EscapeControls(s.Study), EscapeControls(s.Claim),
+					EscapeControls(s.First), EscapeControls(s.Second),
 					poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI), poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
 			}
 			if err := tw.Flush(); err != nil {
@@ -79,7 +93,8 @@ func WritePoolTable(w io.Writer, rep *audit.PoolReport) error {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  WITHOUT ROW\tSTUDY\tCLAIM\tESTIMATE\t%s CI\tTAU²\tI²\n", pct)
 			for _, l := range t.LeaveOneOut {
-				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, l.Study, l.Claim, poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
+				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, EscapeControls(l.Study), EscapeControls(l.Claim),
+					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
 			}
 			if err := tw.Flush(); err != nil {
 				return err
@@ -88,21 +103,24 @@ func WritePoolTable(w io.Writer, rep *audit.PoolReport) error {
 		if len(t.LeftOut) > 0 {
 			fmt.Fprintln(bw, "  Left out")
 			for _, l := range t.LeftOut {
-				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, l.Study, l.Claim, l.Reason)
+				fmt.Fprintf(bw, "    - row %d (%s, %s): %s.\n", l.Row, EscapeControls(l.Study), EscapeControls(l.Claim), EscapeControls(l.Reason))
 			}
 		}
 		if len(t.Notes) > 0 {
 			fmt.Fprintln(bw, "  Notes")
 			for _, n := range t.Notes {
-				fmt.Fprintf(bw, "    - %s\n", n)
+				fmt.Fprintf(bw, "    - %s\n", EscapeControls(n))
 			}
 		}
 	}
 	if len(rep.Plots) > 0 {
 		fmt.Fprintln(bw, "\nForest plots written")
 		for _, p := range rep.Plots {
-			fmt.Fprintf(bw, "  - %s\n", p)
+			fmt.Fprintf(bw, "  - %s\n", EscapeControls(p))
 		}
+	}
+	if doc.PlotsNote != "" {
+		fmt.Fprintf(bw, "\n%s\n", EscapeControls(doc.PlotsNote))
 	}
 	fmt.Fprintln(bw, "\nCautions")
 	for _, c := range rep.Cautions {
@@ -114,19 +132,20 @@ func WritePoolTable(w io.Writer, rep *audit.PoolReport) error {
 // WritePoolMarkdown writes the pooling report as Markdown: a heading per
 // topic with a table of its claims, the pooled results, the heterogeneity,
 // the leave-one-out estimates, the claims left out and notes; then the
-// plots written and the cautions.
-func WritePoolMarkdown(w io.Writer, rep *audit.PoolReport) error {
+// plots written, the note on those not written, and the cautions.
+func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
+	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
 	pct := poolLevelText(rep.Level)
-	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", poolMD(poolSummary(rep)), poolMD(rep.Orientation))
+	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", mdText(poolSummary(rep)), mdText(rep.Orientation))
 	for _, t := range rep.Topics {
-		fmt.Fprintf(bw, "\n## %s\n\n%s\n", poolMD(t.Topic), poolMD(t.ScaleNote))
+		fmt.Fprintf(bw, "\n## %s\n\n%s\n", mdText(t.Topic), mdText(t.ScaleNote))
 		if len(t.Studies) > 0 {
 			fmt.Fprintf(bw, "\n| Row | Study | Claim | First − second | Difference | SE | %s CI | Weight (fixed) | Weight (random) |\n", pct)
 			fmt.Fprintln(bw, "|---:|---|---|---|---:|---:|---|---:|---:|")
 			for _, s := range t.Studies {
-				fmt.Fprintf(bw, "| %d | %s | %s | %s − %s | %s | %s | %s | %s | %s |\n", s.Row, poolMD(s.Study), poolMD(s.Claim),
-					poolMD(s.First), poolMD(s.Second), poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI),
+				fmt.Fprintf(bw, "| %d | %s | %s | %s − %s | %s | %s | %s | %s | %s |\n", s.Row, mdText(s.Study), mdText(s.Claim),
+					mdText(s.First), mdText(s.Second), poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI),
 					poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
 			}
 		}
@@ -141,12 +160,12 @@ func WritePoolMarkdown(w io.Writer, rep *audit.PoolReport) error {
 			if s := poolRatioLine(t); s != "" {
 				fmt.Fprintf(bw, "\n%s\n", s)
 			}
-			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", poolMD(poolHeterogeneityText(t, pct)))
+			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", mdText(poolHeterogeneityText(t, pct)))
 		}
 		if len(t.LeaveOneOut) > 0 {
 			fmt.Fprintf(bw, "\n### Leave one out\n\n| Without row | Study | Claim | Estimate | %s CI | τ² | I² |\n|---:|---|---|---:|---|---:|---:|\n", pct)
 			for _, l := range t.LeaveOneOut {
-				fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s |\n", l.Row, poolMD(l.Study), poolMD(l.Claim),
+				fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s |\n", l.Row, mdText(l.Study), mdText(l.Claim),
 					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
 			}
 		}
@@ -154,28 +173,34 @@ func WritePoolMarkdown(w io.Writer, rep *audit.PoolReport) error {
 			fmt.Fprintln(bw, "\n### Left out")
 			fmt.Fprintln(bw)
 			for _, l := range t.LeftOut {
-				fmt.Fprintf(bw, "- Row %d (%s, %s): %s.\n", l.Row, poolMD(l.Study), poolMD(l.Claim), poolMD(l.Reason))
+				fmt.Fprintf(bw, "- Row %d (%s, %s): %s.\n", l.Row, mdText(l.Study), mdText(l.Claim), mdText(l.Reason))
 			}
 		}
 		if len(t.Notes) > 0 {
 			fmt.Fprintln(bw, "\n### Notes")
 			fmt.Fprintln(bw)
 			for _, n := range t.Notes {
-				fmt.Fprintf(bw, "- %s\n", poolMD(n))
+				fmt.Fprintf(bw, "- %s\n", mdText(n))
 			}
 		}
 	}
-	if len(rep.Plots) > 0 {
+	if len(rep.Plots) > 0 || doc.PlotsNote != "" {
 		fmt.Fprintln(bw, "\n## Forest plots")
 		fmt.Fprintln(bw)
 		for _, p := range rep.Plots {
-			fmt.Fprintf(bw, "- `%s`\n", strings.ReplaceAll(p, "`", "'"))
+			fmt.Fprintf(bw, "- %s\n", mdText(p))
+		}
+		if doc.PlotsNote != "" {
+			if len(rep.Plots) > 0 {
+				fmt.Fprintln(bw)
+			}
+			fmt.Fprintln(bw, mdText(doc.PlotsNote))
 		}
 	}
 	fmt.Fprintln(bw, "\n## Cautions")
 	fmt.Fprintln(bw)
 	for _, c := range rep.Cautions {
-		fmt.Fprintf(bw, "- %s\n", poolMD(c))
+		fmt.Fprintf(bw, "- %s\n", mdText(c))
 	}
 	return bw.Flush()
 }
@@ -194,35 +219,64 @@ type PoolPlotFile struct {
 	Path   string
 }
 
-// PoolPlotFiles names an SVG and a PNG forest plot for every pooled topic.
-// With out set they go beside it and take its name without the extension
-// as a prefix: out results/pool.md gives results/pool-<slug>.svg and .png.
-// dir, when set, replaces out's folder; with neither set no plots are
+// DefaultMaxPlotTopics is how many pooled topics get forest plots unless
+// the caller asks for more. Each topic is an SVG and a PNG (1,000 topics
+// took 18 s and 92 MB), so that an input of thousands of topics does not
+// fill a folder by accident (common practice, no source).
+const DefaultMaxPlotTopics = 200
+
+// PoolPlotOptions say where PoolPlotFiles puts the forest plots, and how
+// many.
+type PoolPlotOptions struct {
+	// Out is the report's file: the plots go beside it and take its name
+	// without the extension as a prefix. Leave it empty when the report is
+	// not a regular file (standard output, a device, a FIFO), which has no
+	// folder of its own for them.
+	Out string
+	// Dir, when set, is the folder of the plots, in place of Out's.
+	Dir string
+	// MaxTopics is how many pooled topics are drawn, the first in the
+	// report's order; DefaultMaxPlotTopics when 0.
+	MaxTopics int
+}
+
+// PoolPlotFiles names an SVG and a PNG forest plot for each of the first
+// o.MaxTopics pooled topics, and returns how many pooled topics were left
+// out for that limit. Out results/pool.md gives results/pool-<slug>.svg
+// and .png; Dir replaces Out's folder. With neither set no plots are
 // named, so plots are written only when asked for.
-func PoolPlotFiles(rep *audit.PoolReport, out, dir string) []PoolPlotFile {
-	if out == "" && dir == "" {
-		return nil
+func PoolPlotFiles(rep *audit.PoolReport, o PoolPlotOptions) (files []PoolPlotFile, leftOut int) {
+	if o.Out == "" && o.Dir == "" {
+		return nil, 0
 	}
-	prefix := "pool"
-	if out != "" {
-		base := filepath.Base(out)
+	if o.MaxTopics <= 0 {
+		o.MaxTopics = DefaultMaxPlotTopics
+	}
+	prefix, dir := "pool", o.Dir
+	if o.Out != "" {
+		base := filepath.Base(o.Out)
 		if p := strings.TrimSuffix(base, filepath.Ext(base)); p != "" {
 			prefix = p
 		}
 		if dir == "" {
-			dir = filepath.Dir(out)
+			dir = filepath.Dir(o.Out)
 		}
 	}
-	var files []PoolPlotFile
+	drawn := 0
 	for i, t := range rep.Topics {
 		if t.Random == nil {
 			continue
 		}
+		if drawn == o.MaxTopics {
+			leftOut++
+			continue
+		}
+		drawn++
 		for _, f := range []string{PlotSVG, PlotPNG} {
 			files = append(files, PoolPlotFile{Topic: i, Format: f, Path: filepath.Join(dir, prefix+"-"+t.Slug+"."+f)})
 		}
 	}
-	return files
+	return files, leftOut
 }
 
 // WritePoolPlot draws topic t as a forest plot (PoolPlot) in format
@@ -372,10 +426,4 @@ func poolPText(p audit.Number) string {
 		return formatP(float64(p))
 	}
 	return "= " + formatP(float64(p))
-}
-
-// poolMD keeps a text from breaking a Markdown table or starting markup.
-func poolMD(s string) string {
-	r := strings.NewReplacer("|", `\|`, "\n", " ", "\r", " ", "<", "&lt;", ">", "&gt;")
-	return r.Replace(s)
 }

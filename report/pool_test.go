@@ -3,6 +3,8 @@ package report
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
+	"io"
 	"math"
 	"path/filepath"
 	"strings"
@@ -26,7 +28,10 @@ func TestPoolPlotFiles(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			files := PoolPlotFiles(rep, tt.out, tt.dir)
+			files, leftOut := PoolPlotFiles(rep, PoolPlotOptions{Out: tt.out, Dir: tt.dir})
+			if leftOut != 0 {
+				t.Errorf("PoolPlotFiles() left %d topics out, want 0", leftOut)
+			}
 			var got []string
 			for _, f := range files {
 				got = append(got, f.Path)
@@ -38,6 +43,62 @@ func TestPoolPlotFiles(t *testing.T) {
 				t.Errorf("PoolPlotFiles(%q, %q) = %q, want %q", tt.out, tt.dir, got, tt.want)
 			}
 		})
+	}
+}
+
+// TestPoolPlotFilesLimit: at most MaxTopics pooled topics are drawn,
+// DefaultMaxPlotTopics by default; topics not pooled have no plot and do
+// not count.
+func TestPoolPlotFilesLimit(t *testing.T) {
+	rep := &audit.PoolReport{}
+	for i := range 2*DefaultMaxPlotTopics + 1 {
+		tp := audit.TopicPool{Slug: fmt.Sprintf("t%d", i)}
+		if i%2 == 0 { // the odd topics are not pooled
+			tp.Random = &audit.PooledEstimate{}
+		}
+		rep.Topics = append(rep.Topics, tp)
+	}
+	pooled := DefaultMaxPlotTopics + 1
+	tests := []struct {
+		max, wantFiles, wantLeftOut int
+	}{
+		{0, 2 * DefaultMaxPlotTopics, pooled - DefaultMaxPlotTopics},
+		{2, 4, pooled - 2},
+		{pooled, 2 * pooled, 0},
+	}
+	for _, tt := range tests {
+		files, leftOut := PoolPlotFiles(rep, PoolPlotOptions{Dir: "figs", MaxTopics: tt.max})
+		if len(files) != tt.wantFiles || leftOut != tt.wantLeftOut {
+			t.Errorf("PoolPlotFiles(MaxTopics %d) = %d files, %d left out; want %d, %d", tt.max, len(files), leftOut, tt.wantFiles, tt.wantLeftOut)
+		}
+		for _, f := range files {
+			if f.Topic%2 != 0 || f.Topic > 2*DefaultMaxPlotTopics {
+				t.Errorf("PoolPlotFiles(MaxTopics %d) drew topic %d, which is not pooled", tt.max, f.Topic)
+			}
+		}
+	}
+}
+
+// TestWritePoolPlotsNote: every format carries the note on the plots not
+// written.
+func TestWritePoolPlotsNote(t *testing.T) {
+	doc := PoolDocument{PoolReport: writersReport(t), PlotsNote: "Forest plots were drawn for the first 1 pooled topics; 3 more were left out."}
+	for _, tt := range []struct {
+		name  string
+		write func(io.Writer, PoolDocument) error
+		want  string
+	}{
+		{"table", WritePoolTable, doc.PlotsNote},
+		{"markdown", WritePoolMarkdown, doc.PlotsNote},
+		{"json", WritePoolJSON, `"plots_note": "` + doc.PlotsNote + `"`},
+	} {
+		var buf bytes.Buffer
+		if err := tt.write(&buf, doc); err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(buf.String(), tt.want) {
+			t.Errorf("%s lacks %q:\n%s", tt.name, tt.want, buf.String())
+		}
 	}
 }
 
@@ -77,7 +138,7 @@ func writersReport(t *testing.T) *audit.PoolReport {
 func TestWritePoolJSON(t *testing.T) {
 	rep := writersReport(t)
 	var buf bytes.Buffer
-	if err := WritePoolJSON(&buf, rep); err != nil {
+	if err := WritePoolJSON(&buf, PoolDocument{PoolReport: rep}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -130,13 +191,17 @@ func TestWritePoolText(t *testing.T) {
 		write func(*bytes.Buffer, *audit.PoolReport) error
 		want  []string
 	}{
-		{"table", func(b *bytes.Buffer, r *audit.PoolReport) error { return WritePoolTable(b, r) },
+		{"table", func(b *bytes.Buffer, r *audit.PoolReport) error {
+			return WritePoolTable(b, PoolDocument{PoolReport: r})
+		},
 			[]string{"TOPIC BCG | vaccine", "first − second", "Random effects (DL), HKSJ", "t(2) =", "Prediction interval",
 				"Ratio of ratios", "Heterogeneity: Q =", "WITHOUT ROW", "row 30 (X, c): its outcome is incomplete",
 				"TOPIC lonely", "Only 1 claim(s)", "results/pool-bcg-vaccine.svg", "1 claim(s) have no topic"}},
-		{"markdown", func(b *bytes.Buffer, r *audit.PoolReport) error { return WritePoolMarkdown(b, r) },
+		{"markdown", func(b *bytes.Buffer, r *audit.PoolReport) error {
+			return WritePoolMarkdown(b, PoolDocument{PoolReport: r})
+		},
 			[]string{"# Pooled differences", `## BCG \| vaccine`, "| Row | Study |", "### Pooled results", "### Heterogeneity",
-				"### Leave one out", "### Left out", "- Row 30 (X, c):", "## lonely", "## Forest plots", "`results/pool-bcg-vaccine.svg`"}},
+				"### Leave one out", "### Left out", "- Row 30 (X, c):", "## lonely", "## Forest plots", "- results/pool-bcg-vaccine.svg"}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

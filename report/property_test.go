@@ -368,7 +368,7 @@ func propTable(want *audit.Report, doc []byte, fail failFunc) {
 	for i, n := range notes {
 		var w []string
 		for _, note := range want.Claims[i].Notes {
-			w = append(w, terminalText(note))
+			w = append(w, EscapeControls(note))
 		}
 		if strings.Join(n, "\n") != strings.Join(w, "\n") {
 			fail("table", "claim %d notes %q, want %q", i, n, w)

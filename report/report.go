@@ -6,6 +6,7 @@ import (
 	"io"
 	"iter"
 	"slices"
+	"sync"
 
 	"coefaudit/audit"
 	"coefaudit/extract"
@@ -61,7 +62,9 @@ type Writer interface {
 
 // InputWriter is a Writer that also shows the input as it was read (the
 // xlsx workbook keeps the input's sheets): Check hands it each study
-// before the study is audited.
+// before the study is audited. Input is called as the studies are read,
+// in a goroutine of audit.Run's own, but never while Study runs, so that
+// a writer need not be safe for concurrent use.
 type InputWriter interface {
 	Writer
 	Input(st *extract.Study) error
@@ -75,7 +78,10 @@ func Formats() []string { return []string{"table", "json", "csv", "md", "xlsx", 
 
 // New returns the writer of format (one of Formats) writing to w. The
 // writers buffer what they write and flush it by End.
-func New(format string, w io.Writer) (Writer, error) {
+func New(format string, w io.Writer) (Writer, error) { return newWriter(format, w, Options{}) }
+
+// newWriter is New with the settings of Check.
+func newWriter(format string, w io.Writer, o Options) (Writer, error) {
 	switch format {
 	case "table":
 		return newTableWriter(w), nil
@@ -88,7 +94,7 @@ func New(format string, w io.Writer) (Writer, error) {
 	case "html":
 		return newHTMLWriter(w), nil
 	case "xlsx":
-		return newXLSXWriter(w), nil
+		return newXLSXWriter(w, o.TempDir), nil
 	}
 	return nil, fmt.Errorf("%q: %w (want one of %v)", format, ErrFormat, Formats())
 }
@@ -99,6 +105,10 @@ type Options struct {
 	Audit audit.Options
 	// Source names the input in the report; the path when empty.
 	Source string
+	// TempDir is the folder where a writer keeps its temporary files (the
+	// xlsx writer's long sheets), so that a caller can remove them should
+	// the run be cut short; the system's temporary folder when empty.
+	TempDir string
 }
 
 // Check reads the input at path (a workbook, a folder of CSVs or a paired
@@ -109,7 +119,7 @@ type Options struct {
 // report cannot be written; problems with single rows are in the report.
 // Nothing is written to w when the input cannot be opened.
 func Check(path string, w io.Writer, format string, o Options) (audit.Summary, error) {
-	wr, err := New(format, w)
+	wr, err := newWriter(format, w, o)
 	if err != nil {
 		return audit.Summary{}, err
 	}
@@ -138,10 +148,15 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 		return audit.Summary{}, fmt.Errorf("writing the %s report: %w", format, err)
 	}
 	studies := src.Studies()
+	// audit.Run reads the studies in a goroutine of its own: Input (as a
+	// study is read) and Study (as results come back) take turns.
+	var turn sync.Mutex
 	if iw, ok := wr.(InputWriter); ok {
-		studies = showingInput(studies, iw)
+		studies = showingInput(studies, iw, &turn)
 	}
 	sum, err := audit.Run(studies, o.Audit, func(res audit.StudyResult) error {
+		turn.Lock()
+		defer turn.Unlock()
 		if err := wr.Study(res); err != nil {
 			return fmt.Errorf("writing the %s report: %w", format, err)
 		}
@@ -156,12 +171,16 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 	return sum, nil
 }
 
-// showingInput hands each study to iw before it is audited.
-func showingInput(studies iter.Seq2[*extract.Study, error], iw InputWriter) iter.Seq2[*extract.Study, error] {
+// showingInput hands each study to iw before it is audited, holding turn
+// while it does.
+func showingInput(studies iter.Seq2[*extract.Study, error], iw InputWriter, turn *sync.Mutex) iter.Seq2[*extract.Study, error] {
 	return func(yield func(*extract.Study, error) bool) {
 		for st, err := range studies {
 			if err == nil {
-				if err := iw.Input(st); err != nil {
+				turn.Lock()
+				err := iw.Input(st)
+				turn.Unlock()
+				if err != nil {
 					yield(nil, fmt.Errorf("writing the input into the report: %w", err))
 					return
 				}

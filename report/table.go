@@ -6,7 +6,6 @@ import (
 	"io"
 	"strings"
 	"text/tabwriter"
-	"unicode"
 
 	"coefaudit/audit"
 )
@@ -26,7 +25,7 @@ func newTableWriter(w io.Writer) *tableWriter { return &tableWriter{bw: bufio.Ne
 // Begin implements Writer: a title line, since the summary comes last.
 func (t *tableWriter) Begin(h Header) error {
 	t.h = h
-	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", titleOf(h, " in ", terminalText))
+	_, err := fmt.Fprintf(t.bw, "%s; the summary and the cautions follow the claims.\n", titleOf(h, " in ", EscapeControls))
 	return err
 }
 
@@ -40,7 +39,7 @@ func (t *tableWriter) Study(res audit.StudyResult) error {
 	fmt.Fprintln(tw, "\nROW\tSTUDY\tCLAIM\tRELATION\tMETHOD\tDIFFERENCE [CI]\tP\tP RANGE\tPUBLISHED\tRECOMPUTED\tOUTCOME")
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.Row, terminalText(c.Study), terminalText(c.Claim),
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.Row, EscapeControls(c.Study), EscapeControls(c.Claim),
 			dash(c.Relation), dash(c.Method), differenceCell(c), pCell(c.P), pRangeCell(c.PRange),
 			dash(c.Published), dash(c.Recomputed), strings.ToUpper(c.Outcome))
 	}
@@ -50,9 +49,9 @@ func (t *tableWriter) Study(res audit.StudyResult) error {
 	fmt.Fprintln(t.bw, "Notes")
 	for i := range res.Claims {
 		c := &res.Claims[i]
-		fmt.Fprintf(t.bw, "  row %d (%s, %s): %s\n", c.Row, terminalText(c.Study), terminalText(c.Claim), c.Outcome)
+		fmt.Fprintf(t.bw, "  row %d (%s, %s): %s\n", c.Row, EscapeControls(c.Study), EscapeControls(c.Claim), c.Outcome)
 		for _, n := range c.Notes {
-			fmt.Fprintf(t.bw, "    - %s\n", terminalText(n))
+			fmt.Fprintf(t.bw, "    - %s\n", EscapeControls(n))
 		}
 	}
 	return nil
@@ -64,28 +63,13 @@ func (t *tableWriter) End(f Footer) error {
 	if len(problems) > 0 {
 		fmt.Fprintln(t.bw, "\nProblems in the input")
 		for _, p := range problems {
-			fmt.Fprintf(t.bw, "  - %s\n", terminalText(problemText(p)))
+			fmt.Fprintf(t.bw, "  - %s\n", EscapeControls(problemText(p)))
 		}
 	}
-	fmt.Fprintf(t.bw, "\n%s\n", terminalText(summaryLine(t.h.Source, f.Summary, len(problems))))
+	fmt.Fprintf(t.bw, "\n%s\n", EscapeControls(summaryLine(t.h.Source, f.Summary, len(problems))))
 	fmt.Fprintln(t.bw, "\nCautions")
 	for _, c := range t.h.cautions() {
 		fmt.Fprintf(t.bw, "  - %s\n", c)
 	}
 	return t.bw.Flush()
-}
-
-// terminalText keeps text from the input from moving the table's columns
-// or driving the terminal: a tab, line end or other control character
-// (an escape sequence's ESC among them) is shown as a space.
-func terminalText(s string) string {
-	if strings.IndexFunc(s, unicode.IsControl) < 0 {
-		return s
-	}
-	return strings.Map(func(r rune) rune {
-		if unicode.IsControl(r) {
-			return ' '
-		}
-		return r
-	}, s)
 }

@@ -52,10 +52,11 @@ var ErrSheetFull = errors.New("more rows than a worksheet holds")
 // then ignored. A cell the reader could not read is left blank, since no
 // text of it is kept, and its problem is written beside the row.
 type xlsxWriter struct {
-	w  io.Writer
-	f  *excelize.File
-	st *xlsxStyles
-	h  Header
+	w      io.Writer
+	tmpDir string
+	f      *excelize.File
+	st     *xlsxStyles
+	h      Header
 
 	claims, methods *xlsxSheet
 	extra           []string // the claims rows' unknown columns, in the claims sheet
@@ -74,15 +75,17 @@ type xlsxWriter struct {
 	problems heldProblems
 }
 
-func newXLSXWriter(w io.Writer) *xlsxWriter {
-	return &xlsxWriter{w: w, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{}}
+// newXLSXWriter returns the writer; excelize keeps its temporary files in
+// tmpDir (the system's temporary folder when empty).
+func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
+	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{}}
 }
 
 // Begin implements Writer: the workbook, its styles, and the headers of
 // the claims and methods sheets.
 func (x *xlsxWriter) Begin(h Header) error {
 	x.h = h
-	x.f = excelize.NewFile()
+	x.f = excelize.NewFile(excelize.Options{TmpDir: x.tmpDir})
 	st, err := newXLSXStyles(x.f)
 	if err != nil {
 		return fmt.Errorf("xlsx report: %w", err)

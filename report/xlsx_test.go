@@ -194,6 +194,40 @@ func TestWriteXLSXFormulaLikeText(t *testing.T) {
 	}
 }
 
+// TestWriteXLSXFormulaLikeColumnNames: the pass-through columns' names
+// that start like a formula are text cells of the claims and coefficients
+// headers, shown as written, like the values.
+func TestWriteXLSXFormulaLikeColumnNames(t *testing.T) {
+	in := reportInput()
+	for i := range in.Claims {
+		in.Claims[i].Extra = extract.Extra{Names: injectionTexts, Values: injectionTexts}
+	}
+	for i := range in.Coefficients {
+		in.Coefficients[i].Extra = extract.Extra{Names: injectionTexts, Values: injectionTexts}
+	}
+	f := openXLSX(t, writeInput(t, "xlsx", in))
+	for _, sheet := range []string{"claims", "coefficients"} {
+		rows, err := f.GetRows(sheet, excelize.Options{RawCellValue: true})
+		if err != nil || len(rows) == 0 {
+			t.Fatalf("sheet %s: %v", sheet, err)
+		}
+		for _, name := range injectionTexts {
+			c := slices.Index(rows[0], name)
+			if c < 0 {
+				t.Errorf("sheet %s: no header cell reads back as %q (header %q)", sheet, name, rows[0])
+				continue
+			}
+			cell, _ := excelize.CoordinatesToCellName(c+1, 1)
+			if formula, err := f.GetCellFormula(sheet, cell); err != nil || formula != "" {
+				t.Errorf("%s!%s holds formula %q (%v), want none", sheet, cell, formula, err)
+			}
+			if typ, _ := f.GetCellType(sheet, cell); typ != excelize.CellTypeInlineString {
+				t.Errorf("%s!%s (%q) type = %v, want an inline string", sheet, cell, name, typ)
+			}
+		}
+	}
+}
+
 // TestWriteXLSXReadsBack writes the demo's audit as a workbook, reads that
 // workbook as an input and audits it again: the input sheets must carry
 // the input faithfully, so every claim gets the same outcome and p. A
@@ -297,14 +331,13 @@ func TestXLSXSheetFull(t *testing.T) {
 	}
 }
 
-// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
-// has grown past what excelize keeps in memory (16 MB) before End, as a
-// failed run does: Close must remove the temporary file excelize made.
-func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
-	dir := t.TempDir()
-	t.Setenv("TMPDIR", dir)
+// longClaimsSheet begins a workbook whose claims sheet grows past what
+// excelize keeps in memory (16 MB), with excelize's temporary files in
+// tmpDir, and leaves it unfinished.
+func longClaimsSheet(t *testing.T, tmpDir string) *xlsxWriter {
+	t.Helper()
 	rep := tenThousandClaims()
-	wr := newXLSXWriter(io.Discard)
+	wr := newXLSXWriter(io.Discard, tmpDir)
 	if err := wr.Begin(Header{}); err != nil {
 		t.Fatal(err)
 	}
@@ -313,6 +346,16 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	return wr
+}
+
+// TestXLSXCloseRemovesTemporaryFiles stops a workbook whose claims sheet
+// has grown past what excelize keeps in memory (16 MB) before End, as a
+// failed run does: Close must remove the temporary file excelize made.
+func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
+	dir := t.TempDir()
+	t.Setenv("TMPDIR", dir)
+	wr := longClaimsSheet(t, "")
 	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) == 0 {
 		t.Fatal("excelize made no temporary file; the test needs one")
 	}
@@ -321,5 +364,21 @@ func TestXLSXCloseRemovesTemporaryFiles(t *testing.T) {
 	}
 	if m, _ := filepath.Glob(filepath.Join(dir, "*")); len(m) != 0 {
 		t.Errorf("Close left %v", m)
+	}
+}
+
+// TestXLSXTempDir: with a folder for temporary files (Options.TempDir),
+// excelize keeps its long sheets there and nowhere else, so that a run
+// cut short by a signal can remove them with the folder.
+func TestXLSXTempDir(t *testing.T) {
+	system, own := t.TempDir(), t.TempDir()
+	t.Setenv("TMPDIR", system)
+	wr := longClaimsSheet(t, own)
+	defer wr.Close()
+	if m, _ := filepath.Glob(filepath.Join(own, "*")); len(m) == 0 {
+		t.Error("excelize made no temporary file in the writer's folder")
+	}
+	if m, _ := filepath.Glob(filepath.Join(system, "*")); len(m) != 0 {
+		t.Errorf("excelize made temporary files in the system's folder: %v", m)
 	}
 }

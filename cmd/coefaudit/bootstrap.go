@@ -23,6 +23,7 @@ type bootstrapOptions struct {
 	format         string
 	out            string
 	stdout, stderr io.Writer
+	files          *output.Files
 }
 
 // validate checks the flags and fills o.opts from them and the data's
@@ -78,7 +79,7 @@ any number of cores.`,
 			if err := f.validate(args[0]); err != nil {
 				return err
 			}
-			f.stdout, f.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
+			f.stdout, f.stderr, f.files = cmd.OutOrStdout(), cmd.ErrOrStderr(), runFiles(cmd)
 			if runF != nil {
 				return runF(f)
 			}
@@ -111,19 +112,18 @@ func runBootstrap(f *bootstrapOptions) error {
 	if err != nil {
 		return err
 	}
-	t, err := output.Open(f.stdout, f.out, o.Data)
+	t, err := f.files.Open(f.stdout, f.out, o.Data)
 	if err != nil {
-		return flagError{err}
+		return finish(f.files, flagError{err})
 	}
 	write := report.WriteBootstrapTable
 	if f.format == "json" {
 		write = report.WriteBootstrapJSON
 	}
 	if err := write(t, rep); err != nil {
-		t.Abort()
-		return fmt.Errorf("writing the report: %w", err)
+		return finish(f.files, fmt.Errorf("writing the report: %w", err))
 	}
-	return t.Close()
+	return finish(f.files, t.Close())
 }
 
 func splitList(s string) []string {

@@ -96,6 +96,7 @@ type checkOptions struct {
 	input, shown string
 	report       reportOptions
 	stdout       io.Writer
+	files        *output.Files
 }
 
 func newCheckCmd(runF func(*checkOptions) error) *cobra.Command {
@@ -133,7 +134,8 @@ and conflict; indeterminate and incomplete do not fail the run, since they
 mean that what was printed cannot decide the claim: add them with
 --fail-on, or give --fail-on none to exit 0 whatever the outcomes. A
 malformed row is a problem in the report, not an input error: its claim is
-incomplete.
+incomplete. Interrupted (Ctrl-C) or terminated, the run exits with 130 or
+143 and keeps no file it was writing.
 
 The input is audited one study at a time and the report written as it
 goes, so memory holds a study, not the file, and a whole literature of
@@ -153,7 +155,7 @@ to count each study's rows first. The summary follows the claims.`,
 			if err := o.report.validate(); err != nil {
 				return err
 			}
-			o.input, o.shown, o.stdout = args[0], args[0], cmd.OutOrStdout()
+			o.input, o.shown, o.stdout, o.files = args[0], args[0], cmd.OutOrStdout(), runFiles(cmd)
 			if runF != nil {
 				return runF(o)
 			}
@@ -165,23 +167,27 @@ to count each study's rows first. The summary follows the claims.`,
 	return cmd
 }
 
-// runCheck audits the input and writes the report as it goes.
+// runCheck audits the input and writes the report as it goes; a report
+// file is put in place only once it is complete.
 func runCheck(o *checkOptions) error {
-	t, err := output.Open(o.stdout, o.report.out, o.input)
+	t, err := o.files.Open(o.stdout, o.report.out, o.input)
 	if err != nil {
-		return flagError{err}
+		return finish(o.files, flagError{err})
 	}
-	sum, err := report.Check(o.input, t, o.report.format,
-		report.Options{Audit: audit.Options{Adjust: o.report.adjust}, Source: o.shown})
-	if err != nil {
-		t.Abort()
-		return err
+	ro := report.Options{Audit: audit.Options{Adjust: o.report.adjust}, Source: o.shown}
+	if o.report.format == "xlsx" {
+		// excelize keeps long sheets in temporary files: in the run's
+		// folder, so that an interrupted run removes them with it.
+		if ro.TempDir, err = o.files.TempDir(); err != nil {
+			return finish(o.files, err)
+		}
 	}
-	if err := t.Close(); err != nil {
-		return err
+	sum, err := report.Check(o.input, t, o.report.format, ro)
+	if err == nil {
+		err = t.Close()
 	}
-	if flagged(sum, o.report.failOn) {
-		return errFlagged
+	if err == nil && flagged(sum, o.report.failOn) {
+		err = errFlagged
 	}
-	return nil
+	return finish(o.files, err)
 }

@@ -1,6 +1,10 @@
 package main
 
 import (
+	"fmt"
+	"os"
+	"path/filepath"
+
 	"coefaudit/fixtures"
 
 	"github.com/spf13/cobra"
@@ -29,7 +33,7 @@ give. The data are invented for the demonstration; no real study is meant.
 			if err := o.check.report.validate(); err != nil {
 				return err
 			}
-			o.check.stdout = cmd.OutOrStdout()
+			o.check.stdout, o.check.files = cmd.OutOrStdout(), runFiles(cmd)
 			if runF != nil {
 				return runF(o)
 			}
@@ -42,16 +46,30 @@ give. The data are invented for the demonstration; no real study is meant.
 }
 
 // runDemo writes the demo workbook out, or audits it as check does under
-// the demo's own name.
+// the demo's own name, from a copy in the run's temporary folder.
 func runDemo(o *demoOptions) error {
+	files := o.check.files
 	if o.save != "" {
-		return fixtures.SaveDemo(o.save)
+		t, err := files.Create(o.save)
+		if err != nil {
+			return finish(files, flagError{err})
+		}
+		if _, err = t.Write(fixtures.DemoWorkbook); err == nil {
+			err = t.Close()
+		}
+		if err != nil {
+			err = fmt.Errorf("saving the demo workbook: %w", err)
+		}
+		return finish(files, err)
 	}
-	path, cleanup, err := fixtures.DemoFile()
+	dir, err := files.TempDir()
 	if err != nil {
-		return err
+		return finish(files, err)
 	}
-	defer cleanup()
+	path := filepath.Join(dir, fixtures.DemoName)
+	if err := os.WriteFile(path, fixtures.DemoWorkbook, 0o600); err != nil {
+		return finish(files, fmt.Errorf("demo workbook: %w", err))
+	}
 	o.check.input, o.check.shown = path, fixtures.DemoName
 	return runCheck(&o.check)
 }

@@ -241,3 +241,17 @@ func TestCheckXLSXAndHTML(t *testing.T) {
 		t.Errorf("html to standard output: code %d, starts %.30q", code, stdout)
 	}
 }
+
+// TestErrorEscapesControls: an error naming what was typed (a file name
+// holding an escape sequence) reaches the terminal with its control
+// characters shown escaped, as the reports show them.
+func TestErrorEscapesControls(t *testing.T) {
+	missing := filepath.Join(t.TempDir(), "\x1b]0;owned\x07\x1b[2J.xlsx")
+	_, stderr, code := runArgs("check", missing)
+	if code != exitError {
+		t.Fatalf("check of a missing file: code %d", code)
+	}
+	if strings.ContainsAny(stderr, "\x1b\x07") || !strings.Contains(stderr, `\x1b]0;owned\a\x1b[2J.xlsx`) {
+		t.Errorf("stderr = %q, want the file name with its control characters escaped", stderr)
+	}
+}

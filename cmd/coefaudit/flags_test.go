@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"coefaudit/audit"
+	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/report"
 
 	"github.com/spf13/cobra"
 )
@@ -85,9 +87,13 @@ func TestNewPoolCmd(t *testing.T) {
 		want    poolOptions
 		wantErr bool
 	}{
-		{"defaults", []string{"in.xlsx"}, poolOptions{input: "in.xlsx", format: "table", method: audit.PoolREML, level: 95, adjust: audit.AdjustNone}, false},
-		{"every flag", []string{"in.xlsx", "-f", "md", "-o", "pool.md", "--plots", dir, "--method", "dl", "--level", "90", "--adjust", "bh"},
-			poolOptions{input: "in.xlsx", format: "md", out: "pool.md", plots: dir, method: audit.PoolDL, level: 90, adjust: audit.AdjustBH}, false},
+		{"defaults", []string{"in.xlsx"}, poolOptions{input: "in.xlsx", format: "table", maxPlots: report.DefaultMaxPlotTopics,
+			method: audit.PoolREML, level: 95, adjust: audit.AdjustNone}, false},
+		{"every flag", []string{"in.xlsx", "-f", "md", "-o", "pool.md", "--plots", dir, "--max-plots", "5", "--method", "dl", "--level", "90", "--adjust", "bh"},
+			poolOptions{input: "in.xlsx", format: "md", out: "pool.md", plots: dir, maxPlots: 5, method: audit.PoolDL, level: 90, adjust: audit.AdjustBH}, false},
+		{"no plots", []string{"in.xlsx", "--plots", "none"}, poolOptions{input: "in.xlsx", format: "table", plots: "none", maxPlots: report.DefaultMaxPlotTopics,
+			method: audit.PoolREML, level: 95, adjust: audit.AdjustNone}, false},
+		{"max-plots 0", []string{"in.xlsx", "--max-plots", "0"}, poolOptions{}, true},
 		{"csv", []string{"in.xlsx", "--format", "csv"}, poolOptions{}, true},
 		{"method", []string{"in.xlsx", "--method", "pm"}, poolOptions{}, true},
 		{"level 100", []string{"in.xlsx", "--level", "100"}, poolOptions{}, true},
@@ -107,7 +113,7 @@ func TestNewPoolCmd(t *testing.T) {
 				t.Fatalf("pool %q: %v", tt.args, err)
 			}
 			got := *o
-			got.stdout = nil
+			got.stdout, got.files = nil, nil
 			if got != tt.want {
 				t.Errorf("pool %q options = %+v, want %+v", tt.args, got, tt.want)
 			}
@@ -120,7 +126,7 @@ func TestNewPoolCmd(t *testing.T) {
 func TestCheckRunWritesNothingForAnUnreadableInput(t *testing.T) {
 	dir := t.TempDir()
 	var stdout bytes.Buffer
-	o := &checkOptions{input: filepath.Join(dir, "missing.csv"), shown: "missing.csv", stdout: &stdout,
+	o := &checkOptions{input: filepath.Join(dir, "missing.csv"), shown: "missing.csv", stdout: &stdout, files: output.NewFiles(),
 		report: reportOptions{format: "json", out: filepath.Join(dir, "out.json"), adjust: audit.AdjustNone}}
 	if err := runCheck(o); err == nil {
 		t.Fatal("runCheck(missing input): no error")

@@ -18,10 +18,13 @@ type poolOptions struct {
 	format string
 	out    string
 	plots  string
-	method string
-	level  float64
-	adjust string
-	stdout io.Writer
+	// maxPlots is how many pooled topics get forest plots.
+	maxPlots int
+	method   string
+	level    float64
+	adjust   string
+	stdout   io.Writer
+	files    *output.Files
 }
 
 func (o *poolOptions) validate() error {
@@ -42,27 +45,33 @@ func (o *poolOptions) validate() error {
 	if err := (&reportOptions{format: "table", adjust: o.adjust}).validate(); err != nil {
 		return err
 	}
-	if o.plots != "" {
+	if o.plots != "" && o.plots != plotsNone {
 		if st, err := os.Stat(o.plots); err != nil || !st.IsDir() {
-			return flagErrorf("--plots %s: not an existing folder", o.plots)
+			return flagErrorf("--plots %s: not an existing folder (or none)", o.plots)
 		}
+	}
+	if o.maxPlots < 1 {
+		return flagErrorf("--max-plots %d: want at least 1 (--plots none draws none)", o.maxPlots)
 	}
 	return nil
 }
 
+// plotsNone is the --plots value that draws no forest plot.
+const plotsNone = "none"
+
 // writer picks the report writer for the format.
-func (o *poolOptions) writer() func(*output.Target, *audit.PoolReport) error {
+func (o *poolOptions) writer() func(io.Writer, report.PoolDocument) error {
 	switch o.format {
 	case "json":
-		return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolJSON(t, r) }
+		return report.WritePoolJSON
 	case "md":
-		return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolMarkdown(t, r) }
+		return report.WritePoolMarkdown
 	}
-	return func(t *output.Target, r *audit.PoolReport) error { return report.WritePoolTable(t, r) }
+	return report.WritePoolTable
 }
 
 func newPoolCmd(runF func(*poolOptions) error) *cobra.Command {
-	o := &poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level}
+	o := &poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level, maxPlots: report.DefaultMaxPlotTopics}
 	cmd := &cobra.Command{
 		Use:   "pool INPUT",
 		Short: "Pool the differences of claims that share a topic across studies",
@@ -82,11 +91,14 @@ measure or scale differs from most of the topic's claims are listed as left
 out, with the reason. If REML does not converge, the topic is refitted with
 DerSimonian-Laird and the report says so.
 
-With --out, a forest plot of every pooled topic is written beside the
+With --out FILE, a forest plot of each pooled topic is written beside the
 report as SVG and PNG: --out results/pool.md gives
-results/pool-<topic>.svg and results/pool-<topic>.png. Without --out,
-plots are written only into the folder given by --plots. The report lists
-the files written.`,
+results/pool-<topic>.svg and results/pool-<topic>.png. --plots DIR writes
+them into DIR instead; without --out, or when --out is not a regular file
+(-, a device, a FIFO), they are written only there. --plots none writes
+none. At most the first --max-plots pooled topics are drawn (200 by
+default); the report lists the files written and says which were not.
+All files are put in place together, once the report is complete.`,
 		Example: `  coefaudit pool review.xlsx
   coefaudit pool review.xlsx --format md --out results/pool.md
   coefaudit pool extracted/ --method dl --level 90 --plots figures/
@@ -96,7 +108,7 @@ the files written.`,
 			if err := o.validate(); err != nil {
 				return err
 			}
-			o.input, o.stdout = args[0], cmd.OutOrStdout()
+			o.input, o.stdout, o.files = args[0], cmd.OutOrStdout(), runFiles(cmd)
 			if runF != nil {
 				return runF(o)
 			}
@@ -104,8 +116,9 @@ the files written.`,
 		},
 	}
 	cmd.Flags().StringVarP(&o.format, "format", "f", "table", "output format: table, json or md")
-	cmd.Flags().StringVarP(&o.out, "out", "o", "", "write the report to this file (and the forest plots beside it)")
-	cmd.Flags().StringVar(&o.plots, "plots", "", "write the forest plots into this existing folder")
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "write the report to this file (and the forest plots beside it, if it is a regular file)")
+	cmd.Flags().StringVar(&o.plots, "plots", "", "write the forest plots into this existing folder, or none")
+	cmd.Flags().IntVar(&o.maxPlots, "max-plots", report.DefaultMaxPlotTopics, "draw forest plots for at most this many pooled topics, the first in the report")
 	cmd.Flags().StringVar(&o.method, "method", o.method, "estimator of the between-study variance τ²: reml or dl")
 	cmd.Flags().Float64Var(&o.level, "level", o.level, "confidence level of every interval, in percent")
 	cmd.Flags().StringVar(&o.adjust, "adjust", audit.DefaultOptions.Adjust, "multiplicity adjustment deciding the claims' outcomes: none, holm or bh")
@@ -113,42 +126,70 @@ the files written.`,
 }
 
 // runPool pools input, writes the forest plots and then the report, which
-// lists the plots written.
+// lists the plots written. The plots and the report are put in place
+// together, once all are complete.
 func runPool(o *poolOptions) error {
 	rep, err := report.PoolInput(o.input, report.Options{Audit: audit.Options{Adjust: o.adjust}},
 		audit.PoolOptions{Method: o.method, Level: o.level / 100})
 	if err != nil {
-		return err
+		return finish(o.files, err)
 	}
 	// The report's target is opened first, so that a bad --out stops the
 	// run before any plot is written.
-	t, err := output.Open(o.stdout, o.out, o.input)
+	t, err := o.files.Open(o.stdout, o.out, o.input)
 	if err != nil {
-		return flagError{err}
+		return finish(o.files, flagError{err})
 	}
-	for _, f := range report.PoolPlotFiles(rep, o.out, o.plots) {
+	po := report.PoolPlotOptions{Dir: o.plots, MaxTopics: o.maxPlots}
+	if t.Regular() {
+		po.Out = o.out
+	}
+	var files []report.PoolPlotFile
+	leftOut := 0
+	if o.plots != plotsNone {
+		files, leftOut = report.PoolPlotFiles(rep, po)
+	}
+	for _, f := range files {
 		if err := writePlot(o, rep, f); err != nil {
-			t.Abort()
-			return err
+			return finish(o.files, err)
 		}
 		rep.Plots = append(rep.Plots, f.Path)
 	}
-	if err := o.writer()(t, rep); err != nil {
-		t.Abort()
-		return fmt.Errorf("writing the report: %w", err)
+	doc := report.PoolDocument{PoolReport: rep, PlotsNote: o.plotsNote(po, leftOut)}
+	if err := o.writer()(t, doc); err != nil {
+		return finish(o.files, fmt.Errorf("writing the report: %w", err))
 	}
-	return t.Close()
+	return finish(o.files, t.Close())
+}
+
+// plotsNote says which forest plots were not written and why, or nothing
+// when every plot asked for was.
+func (o *poolOptions) plotsNote(po report.PoolPlotOptions, leftOut int) string {
+	switch {
+	case o.plots == plotsNone:
+		return "No forest plots were drawn (--plots none)."
+	case o.out != "" && po.Out == "" && po.Dir == "":
+		where := "standard output"
+		if o.out != "-" {
+			where = o.out + ", which is not a regular file"
+		}
+		return fmt.Sprintf("No forest plots were written: the report goes to %s, with no folder beside it for them; give --plots DIR to write them into DIR.", where)
+	case leftOut == 1:
+		return fmt.Sprintf("Forest plots were drawn for the first %d pooled topics; 1 more was left out. Give --max-plots to draw more, or pool an input holding only the topics to draw.", po.MaxTopics)
+	case leftOut > 1:
+		return fmt.Sprintf("Forest plots were drawn for the first %d pooled topics; %d more were left out. Give --max-plots to draw more, or pool an input holding only the topics to draw.", po.MaxTopics, leftOut)
+	}
+	return ""
 }
 
 // writePlot writes one forest plot through the same safe writer as the
-// report: never over the input, renamed into place when complete.
+// report: never over the input, put in place with the report.
 func writePlot(o *poolOptions, rep *audit.PoolReport, f report.PoolPlotFile) error {
-	t, err := output.Open(o.stdout, f.Path, o.input)
+	t, err := o.files.Open(o.stdout, f.Path, o.input)
 	if err != nil {
 		return flagError{err}
 	}
 	if err := report.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f.Format); err != nil {
-		t.Abort()
 		return fmt.Errorf("writing %s: %w", f.Path, err)
 	}
 	return t.Close()

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 	"testing"
 )
 
@@ -218,4 +219,97 @@ func TestPoolCommandFlagErrors(t *testing.T) {
 		})
 	}
 	checkUnchanged(t, in, files)
+}
+
+// TestPoolPlotsWhere: plots go beside --out only when --out is a regular
+// file, wherever --plots says, never when --plots is none, and for at
+// most --max-plots topics; the report says why plots are missing. Before
+// this, --out - wrote plots named after "-" into the current folder and
+// --out FIFO wrote them beside the FIFO (--out /dev/null: into /dev).
+func TestPoolPlotsWhere(t *testing.T) {
+	kacker, _ := writeKackerInput(t) // one pooled topic
+	three := manyTopicsCSV(t, 3)     // three pooled topics
+	fifoReport := func(t *testing.T, dir string) (string, <-chan string) {
+		t.Helper()
+		fifo := filepath.Join(dir, "report.md")
+		if err := syscall.Mkfifo(fifo, 0o600); err != nil {
+			t.Skipf("cannot make a FIFO here: %v", err)
+		}
+		got := make(chan string, 1)
+		go func() {
+			b, _ := os.ReadFile(fifo)
+			got <- string(b)
+		}()
+		return fifo, got
+	}
+	tests := []struct {
+		name string
+		// args builds the arguments in the test's folders: dir holds the
+		// report, plots is a folder of its own.
+		args func(t *testing.T, dir, plots string) (args []string, report <-chan string)
+		// dirFiles and plotFiles are how many files dir and plots hold
+		// afterwards, the report among them.
+		dirFiles, plotFiles int
+		note                string
+	}{
+		{"standard output", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			t.Chdir(dir)
+			return []string{kacker, "--format", "md", "--out", "-"}, nil
+		}, 0, 0, "No forest plots were written: the report goes to standard output"},
+		{"a FIFO", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			fifo, got := fifoReport(t, dir)
+			return []string{kacker, "--format", "md", "--out", fifo}, got
+		}, 1, 0, "which is not a regular file"},
+		{"a FIFO with --plots", func(t *testing.T, dir, plots string) ([]string, <-chan string) {
+			fifo, got := fifoReport(t, dir)
+			return []string{kacker, "--format", "md", "--out", fifo, "--plots", plots}, got
+		}, 1, 2, ""},
+		{"--plots none", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			return []string{kacker, "--format", "md", "--out", filepath.Join(dir, "pool.md"), "--plots", "none"}, nil
+		}, 1, 0, "No forest plots were drawn (--plots none)."},
+		{"--max-plots", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			return []string{three, "--format", "md", "--out", filepath.Join(dir, "pool.md"), "--max-plots", "2"}, nil
+		}, 1 + 2*2, 0, "Forest plots were drawn for the first 2 pooled topics; 1 more was left out"},
+		{"beside a file", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			return []string{three, "--format", "md", "--out", filepath.Join(dir, "pool.md")}, nil
+		}, 1 + 3*2, 0, ""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			dir, plots := t.TempDir(), t.TempDir()
+			args, fifo := tt.args(t, dir, plots)
+			stdout, err := executePool(t, args...)
+			if err != nil {
+				t.Fatalf("pool %q: %v", args, err)
+			}
+			doc := stdout
+			if fifo != nil {
+				doc = <-fifo
+			}
+			if doc == "" {
+				doc = readFile(t, filepath.Join(dir, "pool.md"))
+			}
+			if got := dirNames(t, dir); len(got) != tt.dirFiles {
+				t.Errorf("pool %q: the report's folder holds %q, want %d files", args, got, tt.dirFiles)
+			}
+			if got := dirNames(t, plots); len(got) != tt.plotFiles {
+				t.Errorf("pool %q: the plots folder holds %q, want %d files", args, got, tt.plotFiles)
+			}
+			if tt.note != "" && !strings.Contains(doc, tt.note) {
+				t.Errorf("pool %q: the report lacks %q:\n%s", args, tt.note, doc)
+			}
+			if tt.note == "" && strings.Contains(doc, "No forest plots") {
+				t.Errorf("pool %q: the report says plots are missing:\n%s", args, doc)
+			}
+		})
+	}
+}
+
+func readFile(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
 }

@@ -9,7 +9,8 @@ import (
 
 // templateOptions are what the template command runs with.
 type templateOptions struct {
-	path string
+	path  string
+	files *output.Files
 }
 
 func newTemplateCmd(runF func(*templateOptions) error) *cobra.Command {
@@ -25,7 +26,7 @@ not overwritten.`,
 		Example: `  coefaudit template review.xlsx`,
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			o.path = args[0]
+			o.path, o.files = args[0], runFiles(cmd)
 			if runF != nil {
 				return runF(o)
 			}
@@ -37,13 +38,12 @@ not overwritten.`,
 
 // runTemplate writes the blank workbook, never over an existing file.
 func runTemplate(o *templateOptions) error {
-	t, err := output.Create(o.path)
+	t, err := o.files.Create(o.path)
 	if err != nil {
-		return flagError{err}
+		return finish(o.files, flagError{err})
 	}
-	if err := extract.WriteTemplate(t); err != nil {
-		t.Abort()
-		return err
+	if err = extract.WriteTemplate(t); err == nil {
+		err = t.Close()
 	}
-	return t.Close()
+	return finish(o.files, err)
 }

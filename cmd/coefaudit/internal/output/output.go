@@ -32,14 +32,25 @@ var ErrNotWritable = errors.New("not a file that a report can be written to")
 const maxSymlinks = 40
 
 // Target is where a report goes. Write to it, then Close to finish or
-// Abort to throw a half-written file away.
+// Abort to throw a half-written file away. A Target of a run's Files is
+// renamed into place by Files.Commit, with the run's other files.
 type Target struct {
-	w     io.Writer
-	tmp   *os.File // a regular file being written under a temporary name
-	dest  string   // where tmp is renamed to
-	mode  fs.FileMode
-	keep  bool     // dest existed: give tmp its mode
-	inPos *os.File // a non-regular destination opened in place
+	w      io.Writer
+	tmp    *os.File // a regular file being written under a temporary name
+	dest   string   // where tmp is renamed to
+	mode   fs.FileMode
+	keep   bool     // dest existed: give tmp its mode
+	inPos  *os.File // a non-regular destination opened in place
+	files  *Files   // the run's files this Target belongs to, if any
+	sealed bool     // closed by its run, waiting for Files.Commit
+}
+
+// name is the file the Target writes, for messages.
+func (t *Target) name() string {
+	if t.inPos != nil {
+		return t.inPos.Name()
+	}
+	return t.dest
 }
 
 // Write implements io.Writer.
@@ -158,12 +169,32 @@ func createTemp(shown, real string, mode fs.FileMode, keep bool) (*Target, error
 	return nil, fmt.Errorf("cannot write %s: no free temporary name beside it", shown)
 }
 
+// Regular reports whether the target is a regular file, written under a
+// temporary name and renamed into place, beside which other files may be
+// written; false for standard output, a device or a FIFO.
+func (t *Target) Regular() bool { return t.tmp != nil }
+
 // Close finishes the output: for a regular file, syncs and renames it into
-// place; for a destination written in place, closes it.
+// place; for a destination written in place, closes it. A Target opened
+// through Files is only synced and closed under its temporary name: Commit
+// renames it.
 func (t *Target) Close() error {
+	if t.files != nil {
+		return t.files.seal(t)
+	}
+	if err := t.seal(); err != nil {
+		return err
+	}
+	return t.rename()
+}
+
+// seal closes the file: a destination written in place for good, a
+// temporary file after giving it its mode and syncing it. A temporary file
+// that cannot be sealed is removed.
+func (t *Target) seal() error {
 	if t.inPos != nil {
 		if err := t.inPos.Close(); err != nil {
-			return fmt.Errorf("writing %s: %w", t.inPos.Name(), err)
+			return fmt.Errorf("writing %s: %w", t.name(), err)
 		}
 		return nil
 	}
@@ -188,6 +219,15 @@ func (t *Target) Close() error {
 		os.Remove(name)
 		return fmt.Errorf("writing %s: %w", t.dest, err)
 	}
+	return nil
+}
+
+// rename moves a sealed temporary file into place.
+func (t *Target) rename() error {
+	if t.tmp == nil {
+		return nil
+	}
+	name := t.tmp.Name()
 	if err := os.Rename(name, t.dest); err != nil {
 		os.Remove(name)
 		return fmt.Errorf("writing %s: %w", t.dest, err)
