@@ -68,20 +68,21 @@ func NormalCriticalValue(level float64) (float64, error) {
 var z95 = -unitNormal.Quantile((1 - 0.95) / 2)
 
 // StudentTTwoSidedP returns the two-sided p-value of a Student t statistic
-// with df degrees of freedom, 2 P(T_df > |t|). An infinite df gives the
-// normal value. It is the regularized incomplete beta function
+// with df degrees of freedom, 2 P(T_df > |t|). It is the regularized
+// incomplete beta function
 //
 //	p = I_x(df/2, 1/2),  x = df/(df + t²) = u²/(1 + u²),  u = √df/|t|,
 //
 // (Abramowitz & Stegun 1964, 26.7.1 and 26.5.27), with x formed from u so
 // that t² cannot overflow: p stays accurate down to the smallest normal
-// doubles (p = 6.4e-300 at t = 1e299 with df = 1).
+// doubles (p = 6.4e-300 at t = 1e299 with df = 1). Where df is large
+// enough for the Cornish–Fisher series to give t from the normal quantile
+// to double precision, p is the normal tail of the inverted series, and
+// where the t and the normal agree to double precision it is the normal
+// tail (tlarge.go); an infinite df is the normal.
 func StudentTTwoSidedP(t, df float64) (float64, error) {
 	if !(df > 0) {
 		return math.NaN(), fmt.Errorf("t test with df %v: %w", df, ErrDegreesOfFreedom)
-	}
-	if math.IsInf(df, 1) {
-		return NormalTwoSidedP(t), nil
 	}
 	switch at := math.Abs(t); {
 	case math.IsNaN(t):
@@ -90,6 +91,10 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 		return 1, nil
 	case math.IsInf(at, 1):
 		return 0, nil
+	case normalLimit(at, df):
+		return NormalTwoSidedP(at), nil
+	case cornishFisherConverged(at, df):
+		return NormalTwoSidedP(normalDeviate(at, df)), nil
 	default:
 		u := math.Sqrt(df) / at
 		if u < 1e-100 {
@@ -101,6 +106,11 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 			lh, _ := math.Lgamma(0.5)
 			lab, _ := math.Lgamma(a + 0.5)
 			return math.Exp(a*2*math.Log(u) - math.Log(a) - (lb + lh - lab)), nil
+		}
+		if tailUnderflows(u, df) {
+			// So that the incomplete beta never sees a df beyond about
+			// 3e6, where it is off, with p far below any double.
+			return 0, nil
 		}
 		x := u * u / (1 + u*u)
 		if x > df/(df+1) {
@@ -120,7 +130,10 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 // functions invert each other to the tail function's own accuracy, down to
 // p = 1e-300. gonum's StudentsT.Quantile is used only if that iteration
 // fails to settle: in the far tail it is wrong (at df = 1000 and p = 1e-20
-// it gives 3.0e9 for 9.546).
+// it gives 3.0e9 for 9.546). Where df is large enough, t is the
+// Cornish–Fisher series in the normal quantile, or the normal quantile
+// itself where the two agree to double precision (tlarge.go); an infinite
+// df is the normal.
 func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if !(p > 0 && p <= 1) {
 		return math.NaN(), fmt.Errorf("two-sided p %v: %w", p, ErrProbability)
@@ -128,8 +141,12 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if !(df > 0) {
 		return math.NaN(), fmt.Errorf("t quantile with df %v: %w", df, ErrDegreesOfFreedom)
 	}
-	if math.IsInf(df, 1) {
-		return NormalZFromTwoSidedP(p)
+	z := -unitNormal.Quantile(p / 2)
+	switch {
+	case normalLimit(z, df):
+		return z, nil
+	case cornishFisherConverged(z, df):
+		return cornishFisher(z, df), nil
 	}
 	q, ok := studentTQuantile(p, df)
 	if !ok {

@@ -38,9 +38,7 @@ func studentTQuantile(p, df float64) (float64, bool) {
 	// The tail start, in logs so that p = 1e-300 does not overflow t.
 	tail := math.Exp((math.Ln2 + logC + (df+1)/2*math.Log(df) - math.Log(df) - logP) / df)
 	z := -unitNormal.Quantile(p / 2)
-	z2 := z * z
-	cf := z * (1 + (z2+1)/(4*df) + ((5*z2+16)*z2+3)/(96*df*df) +
-		(((3*z2+19)*z2+17)*z2-15)/(384*df*df*df))
+	cf := cornishFisher(z, df)
 	// The Cornish–Fisher start is taken unless it is off by more than 10%
 	// in p (small df, far tail) and the tail start is nearer; its tail
 	// value then serves the first step.
