@@ -1,6 +1,7 @@
 package infer
 
 import (
+	"errors"
 	"math"
 	"testing"
 )
@@ -120,15 +121,15 @@ func TestStudentTNormalLimit(t *testing.T) {
 	}
 }
 
-// TestStudentTTailFallsWithDF checks, from df = 1 to an infinite df and
-// from the centre to t = 1e300, that the two-sided p is a probability and
-// never rises with df, nor falls below the normal's: the tail of |T| falls
-// as df grows, to the normal's (Ghosh 1973, JRSS B 35:480). Each
+// TestStudentTTailFallsWithDF checks, from df = 1e-320 to an infinite df
+// and from the centre to t = 1e300, that the two-sided p is a probability
+// and never rises with df, nor falls below the normal's: the tail of |T|
+// falls as df grows, to the normal's (Ghosh 1973, JRSS B 35:480). Each
 // comparison allows 1e-12 relative, the tail function's accuracy, and
 // 1e-300 absolute, below which no accuracy is claimed (the incomplete beta
 // gives 0 for p near 1e-316).
 func TestStudentTTailFallsWithDF(t *testing.T) {
-	dfs := []float64{1, 1.5, 2, 3, 10, 30, 100, 1e3, 3e3, 1e4, 3e4, 1e5, 3e5, 1e6, 2.5e6, 3e6, 1e7,
+	dfs := []float64{1e-320, 1e-300, 1e-100, 1e-20, 1e-10, 1e-3, 0.01, 0.1, 0.5, 1, 1.5, 2, 3, 10, 30, 100, 1e3, 3e3, 1e4, 3e4, 1e5, 3e5, 1e6, 2.5e6, 3e6, 1e7,
 		1e8, 1e10, 1e12, 1e13, 1e14, 1e15, 2e15, 5e15, 1e16, 3e16, 1e17, 1e18, 1e20, 1e50, 1e100, 1e300, math.Inf(1)}
 	for _, x := range []float64{0.01, 0.3, 1, 1.96, 3, 5, 10, 20, 37, 38.5, 40, 100, 1e3, 1e10, 1e100, 1e300} {
 		prev := 1.0
@@ -146,5 +147,33 @@ func TestStudentTTailFallsWithDF(t *testing.T) {
 			}
 			prev = p
 		}
+	}
+}
+
+// TestStudentTTinyDF checks the quantile at df down to the smallest
+// subnormal: it is either finite and gives p back, or refused with
+// ErrQuantileRange where the tail at the largest double is still above p,
+// so that the quantile is indeed beyond it; nothing panics. A df whose half
+// is 0 is refused as not positive.
+func TestStudentTTinyDF(t *testing.T) {
+	for _, df := range []float64{1e-320, 1e-300, 1e-100, 1e-10, 1e-3, 4e-3, 0.01, 0.1, 0.5} {
+		for _, p := range []float64{1, 0.9, 0.05, 1e-10} {
+			q, err := StudentTFromTwoSidedP(p, df)
+			if err != nil {
+				if top, _ := StudentTTwoSidedP(math.MaxFloat64, df); !errors.Is(err, ErrQuantileRange) || !(top > p) {
+					t.Errorf("StudentTFromTwoSidedP(%v, %v) = %v, %v; the tail at the largest double is %v", p, df, q, err, top)
+				}
+				continue
+			}
+			if back, _ := StudentTTwoSidedP(q, df); math.IsInf(q, 0) || relErr(back, p) > 1e-12 {
+				t.Errorf("StudentTTwoSidedP(StudentTFromTwoSidedP(%v, %v) = %v) = %v", p, df, q, back)
+			}
+		}
+	}
+	if p, err := StudentTTwoSidedP(1, 5e-324); !errors.Is(err, ErrDegreesOfFreedom) {
+		t.Errorf("StudentTTwoSidedP(1, 5e-324) = %v, %v; want ErrDegreesOfFreedom", p, err)
+	}
+	if q, err := StudentTCriticalValue(0.95, 5e-324); !errors.Is(err, ErrDegreesOfFreedom) {
+		t.Errorf("StudentTCriticalValue(0.95, 5e-324) = %v, %v; want ErrDegreesOfFreedom", q, err)
 	}
 }
