@@ -167,7 +167,7 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if !(q < math.Inf(1)) {
 		// The tail falls as t^−df, so below df ≈ −log p / 709 the
 		// quantile is beyond the largest double.
-		return math.NaN(), fmt.Errorf("t quantile at p %v with df %v: %w", p, df, ErrQuantileRange)
+		return math.NaN(), fmt.Errorf("t quantile at p %.3g with df %v: %w", p, df, ErrQuantileRange)
 	}
 	return q, nil
 }
