@@ -1,18 +1,15 @@
 package audit
 
 import (
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
-
-	"coefaudit/extract"
 )
 
 // TestAuditStudyTinySample follows an n of 2 from a paired CSV through
-// extract.Open and AuditStudy. A mean difference's interval with n = 2
-// would need a t quantile with n − 2 = 0 df, which does not exist (Student
-// 1908): the claim is incomplete and its note says why, naming n. With the
+// extract.Open, Run and so AuditStudy (runFile). A mean difference's
+// interval with n = 2 would need a t quantile with n − 2 = 0 df, which does
+// not exist (Student 1908): the claim is incomplete and its note says why,
+// naming n. With the
 // SE printed no quantile is needed: the claim is tested (two independent
 // estimates, z = (0.50 − 0.10)/√(0.10² + 0.10²) = 2.83, p = 0.0047 < 0.05,
 // so "differ" is consistent) and the notes warn about the n.
@@ -20,21 +17,10 @@ func TestAuditStudyTinySample(t *testing.T) {
 	const text = "study,claim,published,measure,first_label,first_group,first_estimate,first_ci,first_se,first_n,second_label,second_group,second_estimate,second_se\n" +
 		"S,interval,differ,md,a,girls,0.50,0.10 to 0.90,,2,b,boys,0.10,0.10\n" +
 		"S,printed se,differ,md,c,girls,0.50,,0.10,2,d,boys,0.10,0.10\n"
-	path := filepath.Join(t.TempDir(), "paired.csv")
-	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	src, err := extract.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer src.Close()
+	runs, _ := runFile(t, text, DefaultOptions)
 	got := map[string]ClaimResult{}
-	for st, err := range src.Studies() {
-		if err != nil {
-			t.Fatal(err)
-		}
-		for _, c := range AuditStudy(st, DefaultOptions).Claims {
+	for _, run := range runs {
+		for _, c := range run.Claims {
 			got[c.Claim] = c
 		}
 	}

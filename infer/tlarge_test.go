@@ -56,24 +56,12 @@ var studentTLargeDFReference = [][3]float64{
 // has not converged (t²/df = 1.4e-3) and the incomplete beta, good there to
 // about 2e-10 in p, is still used.
 func TestStudentTLargeDFAgainstReference(t *testing.T) {
-	for _, r := range studentTLargeDFReference {
-		df, p, tt := r[0], r[1], r[2]
-		tol := 1e-12
+	checkStudentTReference(t, studentTLargeDFReference, func(df, p float64) float64 {
 		if df == 1e6 && p == 1e-300 {
-			tol = 5e-10
+			return 5e-10
 		}
-		gotP, err1 := StudentTTwoSidedP(tt, df)
-		gotT, err2 := StudentTFromTwoSidedP(p, df)
-		if err1 != nil || err2 != nil {
-			t.Fatalf("df %v, p %v: %v, %v", df, p, err1, err2)
-		}
-		if e := relErr(gotP, p); e > tol {
-			t.Errorf("StudentTTwoSidedP(%v, %v) = %v, want %v (relative error %.2g)", tt, df, gotP, p, e)
-		}
-		if e := relErr(gotT, tt); e > tol {
-			t.Errorf("StudentTFromTwoSidedP(%v, %v) = %v, want %v (relative error %.2g)", p, df, gotT, tt, e)
-		}
-	}
+		return 1e-12
+	})
 }
 
 // TestStudentTNormalLimit checks the t at df from 1e6 to 1e300 and at an
