@@ -159,7 +159,7 @@ func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	case cornishFisherConverged(z, df):
 		return cornishFisher(z, df), nil
 	}
-	q, ok := studentTQuantile(p, df)
+	q, ok := studentTQuantile(p, z, df)
 	if !ok {
 		st := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}
 		q = -st.Quantile(p / 2)
