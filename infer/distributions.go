@@ -14,7 +14,8 @@ import (
 var ErrDegreesOfFreedom = errors.New("degrees of freedom must be positive")
 
 // ErrQuantileRange is returned when a t quantile is beyond the largest
-// double, which happens only at tiny df (0.001 for a 95% interval).
+// double, which happens only at tiny df (below about 0.004 for a 95%
+// interval).
 var ErrQuantileRange = errors.New("degrees of freedom too small for a finite t quantile")
 
 // ErrProbability is returned when a probability or level lies outside (0, 1).
@@ -114,8 +115,8 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 			return math.Min(1, math.Exp(a*logU2-math.Log(a)-(lb+lh-lab))), nil
 		}
 		if tailUnderflows(u, df) {
-			// So that the incomplete beta never sees a df beyond about
-			// 3e6, where it is off, with p far below any double.
+			// So that the incomplete beta never sees a df beyond 2.4e6,
+			// where it is off, with p far below any double.
 			return 0, nil
 		}
 		x := u * u / (1 + u*u)
