@@ -137,14 +137,6 @@ func csvRecords(text string, delim rune) (rows []int, ok bool) {
 // message starts with that position.
 func checkPlaced(t *testing.T, p *CellError, file string, row int) {
 	t.Helper()
-	checkPlacedIn(t, p, file, row, true)
-}
-
-// checkPlacedIn is checkPlaced that, when cellColumn is false, accepts a
-// cell's problem placed by its row alone (the key rows of a correlation
-// table, "n | 100", have no column head to name).
-func checkPlacedIn(t *testing.T, p *CellError, file string, row int, cellColumn bool) {
-	t.Helper()
 	if p == nil || p.Err == nil {
 		t.Fatalf("a nil problem or a problem without an error: %#v", p)
 	}
@@ -158,7 +150,7 @@ func checkPlacedIn(t *testing.T, p *CellError, file string, row int, cellColumn 
 		t.Errorf("problem %q does not start with its position %q", p.Error(), p.Position.String())
 	}
 	var pe *ParseError
-	if errors.As(p.Err, &pe) && p.Column == "" && (cellColumn || p.Row < 1) {
+	if errors.As(p.Err, &pe) && p.Column == "" {
 		t.Errorf("problem %q is about a cell (%q) but names no column", p.Error(), pe.Text)
 	}
 }
@@ -285,7 +277,7 @@ func FuzzReadTable(f *testing.F) {
 			return
 		}
 		for _, p := range tb.Problems {
-			checkPlacedIn(t, p, name, 0, false)
+			checkPlaced(t, p, name, 0)
 		}
 		k := len(tb.Variables)
 		if k == 0 {

@@ -232,3 +232,92 @@ func TestBrokenDuplicateLabels(t *testing.T) {
 		t.Errorf("row 4 problems:%s, want %q", problemTexts(in.Coefficients[2].Problems), want)
 	}
 }
+
+// TestBrokenCounts puts an n or df that is not a finite positive number in
+// each place one is read: the coefficients sheet's df and n, a paired row's
+// first_df and second_n, the correlations sheet's n, and a correlation
+// table's n column and key row. Each must be a problem naming its row and
+// column (a key row's column is its key, "n"), and the value must not be
+// kept.
+func TestBrokenCounts(t *testing.T) {
+	const claims = "study,claim,first,second,published\ns,c1,a,b,differ\n"
+	// A correlation table with a key row "n" when keyN is given.
+	tableWith := func(keyN, nCell string) []byte {
+		key := ""
+		if keyN != "" {
+			key = "n,\"" + keyN + "\"\n"
+		}
+		return []byte(key + "variable,n,1,2\n1. A,\"" + nCell + "\",—,\n2. B,50,.45,—\n")
+	}
+	type reading struct {
+		file, column string
+		row          int
+		files        func(v string) map[string][]byte
+		value        func(in *Input) Printed // the value read, which must be Absent
+	}
+	places := []reading{
+		{"coefficients.csv", "df", 2, func(v string) map[string][]byte {
+			return map[string][]byte{"claims.csv": []byte(claims), "coefficients.csv": []byte("study,label,measure,estimate,se,df,n\ns,a,b,0.5,0.1,\"" + v + "\",40\n")}
+		}, func(in *Input) Printed { return in.Coefficients[0].DF }},
+		{"coefficients.csv", "n", 2, func(v string) map[string][]byte {
+			return map[string][]byte{"claims.csv": []byte(claims), "coefficients.csv": []byte("study,label,measure,estimate,se,df,n\ns,a,b,0.5,0.1,,\"" + v + "\"\n")}
+		}, func(in *Input) Printed { return in.Coefficients[0].N }},
+		{"correlations.csv", "n", 3, func(v string) map[string][]byte {
+			return map[string][]byte{"claims.csv": []byte(claims), "coefficients.csv": []byte("study,label,estimate,se\ns,a,0.5,0.1\n"),
+				"correlations.csv": []byte("study,group,var_a,var_b,r,n\ns,,x,y,.3,40\ns,,x,z,.2,\"" + v + "\"\n")}
+		}, func(in *Input) Printed { return in.Correlations[1].N }},
+		{"table 1.csv", "n", 2, func(v string) map[string][]byte {
+			return map[string][]byte{"claims.csv": []byte(claims), "coefficients.csv": []byte("study,label,estimate,se\ns,a,0.5,0.1\n"),
+				"table 1.csv": tableWith("", v)}
+		}, func(in *Input) Printed { return in.Tables[0].N[0] }},
+		{"table 1.csv", "n", 1, func(v string) map[string][]byte {
+			return map[string][]byte{"claims.csv": []byte(claims), "coefficients.csv": []byte("study,label,estimate,se\ns,a,0.5,0.1\n"),
+				"table 1.csv": tableWith(v, "")}
+		}, func(in *Input) Printed { return in.Tables[0].N[0] }},
+		{"paired.csv", "first_df", 2, func(v string) map[string][]byte {
+			return map[string][]byte{"paired.csv": []byte("study,claim,published,first_label,first_estimate,first_se,first_df,second_label,second_estimate,second_se,second_n\n" +
+				"s,c1,differ,a,0.5,0.1,\"" + v + "\",b,0.2,0.1,30\n")}
+		}, func(in *Input) Printed { return in.Coefficients[0].DF }},
+		{"paired.csv", "second_n", 2, func(v string) map[string][]byte {
+			return map[string][]byte{"paired.csv": []byte("study,claim,published,first_label,first_estimate,first_se,first_df,second_label,second_estimate,second_se,second_n\n" +
+				"s,c1,differ,a,0.5,0.1,,b,0.2,0.1,\"" + v + "\"\n")}
+		}, func(in *Input) Printed { return in.Coefficients[1].N }},
+	}
+	for _, v := range []string{"0", "-3", "−0", "NaN", "Inf", "-Inf", "∞", "1e400", "1e-400"} {
+		for _, pl := range places {
+			t.Run(pl.file+" "+pl.column+" "+v, func(t *testing.T) {
+				dir := writeFolder(t, pl.files(v))
+				path := dir
+				if pl.file == "paired.csv" {
+					path = filepath.Join(dir, pl.file)
+				}
+				in, err := Read(path)
+				if err != nil {
+					t.Fatal(err)
+				}
+				var all []*CellError
+				all = append(all, in.Problems...)
+				for _, c := range in.Coefficients {
+					all = append(all, c.Problems...)
+				}
+				for _, c := range in.Correlations {
+					all = append(all, c.Problems...)
+				}
+				for _, tb := range in.Tables {
+					all = append(all, tb.Problems...)
+				}
+				want := fmt.Sprintf("%s, row %d, column %q: ", filepath.Join(dir, pl.file), pl.row, pl.column)
+				found := false
+				for _, p := range all {
+					found = found || strings.HasPrefix(p.Error(), want) && (errors.Is(p, ErrOutOfRange) || errors.Is(p, ErrMalformedNumber))
+				}
+				if !found {
+					t.Errorf("Read with %s %q: problems:%s\nwant one starting %q", pl.column, v, problemTexts(all), want)
+				}
+				if got := pl.value(in); got.Present() {
+					t.Errorf("Read with %s %q kept the value %+v, want it absent", pl.column, v, got)
+				}
+			})
+		}
+	}
+}

@@ -63,9 +63,14 @@ type Reconstructed struct {
 // The t quantile is used when df is printed, or can be derived: n − 2 for a
 // mean difference (two groups; Cochrane Handbook 5.1 §7.7.3.3), n − k − 1 for
 // a regression coefficient of a model with k listed coefficients (an upper
-// bound on the true df when covariates went unlisted). Ratio measures and
-// correlations use the normal, as their intervals are large-sample Wald or
-// Fisher-z intervals. The SE itself, and the SEs at the ends of its rounding
+// bound on the true df when covariates went unlisted). Where that derived
+// df is not positive (n ≤ 2 for a mean difference, n ≤ k + 1 for a
+// regression coefficient) no t quantile exists: an interval or p-value is
+// not read, with an ErrNoStandardError naming n and k, while a printed SE
+// or statistic, which needs no quantile, is used with a note. An n of 2 or
+// fewer is noted whatever the measure. Ratio measures and correlations use
+// the normal, as their intervals are large-sample Wald or Fisher-z
+// intervals. The SE itself, and the SEs at the ends of its rounding
 // range, are infer's: StandardErrorFromCI, StandardErrorsFromHalfWidths,
 // StandardErrorFromStatistic and StandardErrorFromP.
 func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
@@ -94,7 +99,8 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	if err != nil {
 		return rc, err
 	}
-	rc.DF = rc.chooseDF(c, modelSize)
+	var noT error
+	rc.DF, noT = rc.chooseDF(c, modelSize)
 
 	// The limits' rounding intervals on the scale, kept for fromInterval.
 	var loR, hiR infer.Range
@@ -127,10 +133,14 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 		if rc.Scale != ScaleAsPrinted {
 			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: the printed SE is taken to be on the %s scale", c.Label, rc.Scale))
 		}
+	case c.CI.Present() && noT != nil:
+		err = fmt.Errorf("%w: %w, so its interval cannot be read on a t basis", ErrNoStandardError, noT)
 	case c.CI.Present():
 		err = rc.fromInterval(c, loR, hiR)
 	case c.Stat.IsExact() && c.Stat.Value != 0:
 		err = rc.fromStatistic(c)
+	case (c.P.IsExact() || c.P.Bound == Below) && noT != nil:
+		err = fmt.Errorf("%w: %w, so its p-value cannot be read on a t basis", ErrNoStandardError, noT)
 	case c.P.IsExact() || c.P.Bound == Below:
 		err = rc.fromP(c)
 	case c.P.Bound == NotSignificant || c.P.Bound == Above:
@@ -138,7 +148,17 @@ func Reconstruct(c *Coefficient, modelSize int) (Reconstructed, error) {
 	default:
 		err = errNothingPrinted
 	}
-	return rc, err
+	if err != nil {
+		return rc, err
+	}
+	if noT != nil {
+		// A printed SE or statistic needs no quantile.
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: %v: no t test is possible, so its own p uses the normal", c.Label, noT))
+	}
+	if c.N.IsExact() && c.N.Value <= 2 {
+		rc.Notes = append(rc.Notes, fmt.Sprintf("%s: n = %g: a sample of 2 or fewer leaves no df for an SE on a t basis; check the printed n", c.Label, c.N.Value))
+	}
+	return rc, nil
 }
 
 // The two commonest reasons for no SE.
@@ -200,29 +220,35 @@ func DerivesDFFromModelSize(c *Coefficient) bool {
 func dfPrinted(c *Coefficient) bool { return c.DF.IsExact() && c.DF.Value > 0 }
 
 // chooseDF returns the df of c's t quantile, NaN for the normal, noting a
-// small df it derived.
-func (rc *Reconstructed) chooseDF(c *Coefficient, modelSize int) float64 {
+// small df it derived. Where the df derived from n is not positive (a t
+// quantile needs at least one), it returns NaN and, as noT, why no t
+// quantile can be had, naming n and k.
+func (rc *Reconstructed) chooseDF(c *Coefficient, modelSize int) (df float64, noT error) {
 	if dfPrinted(c) {
-		return c.DF.Value
+		return c.DF.Value, nil
 	}
 	n := c.N.Value
 	switch {
-	case c.Measure == MeasureMD && c.N.IsExact() && n > 2:
+	case c.Measure == MeasureMD && c.N.IsExact():
+		if n-2 <= 0 {
+			return math.NaN(), fmt.Errorf("n = %g leaves n − 2 = %g df for a mean difference", n, n-2)
+		}
 		if n-2 < smallDF {
 			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − 2 = %g (two groups)", c.Label, n-2))
 		}
-		return n - 2
+		return n - 2, nil
 	case DerivesDFFromModelSize(c):
 		k := float64(max(modelSize, 1))
-		if n-k-1 > 0 {
-			if n-k-1 < smallDF {
-				rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − k − 1 = %g with the k = %g coefficients listed for its model; unlisted covariates would lower it",
-					c.Label, n-k-1, k))
-			}
-			return n - k - 1
+		if n-k-1 <= 0 {
+			return math.NaN(), fmt.Errorf("n = %g with the k = %g coefficients listed for its model leaves n − k − 1 = %g df", n, k, n-k-1)
 		}
+		if n-k-1 < smallDF {
+			rc.Notes = append(rc.Notes, fmt.Sprintf("%s: df taken as n − k − 1 = %g with the k = %g coefficients listed for its model; unlisted covariates would lower it",
+				c.Label, n-k-1, k))
+		}
+		return n - k - 1, nil
 	}
-	return math.NaN()
+	return math.NaN(), nil
 }
 
 // fromInterval takes the SE from the interval rc.CI, whose limits' rounding

@@ -1,6 +1,7 @@
 package extract
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -332,6 +333,101 @@ func TestReconstructSEFromAsFormatted(t *testing.T) {
 					t.Errorf("%s, df %q, n %q: SEFrom = %q, want %q", s.name, df, n, rc.SEFrom, want)
 				}
 			}
+		}
+	}
+}
+
+// TestReconstructTinySample gives n of 1, 2 and a model as large as its
+// sample. A t quantile needs at least 1 df (Student 1908): where the df
+// derived from n, n − 2 for a mean difference or n − k − 1 for a
+// regression coefficient of a model with k listed coefficients, is not
+// positive, an interval or a p cannot be read on a t basis and Reconstruct
+// refuses, naming n (and k); a printed SE or statistic needs no quantile
+// and is used, with a note. Any other n of 2 or fewer is noted.
+func TestReconstructTinySample(t *testing.T) {
+	ci := Interval{Low: num("0.10"), High: num("0.90")}
+	tests := []struct {
+		name      string
+		c         Coefficient
+		modelSize int
+		wantErr   string // "" when an SE is taken
+		wantNote  string
+	}{
+		{"mean difference, n 2, interval", Coefficient{Measure: MeasureMD, Estimate: num("0.50"), CI: ci, N: num("2")}, 0,
+			"n = 2 leaves n − 2 = 0 df for a mean difference", ""},
+		{"mean difference, n 1, p", Coefficient{Measure: MeasureMD, Estimate: num("0.50"), P: num("0.04"), N: num("1")}, 0,
+			"n = 1 leaves n − 2 = -1 df for a mean difference", ""},
+		{"mean difference, n 3, interval", Coefficient{Measure: MeasureMD, Estimate: num("0.50"), CI: ci, N: num("3")}, 0,
+			"", "df taken as n − 2 = 1"},
+		{"regression, n 4 with 3 coefficients, interval", Coefficient{Measure: MeasureB, Estimate: num("0.50"), CI: ci, N: num("4")}, 3,
+			"n = 4 with the k = 3 coefficients listed for its model leaves n − k − 1 = 0 df", ""},
+		{"regression, n 2, p bound", Coefficient{Measure: MeasureBeta, Estimate: num("0.50"), P: Printed{Value: 0.05, Decimals: 2, Bound: Below, Text: "< .05"}, N: num("2")}, 1,
+			"n = 2 with the k = 1 coefficients listed for its model leaves n − k − 1 = 0 df", ""},
+		{"regression, n 2, printed SE", Coefficient{Measure: MeasureB, Estimate: num("0.50"), SE: num("0.20"), N: num("2")}, 1,
+			"", "n = 2 with the k = 1 coefficients listed for its model leaves n − k − 1 = 0 df"},
+		{"mean difference, n 2, statistic", Coefficient{Measure: MeasureMD, Estimate: num("0.50"), Stat: num("2.5"), N: num("2")}, 0,
+			"", "n = 2 leaves n − 2 = 0 df for a mean difference"},
+		{"mean difference, n 2, printed df", Coefficient{Measure: MeasureMD, Estimate: num("0.50"), CI: ci, N: num("2"), DF: num("10")}, 0,
+			"", "n = 2"},
+		{"ratio, n 2, interval", Coefficient{Measure: MeasureOR, Estimate: num("2.0"), CI: Interval{Low: num("1.1"), High: num("3.6")}, N: num("2")}, 0,
+			"", "n = 2"},
+		{"other, n 1, printed SE", Coefficient{Measure: MeasureOther, Estimate: num("0.50"), SE: num("0.20"), N: num("1")}, 0,
+			"", "n = 1"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			tt.c.Label, tt.c.CILevel = "x", 95
+			rc, err := Reconstruct(&tt.c, tt.modelSize)
+			if tt.wantErr != "" {
+				if !errors.Is(err, ErrNoStandardError) || !strings.Contains(err.Error(), tt.wantErr) {
+					t.Errorf("Reconstruct(%s) error = %v, want ErrNoStandardError saying %q", tt.name, err, tt.wantErr)
+				}
+				return
+			}
+			if err != nil || !(rc.SE > 0) {
+				t.Fatalf("Reconstruct(%s) = SE %v, %v; want an SE", tt.name, rc.SE, err)
+			}
+			if notes := strings.Join(rc.Notes, " | "); !strings.Contains(notes, tt.wantNote) {
+				t.Errorf("Reconstruct(%s) notes %q, want one saying %q", tt.name, notes, tt.wantNote)
+			}
+			if tt.c.N.Value <= 2 && !strings.Contains(strings.Join(rc.Notes, " | "), "2 or fewer") {
+				t.Errorf("Reconstruct(%s) notes %q, want the warning for n of 2 or fewer", tt.name, rc.Notes)
+			}
+		})
+	}
+}
+
+// TestReconstructExtremeDF reads an interval with a printed df far from any
+// a paper prints. At df 1e15 and 1e300 the t quantile is the normal one to
+// within its first Cornish–Fisher term, (z² + 1)/(4 df) ≤ 1.2e-15
+// (Abramowitz & Stegun 1964, 26.7.5), so the SE is the normal's; at df
+// 0.001 the 95% quantile is beyond the largest double, and a df whose half
+// is 0 is no df: both are ErrNoStandardError, wrapping infer's reason.
+func TestReconstructExtremeDF(t *testing.T) {
+	normal, err := infer.StandardErrorFromCI(0.10, 0.90, 0.95, math.NaN())
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		df   string
+		want error // nil: the normal's SE
+	}{
+		{"1e15", nil},
+		{"1e300", nil},
+		{"0.001", infer.ErrQuantileRange},
+		{"5e-324", infer.ErrDegreesOfFreedom},
+	}
+	for _, tt := range tests {
+		c := Coefficient{Label: "x", Measure: MeasureB, Estimate: num("0.50"), CI: Interval{Low: num("0.10"), High: num("0.90")}, CILevel: 95, DF: num(tt.df)}
+		rc, err := Reconstruct(&c, 1)
+		if tt.want != nil {
+			if !errors.Is(err, ErrNoStandardError) || !errors.Is(err, tt.want) {
+				t.Errorf("Reconstruct with df %s: SE %v, error %v; want ErrNoStandardError wrapping %v", tt.df, rc.SE, err, tt.want)
+			}
+			continue
+		}
+		if err != nil || math.Abs(rc.SE-normal) > 2e-15*normal {
+			t.Errorf("Reconstruct with df %s: SE %.17g, %v; want the normal's %.17g", tt.df, rc.SE, err, normal)
 		}
 	}
 }

@@ -56,8 +56,8 @@ const DefaultCILevel = 95.0
 const DefaultAlpha = 0.05
 
 // Position locates a cell or a row in an input. Row is the sheet's own row
-// number (header = row 1); Column is the header name as written, empty for a
-// whole row.
+// number (header = row 1); Column is the header name as written (for a key
+// row of a correlation table, its key, such as "n"), empty for a whole row.
 type Position struct {
 	File   string
 	Sheet  string

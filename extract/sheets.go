@@ -184,7 +184,9 @@ func readCoefficientInto(r *rowReading, cc *coefficientColumns, c *Coefficient) 
 	r.numberInto(&c.P, cc.p, kindP)
 	r.numberInto(&c.DF, cc.df, kindCount)
 	if c.DF.Present() && !(c.DF.Value > 0) {
+		// Refused, as a number that does not parse is: not kept.
 		r.fail(cc.df, fmt.Errorf("degrees of freedom must be positive (%s): %w", c.DF.Text, ErrOutOfRange))
+		c.DF = Printed{Bound: Absent}
 	}
 	r.sampleSizeInto(&c.N, cc.n)
 	checkMeasureRange(r, cc, c)

@@ -125,7 +125,7 @@ func readTableSheet(src rowSource, pos Position, name string) (CorrelationTable,
 					p, err = checkSampleSize(p)
 				}
 				if err != nil {
-					fail(row.Row, "", err)
+					fail(row.Row, first, err) // the key, as written, names the cell
 				} else {
 					keyN = p
 				}

@@ -120,7 +120,7 @@ func TestCorrelationTableProblems(t *testing.T) {
 		{"no header", []string{"n|100", "1. A|x|y"}, ErrUnknownValue, "expected a key row", 2, ""},
 		{"unmatched head", []string{"n|100", "variable|1|2|9", "1. A|—", "2. B|.45|—"}, ErrUnknownValue, `column head "9"`, 2, "9"},
 		{"value under no head", []string{"n|100", "variable|1|2", "1. A|—", "2. B|.45|—|.3"}, ErrUnknownValue, "under no column head", 4, ""},
-		{"n not whole", []string{"n|100.5", "variable|1|2", "1. A|—", "2. B|.45|—"}, ErrOutOfRange, "whole number", 1, ""},
+		{"n not whole", []string{"n|100.5", "variable|1|2", "1. A|—", "2. B|.45|—"}, ErrOutOfRange, "whole number", 1, "n"},
 		{"header but no rows", []string{"n|100", "variable|1|2"}, ErrMissingValue, "no variable rows", 2, ""},
 	}
 	for _, tt := range tests {

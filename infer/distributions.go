@@ -13,6 +13,11 @@ import (
 // ErrDegreesOfFreedom is returned when degrees of freedom are not positive.
 var ErrDegreesOfFreedom = errors.New("degrees of freedom must be positive")
 
+// ErrQuantileRange is returned when a t quantile is beyond the largest
+// double, which happens only at tiny df (below about 0.004 for a 95%
+// interval).
+var ErrQuantileRange = errors.New("degrees of freedom too small for a finite t quantile")
+
 // ErrProbability is returned when a probability or level lies outside (0, 1).
 var ErrProbability = errors.New("probability must lie strictly between 0 and 1")
 
@@ -68,20 +73,21 @@ func NormalCriticalValue(level float64) (float64, error) {
 var z95 = -unitNormal.Quantile((1 - 0.95) / 2)
 
 // StudentTTwoSidedP returns the two-sided p-value of a Student t statistic
-// with df degrees of freedom, 2 P(T_df > |t|). An infinite df gives the
-// normal value. It is the regularized incomplete beta function
+// with df degrees of freedom, 2 P(T_df > |t|). It is the regularized
+// incomplete beta function
 //
 //	p = I_x(df/2, 1/2),  x = df/(df + t²) = u²/(1 + u²),  u = √df/|t|,
 //
 // (Abramowitz & Stegun 1964, 26.7.1 and 26.5.27), with x formed from u so
 // that t² cannot overflow: p stays accurate down to the smallest normal
-// doubles (p = 6.4e-300 at t = 1e299 with df = 1).
+// doubles (p = 6.4e-300 at t = 1e299 with df = 1). Where df is large
+// enough for the Cornish–Fisher series to give t from the normal quantile
+// to double precision, p is the normal tail of the inverted series, and
+// where the t and the normal agree to double precision it is the normal
+// tail (tlarge.go); an infinite df is the normal.
 func StudentTTwoSidedP(t, df float64) (float64, error) {
-	if !(df > 0) {
+	if !(df/2 > 0) { // the beta's parameter: the smallest subnormal df halves to 0
 		return math.NaN(), fmt.Errorf("t test with df %v: %w", df, ErrDegreesOfFreedom)
-	}
-	if math.IsInf(df, 1) {
-		return NormalTwoSidedP(t), nil
 	}
 	switch at := math.Abs(t); {
 	case math.IsNaN(t):
@@ -90,27 +96,43 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 		return 1, nil
 	case math.IsInf(at, 1):
 		return 0, nil
+	case normalLimit(at, df):
+		return NormalTwoSidedP(at), nil
+	case cornishFisherConverged(at, df):
+		return NormalTwoSidedP(normalDeviate(at, df)), nil
 	default:
 		u := math.Sqrt(df) / at
 		if u < 1e-100 {
 			// Far enough out that x = u² underflows: the leading term of the
 			// series I_x(a, b) = x^a/(a B(a, b)) (1 + O(x)) is exact to double
-			// precision, computed in logs.
+			// precision, computed in logs, with log u² formed from df and t
+			// since u itself may underflow (df = 1e-300, t = 1e300).
 			a := df / 2
 			lb, _ := math.Lgamma(a)
 			lh, _ := math.Lgamma(0.5)
 			lab, _ := math.Lgamma(a + 0.5)
-			return math.Exp(a*2*math.Log(u) - math.Log(a) - (lb + lh - lab)), nil
+			logU2 := math.Log(df) - 2*math.Log(at)
+			return math.Min(1, math.Exp(a*logU2-math.Log(a)-(lb+lh-lab))), nil
+		}
+		if tailUnderflows(u, df) {
+			// So that the incomplete beta never sees a df beyond 2.4e6,
+			// where it is off, with p far below any double.
+			return 0, nil
 		}
 		x := u * u / (1 + u*u)
-		if x > df/(df+1) {
+		if x > df/(df+1) && u*u > unitRoundoff {
 			// Beyond the mean of the beta distribution, df/(df + 1), p is
 			// above about one half, and the complement, with 1 − x formed
 			// from u, keeps its digits. Below it p may be tiny even with
-			// x near 1 (large df), so it is computed directly.
+			// x near 1 (large df), so it is computed directly; so it is
+			// when 1 − x rounds to 1 (df below 1e-16 t²), where the
+			// complement would give 0 for a p near 1.
 			return 1 - mathext.RegIncBeta(0.5, df/2, 1/(1+u*u)), nil
 		}
-		return mathext.RegIncBeta(df/2, 0.5, x), nil
+		// gonum's incomplete beta can exceed 1 at tiny df (1 + 2.3e-14 at
+		// df = 2e-300, +Inf once df/2 is subnormal), where p is 1 to double
+		// precision.
+		return math.Min(1, mathext.RegIncBeta(df/2, 0.5, x)), nil
 	}
 }
 
@@ -120,21 +142,33 @@ func StudentTTwoSidedP(t, df float64) (float64, error) {
 // functions invert each other to the tail function's own accuracy, down to
 // p = 1e-300. gonum's StudentsT.Quantile is used only if that iteration
 // fails to settle: in the far tail it is wrong (at df = 1000 and p = 1e-20
-// it gives 3.0e9 for 9.546).
+// it gives 3.0e9 for 9.546). Where df is large enough, t is the
+// Cornish–Fisher series in the normal quantile, or the normal quantile
+// itself where the two agree to double precision (tlarge.go); an infinite
+// df is the normal.
 func StudentTFromTwoSidedP(p, df float64) (float64, error) {
 	if !(p > 0 && p <= 1) {
 		return math.NaN(), fmt.Errorf("two-sided p %v: %w", p, ErrProbability)
 	}
-	if !(df > 0) {
+	if !(df/2 > 0) {
 		return math.NaN(), fmt.Errorf("t quantile with df %v: %w", df, ErrDegreesOfFreedom)
 	}
-	if math.IsInf(df, 1) {
-		return NormalZFromTwoSidedP(p)
+	z := -unitNormal.Quantile(p / 2)
+	switch {
+	case normalLimit(z, df):
+		return z, nil
+	case cornishFisherConverged(z, df):
+		return cornishFisher(z, df), nil
 	}
-	q, ok := studentTQuantile(p, df)
+	q, ok := studentTQuantile(p, z, df)
 	if !ok {
 		st := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}
 		q = -st.Quantile(p / 2)
+	}
+	if !(q < math.Inf(1)) {
+		// The tail falls as t^−df, so below df ≈ −log p / 709 the
+		// quantile is beyond the largest double.
+		return math.NaN(), fmt.Errorf("t quantile at p %.3g with df %v: %w", p, df, ErrQuantileRange)
 	}
 	return q, nil
 }

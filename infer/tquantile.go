@@ -9,7 +9,8 @@ import "math"
 // coordinates the tail of the t distribution is a straight line
 // (p ∝ t^−df), so the iteration converges from the far tail as well as
 // from the centre. It starts from the Cornish–Fisher expansion of t in the
-// normal quantile z (Abramowitz & Stegun 1964, 26.7.5), good in the
+// normal quantile z of p, −Φ⁻¹(p/2), which the caller passes in
+// (Abramowitz & Stegun 1964, 26.7.5), good in the
 // centre, or, when that is more than 10% off in p and the other is nearer,
 // from the leading term of the tail,
 // p ≈ 2 c df^((df−1)/2) t^−df with c = Γ((df+1)/2) / (√(df π) Γ(df/2)),
@@ -21,7 +22,7 @@ import "math"
 //
 // It reports false when the iteration does not settle, and the caller then
 // uses gonum's inverse incomplete beta.
-func studentTQuantile(p, df float64) (float64, bool) {
+func studentTQuantile(p, z, df float64) (float64, bool) {
 	switch df {
 	case 1:
 		return 1 / math.Tan(math.Pi*p/2), true
@@ -37,10 +38,7 @@ func studentTQuantile(p, df float64) (float64, bool) {
 	logP := math.Log(p)
 	// The tail start, in logs so that p = 1e-300 does not overflow t.
 	tail := math.Exp((math.Ln2 + logC + (df+1)/2*math.Log(df) - math.Log(df) - logP) / df)
-	z := -unitNormal.Quantile(p / 2)
-	z2 := z * z
-	cf := z * (1 + (z2+1)/(4*df) + ((5*z2+16)*z2+3)/(96*df*df) +
-		(((3*z2+19)*z2+17)*z2-15)/(384*df*df*df))
+	cf := cornishFisher(z, df)
 	// The Cornish–Fisher start is taken unless it is off by more than 10%
 	// in p (small df, far tail) and the tail start is nearer; its tail
 	// value then serves the first step.
