@@ -59,9 +59,9 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) stri
 		case math.IsNaN(p):
 			own = append(own, rc.Label+": own p not known")
 		case p < r.Alpha:
-			own = append(own, rc.Label+": "+pStatement(p)+", significant")
+			own = append(own, rc.Label+": "+PStatement(p)+", significant")
 		default:
-			own = append(own, rc.Label+": "+pStatement(p)+", not significant")
+			own = append(own, rc.Label+": "+PStatement(p)+", not significant")
 		}
 	}
 	return "The paper's verdict rests on one estimate being significant and the other not (here " + strings.Join(own, "; ") +
@@ -103,7 +103,7 @@ func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 		conditions = "The rule's conditions do not all hold: " + strings.Join(unmet, "; ") + "."
 	}
 	return fmt.Sprintf("The paper read the overlap of the two intervals. The proportion overlap is %.2f of the mean margin of error, which implies p ≈ %s for independent estimates; the rule of eye (Cumming & Finch 2005) says %s. %s The proper test of the difference decides the outcome.",
-		float64(o.Proportion), formatP(float64(o.ImpliedP)), rule, conditions)
+		float64(o.Proportion), FormatP(float64(o.ImpliedP)), rule, conditions)
 }
 
 // publishedPNote compares the paper's p for the difference with the
@@ -122,5 +122,5 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 		oneSided = "; it matches a one-sided p, half the two-sided one"
 	}
 	return fmt.Sprintf("The paper's p for the difference (%s) disagrees with the recomputed %s (from %s to %s within rounding)%s.",
-		pp.Text, formatP(float64(r.P)), formatP(pr.Lo), formatP(pr.Hi), oneSided)
+		pp.Text, FormatP(float64(r.P)), FormatP(pr.Lo), FormatP(pr.Hi), oneSided)
 }

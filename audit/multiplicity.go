@@ -39,7 +39,7 @@ func (r *ClaimResult) settle(adjust string) {
 		if q, ok := r.AdjustedP.By(adjust); ok && p > 0 {
 			f := float64(q) / p
 			r.Notes = append(r.Notes, fmt.Sprintf("The outcome uses the %s-adjusted p = %s, adjusted over the %d claims of the study that have a p (the raw p is %s).",
-				adjustName(adjust), formatP(float64(q)), r.family, formatP(p)))
+				adjustName(adjust), FormatP(float64(q)), r.family, FormatP(p)))
 			p = float64(q)
 			pr = infer.Range{Lo: math.Min(1, pr.Lo*f), Hi: math.Min(1, pr.Hi*f)}
 		}

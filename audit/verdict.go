@@ -151,7 +151,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
 		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
-			dc.how.phrase(), formatP(pr.Lo), formatP(pr.Hi), formatAlpha(r.Alpha)))
+			dc.how.phrase(), FormatP(pr.Lo), FormatP(pr.Hi), FormatAlpha(r.Alpha)))
 	}
 }
 
@@ -179,7 +179,7 @@ func (s *outcomeSet) add(o string) {
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 	test := r.testResult(pr)
-	alpha := formatAlpha(r.Alpha)
+	alpha := FormatAlpha(r.Alpha)
 	switch r.Outcome {
 	case Consistent:
 		return "The verdict stands: " + test + "."
@@ -202,10 +202,10 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 func (r *ClaimResult) testResult(pr infer.Range) string {
 	if r.P.Known() {
 		return fmt.Sprintf("the test of the difference gives %s (difference %s, %s%% CI %s to %s)",
-			pStatement(float64(r.P)), formatNum(float64(r.Difference)), formatLevel(r.Alpha),
-			formatNum(float64(r.DifferenceCI[0])), formatNum(float64(r.DifferenceCI[1])))
+			PStatement(float64(r.P)), FormatNum(float64(r.Difference)), formatLevel(r.Alpha),
+			FormatNum(float64(r.DifferenceCI[0])), FormatNum(float64(r.DifferenceCI[1])))
 	}
-	return fmt.Sprintf("the difference %s has p from %s to %s", formatNum(float64(r.Difference)), formatP(pr.Lo), formatP(pr.Hi))
+	return fmt.Sprintf("the difference %s has p from %s to %s", FormatNum(float64(r.Difference)), FormatP(pr.Lo), FormatP(pr.Hi))
 }
 
 func larger(published string) string {
@@ -217,7 +217,7 @@ func larger(published string) string {
 
 // formatNum writes a number with four significant digits, as the notes
 // print estimates.
-func formatNum(x float64) string {
+func FormatNum(x float64) string {
 	switch {
 	case math.IsNaN(x):
 		return "NA"
@@ -231,7 +231,7 @@ func formatNum(x float64) string {
 
 // formatP writes a p-value the way reports print them: three decimals, and
 // "< 0.001" below that.
-func formatP(p float64) string {
+func FormatP(p float64) string {
 	switch {
 	case math.IsNaN(p):
 		return "NA"
@@ -242,14 +242,15 @@ func formatP(p float64) string {
 }
 
 // pStatement writes "p = 0.043" or "p < 0.001".
-func pStatement(p float64) string {
+func PStatement(p float64) string {
 	if p < 0.001 {
-		return "p " + formatP(p)
+		return "p " + FormatP(p)
 	}
-	return "p = " + formatP(p)
+	return "p = " + FormatP(p)
 }
 
-func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
+// FormatAlpha writes a significance level as given (0.05).
+func FormatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
 
 // formatLevel writes the confidence level 100(1 − α).
 func formatLevel(alpha float64) string { return strconv.FormatFloat(100*(1-alpha), 'g', -1, 64) }

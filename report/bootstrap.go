@@ -32,21 +32,21 @@ func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 	for k, b := range res.Fit.Coefficients {
 		beta := "-"
 		if k > 0 || !res.Fit.Intercept {
-			beta = formatNum(res.Fit.Standardized[k-boolInt(res.Fit.Intercept)])
+			beta = audit.FormatNum(res.Fit.Standardized[k-boolInt(res.Fit.Intercept)])
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", name(names[k]), formatNum(b), formatNum(res.Fit.StandardErrors[k]), beta)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", name(names[k]), audit.FormatNum(b), audit.FormatNum(res.Fit.StandardErrors[k]), beta)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
 	lvl := 100 * res.Level
 	fmt.Fprintf(bw, "\nDifference of the %s coefficients, %s − %s: %s (bootstrap SE %s, bias %s; %d of %d resamples usable, seed %d).\n",
-		kind, name(o.Compare[0]), name(o.Compare[1]), formatNum(res.Estimate), formatNum(res.BootstrapSE), formatNum(res.BootstrapBias), res.Used, res.Resamples, o.Seed)
+		kind, name(o.Compare[0]), name(o.Compare[1]), audit.FormatNum(res.Estimate), audit.FormatNum(res.BootstrapSE), audit.FormatNum(res.BootstrapBias), res.Used, res.Resamples, o.Seed)
 	tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "  %g%% percentile interval\t%s to %s\t\n", lvl, formatNum(res.Percentile.Lower), formatNum(res.Percentile.Upper))
-	fmt.Fprintf(tw, "  %g%% BC interval\t%s to %s\t\n", lvl, formatNum(res.BC.Lower), formatNum(res.BC.Upper))
-	fmt.Fprintf(tw, "  %g%% BCa interval\t%s to %s\t(z0 = %.4f, a = %.4f)\n", lvl, formatNum(res.BCa.Lower), formatNum(res.BCa.Upper), res.BiasCorrection, res.Acceleration)
-	fmt.Fprintf(tw, "  bootstrap p (two-sided)\t%s\t(from the BCa interval: %s)\n", formatP(res.P), formatP(res.PBCa))
+	fmt.Fprintf(tw, "  %g%% percentile interval\t%s to %s\t\n", lvl, audit.FormatNum(res.Percentile.Lower), audit.FormatNum(res.Percentile.Upper))
+	fmt.Fprintf(tw, "  %g%% BC interval\t%s to %s\t\n", lvl, audit.FormatNum(res.BC.Lower), audit.FormatNum(res.BC.Upper))
+	fmt.Fprintf(tw, "  %g%% BCa interval\t%s to %s\t(z0 = %.4f, a = %.4f)\n", lvl, audit.FormatNum(res.BCa.Lower), audit.FormatNum(res.BCa.Upper), res.BiasCorrection, res.Acceleration)
+	fmt.Fprintf(tw, "  bootstrap p (two-sided)\t%s\t(from the BCa interval: %s)\n", audit.FormatP(res.P), audit.FormatP(res.PBCa))
 	if err := tw.Flush(); err != nil {
 		return err
 	}
@@ -55,8 +55,8 @@ func WriteBootstrapTable(w io.Writer, rep *audit.BootstrapReport) error {
 		if !math.IsInf(d.DF, 1) {
 			stat = fmt.Sprintf("t(%g) = %.2f", d.DF, d.Statistic)
 		}
-		fmt.Fprintf(bw, "  Beside it, the %s: %s (SE %s), %g%% CI %s to %s, %s, %s.\n", res.DeltaMethod, formatNum(d.Estimate), formatNum(d.SE),
-			lvl, formatNum(d.Lower), formatNum(d.Upper), stat, pStatement(d.P))
+		fmt.Fprintf(bw, "  Beside it, the %s: %s (SE %s), %g%% CI %s to %s, %s, %s.\n", res.DeltaMethod, audit.FormatNum(d.Estimate), audit.FormatNum(d.SE),
+			lvl, audit.FormatNum(d.Lower), audit.FormatNum(d.Upper), stat, audit.PStatement(d.P))
 	}
 	for _, iv := range []bootstrap.Interval{res.Percentile, res.BC, res.BCa} {
 		if iv.Clamped {

@@ -203,9 +203,9 @@ func tickLabel(v, step float64) string {
 }
 
 func rowText(r chartRow) string {
-	s := r.label + " " + formatNum(r.est)
+	s := r.label + " " + audit.FormatNum(r.est)
 	if !math.IsNaN(r.lo) {
-		s += " (" + formatNum(r.lo) + " to " + formatNum(r.hi) + ")"
+		s += " (" + audit.FormatNum(r.lo) + " to " + audit.FormatNum(r.hi) + ")"
 	}
 	return s + ", " + r.intervalLabel
 }

@@ -24,7 +24,7 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	for i, s := range []audit.Side{r.First, r.Second} {
 		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", EscapeControls([]audit.Reported{c.First, c.Second}[i].Text))
 		if s.Estimate.Known() {
-			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", formatNum(float64(s.Estimate)), numberOrDash(s.SE))
+			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", audit.FormatNum(float64(s.Estimate)), numberOrDash(s.SE))
 			if s.SEFrom != "" {
 				fmt.Fprintf(bw, " (from %s)", s.SEFrom)
 			}
@@ -38,10 +38,10 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	if r.Method != "" {
 		fmt.Fprintf(bw, "%-10s %s: difference %s", "Test:", r.Method, differenceCell(r))
 		if r.Statistic.Known() {
-			fmt.Fprintf(bw, ", statistic %s", formatNum(float64(r.Statistic)))
+			fmt.Fprintf(bw, ", statistic %s", audit.FormatNum(float64(r.Statistic)))
 		}
 		if r.DF.Known() {
-			fmt.Fprintf(bw, ", df %s", formatNum(float64(r.DF)))
+			fmt.Fprintf(bw, ", df %s", audit.FormatNum(float64(r.DF)))
 		}
 		if r.P.Known() {
 			fmt.Fprintf(bw, ", p %s", pCell(r.P))
@@ -51,7 +51,7 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 		}
 		fmt.Fprintln(bw)
 	}
-	fmt.Fprintf(bw, "%-10s %s; recomputed: %s; α = %s\n", "Published:", dash(r.Published), dash(r.Recomputed), formatAlpha(r.Alpha))
+	fmt.Fprintf(bw, "%-10s %s; recomputed: %s; α = %s\n", "Published:", dash(r.Published), dash(r.Recomputed), audit.FormatAlpha(r.Alpha))
 	fmt.Fprintf(bw, "%-10s %s\n", "Verdict:", strings.ToUpper(r.Outcome))
 	if len(r.Notes) > 0 {
 		fmt.Fprintln(bw, "\nNotes")

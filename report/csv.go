@@ -84,7 +84,7 @@ func (c *csvWriter) claimRecord(r *audit.ClaimResult) []string {
 		r.Relation, r.Method, r.Scale,
 		csvNumber(r.Difference), csvNumber(r.DifferenceSE), csvNumber(r.DifferenceCI[0]), csvNumber(r.DifferenceCI[1]),
 		csvNumber(r.Statistic), csvNumber(r.DF), csvNumber(r.P), csvNumber(r.PRange[0]), csvNumber(r.PRange[1]),
-		formatAlpha(r.Alpha), r.Basis, r.Published, r.Recomputed, r.Outcome,
+		audit.FormatAlpha(r.Alpha), r.Basis, r.Published, r.Recomputed, r.Outcome,
 		overlap, impliedP, safeText(strings.Join(r.Notes, " | ")))
 	for _, name := range c.extra {
 		rec = append(rec, safeText(extraValue(r, name)))

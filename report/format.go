@@ -2,9 +2,7 @@ package report
 
 import (
 	"fmt"
-	"math"
 	"slices"
-	"strconv"
 	"strings"
 
 	"coefaudit/audit"
@@ -22,43 +20,6 @@ func titleOf(h Header, sep string, escape func(string) string) string {
 	return reportTitle + sep + escape(h.Source)
 }
 
-// formatNum writes a number with four significant digits, as the notes
-// print them; NA when it is not a number.
-func formatNum(x float64) string {
-	switch {
-	case math.IsNaN(x):
-		return "NA"
-	case math.IsInf(x, 1):
-		return "∞"
-	case math.IsInf(x, -1):
-		return "−∞"
-	}
-	return strconv.FormatFloat(x, 'g', 4, 64)
-}
-
-// formatP writes a p-value the way reports print them: three decimals,
-// "< 0.001" below that.
-func formatP(p float64) string {
-	switch {
-	case math.IsNaN(p):
-		return "NA"
-	case p < 0.001:
-		return "< 0.001"
-	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
-}
-
-// pStatement is "p = 0.012" or "p < 0.001".
-func pStatement(p float64) string {
-	if p < 0.001 {
-		return "p " + formatP(p)
-	}
-	return "p = " + formatP(p)
-}
-
-// formatAlpha writes a significance level as given (0.05).
-func formatAlpha(a float64) string { return strconv.FormatFloat(a, 'g', -1, 64) }
-
 func dash(s string) string {
 	if s == "" {
 		return "-"
@@ -70,7 +31,7 @@ func numberOrDash(n audit.Number) string {
 	if !n.Known() {
 		return "–"
 	}
-	return formatNum(float64(n))
+	return audit.FormatNum(float64(n))
 }
 
 // differenceCell is the difference with its interval: "0.23 [0.06, 0.40]".
@@ -79,23 +40,23 @@ func differenceCell(c *audit.ClaimResult) string {
 		return "-"
 	}
 	if !c.DifferenceCI[0].Known() {
-		return formatNum(float64(c.Difference))
+		return audit.FormatNum(float64(c.Difference))
 	}
-	return fmt.Sprintf("%s [%s, %s]", formatNum(float64(c.Difference)), formatNum(float64(c.DifferenceCI[0])), formatNum(float64(c.DifferenceCI[1])))
+	return fmt.Sprintf("%s [%s, %s]", audit.FormatNum(float64(c.Difference)), audit.FormatNum(float64(c.DifferenceCI[0])), audit.FormatNum(float64(c.DifferenceCI[1])))
 }
 
 func pCell(p audit.Number) string {
 	if !p.Known() {
 		return "-"
 	}
-	return formatP(float64(p))
+	return audit.FormatP(float64(p))
 }
 
 func pRangeCell(r [2]audit.Number) string {
 	if !r[0].Known() || !r[1].Known() {
 		return "-"
 	}
-	lo, hi := formatP(float64(r[0])), formatP(float64(r[1]))
+	lo, hi := audit.FormatP(float64(r[0])), audit.FormatP(float64(r[1]))
 	if lo == hi {
 		return lo
 	}

@@ -105,7 +105,7 @@ type htmlHead struct {
 // the table of claims.
 func (h *htmlWriter) Begin(hd Header) error {
 	h.h = hd
-	v := htmlHead{Title: reportTitle, Source: hd.Source, Alpha: formatAlpha(hd.Alpha),
+	v := htmlHead{Title: reportTitle, Source: hd.Source, Alpha: audit.FormatAlpha(hd.Alpha),
 		Cautions: hd.cautions(), CSS: template.CSS(h.css),
 		CSP: fmt.Sprintf("default-src 'none'; style-src '%s'; script-src '%s'; img-src data:; base-uri 'none'; form-action 'none'",
 			cspHash(h.css), cspHash(htmlReportJS))}
@@ -309,13 +309,13 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 		add("p, BH within study", pCell(q))
 	}
 	if c.Statistic.Known() {
-		add("Statistic", formatNum(float64(c.Statistic)))
+		add("Statistic", audit.FormatNum(float64(c.Statistic)))
 	}
 	if c.DF.Known() {
-		add("df", formatNum(float64(c.DF)))
+		add("df", audit.FormatNum(float64(c.DF)))
 	}
 	if c.Alpha > 0 {
-		add("α", formatAlpha(c.Alpha))
+		add("α", audit.FormatAlpha(c.Alpha))
 	}
 	if c.Overlap != nil && c.Overlap.Proportion.Known() {
 		add("CI overlap", fmt.Sprintf("%.2f of the mean margin of error (implies p ≈ %s if independent)",

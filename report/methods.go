@@ -54,26 +54,26 @@ func methodsText(r *audit.ClaimResult) string {
 		fmt.Fprintf(&b, "We recomputed it with %s. ", d)
 		if r.First.SE.Known() && r.Second.SE.Known() {
 			fmt.Fprintf(&b, "The estimates were %s (SE %s, from %s) and %s (SE %s, from %s)%s. ",
-				formatNum(float64(r.First.Estimate)), formatNum(float64(r.First.SE)), r.First.SEFrom,
-				formatNum(float64(r.Second.Estimate)), formatNum(float64(r.Second.SE)), r.Second.SEFrom, onScale(r.Scale))
+				audit.FormatNum(float64(r.First.Estimate)), audit.FormatNum(float64(r.First.SE)), r.First.SEFrom,
+				audit.FormatNum(float64(r.Second.Estimate)), audit.FormatNum(float64(r.Second.SE)), r.Second.SEFrom, onScale(r.Scale))
 		}
 		if r.P.Known() {
-			fmt.Fprintf(&b, "The difference was %s", formatNum(float64(r.Difference)))
+			fmt.Fprintf(&b, "The difference was %s", audit.FormatNum(float64(r.Difference)))
 			if r.DifferenceCI[0].Known() {
-				fmt.Fprintf(&b, " (%g%% CI %s to %s)", 100*(1-r.Alpha), formatNum(float64(r.DifferenceCI[0])), formatNum(float64(r.DifferenceCI[1])))
+				fmt.Fprintf(&b, " (%g%% CI %s to %s)", 100*(1-r.Alpha), audit.FormatNum(float64(r.DifferenceCI[0])), audit.FormatNum(float64(r.DifferenceCI[1])))
 			}
-			fmt.Fprintf(&b, ", %s, %s.", statPhrase(r), pStatement(float64(r.P)))
+			fmt.Fprintf(&b, ", %s, %s.", statPhrase(r), audit.PStatement(float64(r.P)))
 		} else if r.Difference.Known() {
-			fmt.Fprintf(&b, "The difference was %s.", formatNum(float64(r.Difference)))
+			fmt.Fprintf(&b, "The difference was %s.", audit.FormatNum(float64(r.Difference)))
 		}
 		if r.PRange[0].Known() && r.PRange[1].Known() {
-			fmt.Fprintf(&b, " Allowing for what was not printed, p lies between %s and %s.", formatP(float64(r.PRange[0])), formatP(float64(r.PRange[1])))
+			fmt.Fprintf(&b, " Allowing for what was not printed, p lies between %s and %s.", audit.FormatP(float64(r.PRange[0])), audit.FormatP(float64(r.PRange[1])))
 		}
 		b.WriteString(" ")
 	}
 	fmt.Fprintf(&b, "Outcome: %s. %s", r.Outcome, outcomeWords[r.Outcome])
 	if r.Recomputed != "" && r.Recomputed != audit.Undetermined && r.Outcome != audit.Conflict {
-		fmt.Fprintf(&b, " The recomputed verdict is that %s at α = %s.", publishedOr(r.Recomputed), formatAlpha(r.Alpha))
+		fmt.Fprintf(&b, " The recomputed verdict is that %s at α = %s.", publishedOr(r.Recomputed), audit.FormatAlpha(r.Alpha))
 	}
 	if caveats := caveatNotes(r); len(caveats) > 0 {
 		b.WriteString(" Caveats: " + strings.Join(caveats, " "))
@@ -103,7 +103,7 @@ func statPhrase(r *audit.ClaimResult) string {
 		return "statistic not defined"
 	}
 	if r.DF.Known() {
-		return fmt.Sprintf("t(%s) = %s", formatNum(float64(r.DF)), formatStat(float64(r.Statistic)))
+		return fmt.Sprintf("t(%s) = %s", audit.FormatNum(float64(r.DF)), formatStat(float64(r.Statistic)))
 	}
 	return "z = " + formatStat(float64(r.Statistic))
 }

@@ -390,7 +390,7 @@ func poolNum(n audit.Number) string {
 	if !n.Known() {
 		return "-"
 	}
-	return formatNum(float64(n))
+	return audit.FormatNum(float64(n))
 }
 
 func poolCI(ci [2]audit.Number) string {
@@ -412,9 +412,9 @@ func poolStat(p *audit.PooledEstimate) string {
 		return "-"
 	}
 	if !p.DF.Known() {
-		return "z = " + formatNum(float64(p.Statistic))
+		return "z = " + audit.FormatNum(float64(p.Statistic))
 	}
-	return fmt.Sprintf("t(%s) = %s", formatNum(float64(p.DF)), formatNum(float64(p.Statistic)))
+	return fmt.Sprintf("t(%s) = %s", audit.FormatNum(float64(p.DF)), audit.FormatNum(float64(p.Statistic)))
 }
 
 // poolPText writes "= 0.012" or "< 0.001".
@@ -423,7 +423,7 @@ func poolPText(p audit.Number) string {
 		return "unknown"
 	}
 	if p < 0.001 {
-		return formatP(float64(p))
+		return audit.FormatP(float64(p))
 	}
-	return "= " + formatP(float64(p))
+	return "= " + audit.FormatP(float64(p))
 }
