@@ -98,7 +98,7 @@ func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) 
 	var rr rowReading
 	var cc claimColumns
 	started := false
-	cols, err := readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) {
+	cols, err := readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) bool {
 		if !started {
 			started = true
 			cols.require("study", "claim", "first", "second", "published")
@@ -109,6 +109,7 @@ func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) 
 		c.Extra = rr.extra()
 		c.Problems = rr.problems
 		out = append(out, c)
+		return true
 	})
 	problems := sheetProblems(cols, pos, "claims")
 	if cols != nil && !started {

@@ -2,7 +2,6 @@ package extract
 
 import (
 	"fmt"
-	"io"
 	"strings"
 )
 
@@ -46,32 +45,19 @@ func claimRows(s *inputSheets, sheet string, each func(rr *rowReading, cc *claim
 	defer src.Close()
 	pos := s.where(sheet)
 	var (
-		row  sheetRow
-		cols *columns
-		cc   claimColumns
-		rr   rowReading
+		cc      claimColumns
+		rr      rowReading
+		started bool
 	)
-	for {
-		err := src.Next(&row)
-		if err == io.EOF {
-			return cols, nil
-		}
-		if err != nil {
-			return cols, err
-		}
-		switch {
-		case row.blank():
-		case cols == nil:
-			cols = newColumns(&row, pos, nameSet(claimColumnNames))
+	return readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) bool {
+		if !started {
+			started = true
 			cols.require("study", "claim", "first", "second", "published")
 			cc = lookupClaimColumns(cols)
-		default:
-			rr.start(cols, &row, pos)
-			if !each(&rr, &cc) {
-				return cols, nil
-			}
 		}
-	}
+		rr.start(cols, row, pos)
+		return each(&rr, &cc)
+	})
 }
 
 // countClaims is the first pass over the claims sheet: the claims rows of
@@ -96,7 +82,8 @@ func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*Cel
 	if cols != nil {
 		extra = append(extra, cols.extraNames...)
 		if rows == 0 {
-			problems = append(problems, &CellError{Position: s.where(sheet), Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
+			cols.require("study", "claim", "first", "second", "published")
+			problems = append(cols.problems, &CellError{Position: s.where(sheet), Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
 		}
 	}
 	return counts, extra, problems, nil

@@ -47,8 +47,9 @@ func shapes(t *testing.T, src *Source) (out []string) {
 // claims sheet read twice, the other sheets whole) yields the studies that
 // reading it whole and splitting it yields, with the same rows and
 // problems, in the same order. Cases: the demo workbook, the test folder,
-// and a folder whose studies interleave, borrow a coefficient by
-// "study:label", and leave a study with coefficients but no claims.
+// a folder whose studies interleave, borrow a coefficient by
+// "study:label", and leave a study with coefficients but no claims, and a
+// claims sheet of a header alone that lacks a required column.
 func TestOpenSheetsAsReadWhole(t *testing.T) {
 	folder := t.TempDir()
 	files := map[string]string{
@@ -61,7 +62,11 @@ func TestOpenSheetsAsReadWhole(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	for _, path := range []string{filepath.Join("..", "fixtures", "demo-review.xlsx"), filepath.Join("testdata", "folder"), folder} {
+	headerOnly := t.TempDir()
+	os.WriteFile(filepath.Join(headerOnly, "claims.csv"), []byte("study,claim,first,second\n"), 0o644)
+	os.WriteFile(filepath.Join(headerOnly, "coefficients.csv"), []byte("study,label,estimate,se\nA,a,0.5,0.1\n"), 0o644)
+	for _, path := range []string{filepath.Join("..", "fixtures", "demo-review.xlsx"), filepath.Join("testdata", "folder"),
+		headerOnly, filepath.Join("testdata", "folder-missing-column"), filepath.Join("testdata", "folder-european"), folder} {
 		t.Run(filepath.Base(path), func(t *testing.T) {
 			src, err := Open(path)
 			if err != nil {

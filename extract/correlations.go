@@ -11,7 +11,7 @@ func readCorrelationSheet(src rowSource, pos Position) ([]Correlation, []*CellEr
 	var rr rowReading
 	started := false
 	var study, group, a, b, rc, n, sd, mean int
-	cols, err := readSheet(src, pos, nameSet(correlationColumnNames), func(cols *columns, row *sheetRow) {
+	cols, err := readSheet(src, pos, nameSet(correlationColumnNames), func(cols *columns, row *sheetRow) bool {
 		if !started {
 			started = true
 			cols.require("study", "var_a", "var_b")
@@ -55,6 +55,7 @@ func readCorrelationSheet(src rowSource, pos Position) ([]Correlation, []*CellEr
 		}
 		c.Problems = rr.problems
 		out = append(out, c)
+		return true
 	})
 	problems := sheetProblems(cols, pos, "correlations")
 	checkDuplicateCorrelations(out)

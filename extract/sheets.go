@@ -28,9 +28,9 @@ func nameSet(names ...[]string) map[string]bool {
 }
 
 // readSheet streams a sheet: the first non-blank row is the header, every
-// later non-blank row goes to each. It returns the header (nil for an empty
+// later non-blank row goes to each, until each returns false. It returns the header (nil for an empty
 // sheet) and a fatal error from the source.
-func readSheet(src rowSource, pos Position, known map[string]bool, each func(cols *columns, row *sheetRow)) (*columns, error) {
+func readSheet(src rowSource, pos Position, known map[string]bool, each func(cols *columns, row *sheetRow) bool) (*columns, error) {
 	var row sheetRow
 	var cols *columns
 	for {
@@ -48,7 +48,9 @@ func readSheet(src rowSource, pos Position, known map[string]bool, each func(col
 			cols = newColumns(&row, pos, known)
 			continue
 		}
-		each(cols, &row)
+		if !each(cols, &row) {
+			return cols, nil
+		}
 	}
 }
 
@@ -372,7 +374,7 @@ func readCoefficientSheet(src rowSource, pos Position) ([]Coefficient, []*CellEr
 	var chunks [][]Coefficient
 	var rr rowReading
 	var cc coefficientColumns
-	cols, err := readSheet(src, pos, nameSet(coefficientColumnNames), func(cols *columns, row *sheetRow) {
+	cols, err := readSheet(src, pos, nameSet(coefficientColumnNames), func(cols *columns, row *sheetRow) bool {
 		if chunks == nil {
 			cols.require("study", "label", "estimate")
 			cc = lookupCoefficientColumns(cols, "")
@@ -384,6 +386,7 @@ func readCoefficientSheet(src rowSource, pos Position) ([]Coefficient, []*CellEr
 		*last = append(*last, Coefficient{})
 		rr.start(cols, row, pos)
 		readCoefficientInto(&rr, &cc, &(*last)[len(*last)-1])
+		return true
 	})
 	if cols != nil && chunks == nil {
 		cols.require("study", "label", "estimate")
