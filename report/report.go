@@ -231,6 +231,11 @@ func Write(format string, w io.Writer, rep *audit.Report) error {
 	if c, ok := wr.(io.Closer); ok {
 		defer c.Close()
 	}
+	return writeTo(wr, rep)
+}
+
+// writeTo writes a report held in memory through wr, a study at a time.
+func writeTo(wr Writer, rep *audit.Report) error {
 	h := Header{Source: rep.Source, Alpha: rep.Alpha, Cautions: rep.Cautions, Adjust: audit.DefaultOptions.Adjust}
 	for i := range rep.Claims {
 		for _, n := range rep.Claims[i].ExtraNames {

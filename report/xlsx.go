@@ -18,6 +18,19 @@ import (
 // rows a worksheet holds (excelize.TotalRows, 1,048,576 with the header).
 var ErrSheetFull = errors.New("more rows than a worksheet holds")
 
+// MaxXLSXClaims is the most claims an xlsx report holds. A workbook is
+// written for people to read, and excelize holds much of a large one in
+// memory while it writes, beside the input's sheets: 100,000 paired claims
+// took 348 MB at their peak, a workbook of 100,000 claims and 200,000
+// coefficients 644 MB and 500,000 paired claims 1.0 GB (/usr/bin/time -v,
+// see the README), beyond the 500 MB any input within the size limits may
+// take. A larger input stops with ErrTooManyForXLSX and leaves no file;
+// csv and json have no such limit.
+const MaxXLSXClaims = 50000
+
+// ErrTooManyForXLSX is returned past MaxXLSXClaims claims.
+var ErrTooManyForXLSX = errors.New("more claims than an xlsx report holds")
+
 // xlsxWriter writes the report as a workbook a review can publish:
 //
 //   - summary: the counts by outcome and by study × outcome, and the cautions;
@@ -43,9 +56,9 @@ var ErrSheetFull = errors.New("more rows than a worksheet holds")
 // problems and a count per study are held until End (the coefficients
 // sheet's header names the unknown columns of every coefficient row, known
 // only then; heldCoefficients keeps them compact), so memory grows with
-// the input's coefficients, not its claims. A sheet holds at most 1,048,575 rows below its header: an input
-// with more claims, or a paired CSV of more than 524,287 claims (two
-// coefficients each), fails with ErrSheetFull; write csv or json instead.
+// the input's coefficients, not its claims. The report holds at
+// most MaxXLSXClaims claims, and a sheet at most 1,048,575 rows below its
+// header (ErrSheetFull, for an input whose coefficients alone pass it).
 //
 // The input sheets keep the names and columns the reader knows, so the
 // workbook can be read back and audited again; the audit's own columns are
@@ -73,12 +86,16 @@ type xlsxWriter struct {
 
 	tally    tallies
 	problems heldProblems
+	// written counts the claims written; maxClaims is MaxXLSXClaims but in
+	// tests.
+	written, maxClaims int
 }
 
 // newXLSXWriter returns the writer; excelize keeps its temporary files in
 // tmpDir (the system's temporary folder when empty).
 func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
-	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{}}
+	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{},
+		maxClaims: MaxXLSXClaims}
 }
 
 // Begin implements Writer: the workbook, its styles, and the headers of
@@ -164,6 +181,9 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 
 // Study implements Writer: the claims' rows and methods paragraphs.
 func (x *xlsxWriter) Study(res audit.StudyResult) error {
+	if x.written += len(res.Claims); x.written > x.maxClaims {
+		return fmt.Errorf("the input has more than %d claims: %w; write csv or json for an input this large", x.maxClaims, ErrTooManyForXLSX)
+	}
 	x.problems.add(res.Problems)
 	x.tally.add(res.Claims)
 	st := x.st

@@ -382,3 +382,21 @@ func TestXLSXTempDir(t *testing.T) {
 		t.Errorf("excelize made temporary files in the system's folder: %v", m)
 	}
 }
+
+// TestXLSXClaimLimit: past its limit of claims the xlsx report stops with
+// ErrTooManyForXLSX, naming csv and json; up to it, it writes them all.
+func TestXLSXClaimLimit(t *testing.T) {
+	rep := tenThousandClaims()
+	for _, limit := range []int{len(rep.Claims), len(rep.Claims) - 1} {
+		wr := newXLSXWriter(io.Discard, t.TempDir())
+		wr.maxClaims = limit
+		err := writeTo(wr, rep)
+		wr.Close()
+		switch {
+		case limit == len(rep.Claims) && err != nil:
+			t.Errorf("%d claims, limit %d: %v", len(rep.Claims), limit, err)
+		case limit < len(rep.Claims) && (!errors.Is(err, ErrTooManyForXLSX) || !strings.Contains(err.Error(), "csv or json")):
+			t.Errorf("%d claims, limit %d: error %v, want ErrTooManyForXLSX naming csv or json", len(rep.Claims), limit, err)
+		}
+	}
+}

@@ -123,7 +123,7 @@ or incomplete, and notes saying why.
 Formats: table (the terminal), json (the output contract), csv, md (one
 Markdown document: a table and each claim's methods paragraph), xlsx (the
 input sheets with the audit's columns beside each claim, a summary and the
-methods text; needs --out; at most 1,048,575 claims) and html (one
+methods text; needs --out; at most 50,000 claims) and html (one
 self-contained page with a line for every claim and, for the first 500
 flagged claims, a card with a chart, to publish or print).
 
