@@ -58,15 +58,18 @@ type Source struct {
 
 // Open opens an input in any of its forms, chosen by what path is (see
 // Read): a workbook, a folder of CSV files, or a single paired CSV. This is
-// the one place where the form of an input is decided. It fails only as
-// Read fails, when nothing can be read.
+// the one place where the form of an input is decided (formOf). It fails
+// only as Read fails, when nothing can be read.
 //
 // Studies come in the order in which their last claims row stands: for the
 // usual file, whose rows of a study stand together, that is input order.
 // Studies that have coefficients, correlations or tables but no claims
-// follow. A paired CSV is read twice, once to count each study's claims
-// and once to yield each study as soon as its last row is read, so that
-// memory holds the studies whose rows are still open, not the file.
+// follow. The claims are read twice, once to count each study's claims
+// rows and once to yield each study as soon as its last row is read: the
+// rows of a paired CSV (openPaired), the claims sheet of a workbook or a
+// folder, whose other sheets are read whole (openSheets). Memory holds the
+// studies whose rows are still open, not the claims: flat for a file whose
+// studies' rows stand together, growing with how far they interleave.
 func Open(path string) (*Source, error) {
 	f, err := formOf(path)
 	if err != nil {
