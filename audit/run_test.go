@@ -1,8 +1,10 @@
 package audit
 
 import (
+	"errors"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -78,3 +80,48 @@ func TestRunInterleavedStudyIsOneFamily(t *testing.T) {
 }
 
 func near(a, b, tol float64) bool { return a-b <= tol && b-a <= tol }
+
+// manyStudies is an input of n studies of one independent claim each.
+func manyStudies(n int) *extract.Input {
+	in := &extract.Input{}
+	for i := range n {
+		s := "S" + strconv.Itoa(i)
+		in.Coefficients = append(in.Coefficients,
+			extract.Coefficient{Study: s, Label: "a", Group: "g", Measure: extract.MeasureB, Estimate: printed("0.500"), SE: printed("0.100")},
+			extract.Coefficient{Study: s, Label: "b", Group: "h", Measure: extract.MeasureB, Estimate: printed("0.200"), SE: printed("0.100")})
+		in.Claims = append(in.Claims, extract.Claim{Study: s, Claim: "c", First: "a", Second: "b", Published: extract.PublishedDiffer, Alpha: 0.05, Basis: extract.BasisTest})
+	}
+	return in
+}
+
+// TestRunStopsOnErrors: an error of emit or of the studies ends Run with
+// that error, after the claims before it, and leaves no goroutine blocked
+// (the test would hang).
+func TestRunStopsOnErrors(t *testing.T) {
+	stop := errors.New("disk full")
+	calls := 0
+	sum, err := Run(extract.FromInput(manyStudies(5000)).Studies(), DefaultOptions, func(StudyResult) error {
+		if calls++; calls == 3 {
+			return stop
+		}
+		return nil
+	})
+	if !errors.Is(err, stop) || calls != 3 || sum.Claims > 3 {
+		t.Errorf("emit failing at call 3: error %v after %d calls, %d claims summed", err, calls, sum.Claims)
+	}
+
+	bad := errors.New("unreadable row")
+	studies := func(yield func(*extract.Study, error) bool) {
+		for st := range extract.FromInput(manyStudies(2)).Studies() {
+			if !yield(st, nil) {
+				return
+			}
+		}
+		yield(nil, bad)
+	}
+	emitted := 0
+	sum, err = Run(studies, DefaultOptions, func(r StudyResult) error { emitted += len(r.Claims); return nil })
+	if !errors.Is(err, bad) || emitted != 2 || sum.Claims != 2 {
+		t.Errorf("studies failing after 2: error %v, %d claims emitted, %d summed; want the error after both claims", err, emitted, sum.Claims)
+	}
+}
