@@ -90,39 +90,18 @@ func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*Cel
 }
 
 // streamClaims is the second pass: it reads the claims rows and yields each
-// study when its last row is read (see openPaired), then the studies that
+// study when its last row is read (studyAssembler), then the studies that
 // have rows on the other sheets but no claims.
 func streamClaims(s *inputSheets, sheet string, counts map[string]int, idx *rowIndex, yield func(*Study, error) bool) {
-	long := map[string]int{}
-	for k, n := range counts {
-		if n > MaxFamily {
-			long[k] = n
-		}
-	}
-	open := map[string]*Study{}
+	a := newStudyAssembler(counts)
 	stopped := false
-	index := 0
 	_, err := claimRows(s, sheet, func(rr *rowReading, cc *claimColumns) bool {
 		c := readClaim(rr, cc, true)
 		c.Extra = rr.extra()
 		c.Problems = rr.problems
-		c.Index = index
-		index++
-		st := open[c.Study]
-		if st == nil {
-			st = &Study{Name: c.Study}
-			open[c.Study] = st
+		if st := a.add(c); st != nil {
+			stopped = !yieldChecked(idx.complete(st), yield)
 		}
-		st.Claims = append(st.Claims, c)
-		counts[c.Study]--
-		if counts[c.Study] > 0 && len(st.Claims) < MaxFamily {
-			return true
-		}
-		delete(open, c.Study)
-		if total, ok := long[c.Study]; ok && total-counts[c.Study] > MaxFamily {
-			st.Problems = append(st.Problems, familyProblem(st.Claims[0], total))
-		}
-		stopped = !yield(idx.complete(st), nil)
 		return !stopped
 	})
 	if stopped {
@@ -132,10 +111,8 @@ func streamClaims(s *inputSheets, sheet string, counts map[string]int, idx *rowI
 		yield(nil, err)
 		return
 	}
-	// Rows the first pass did not see (the file changed between the two
-	// passes) leave studies open: they are yielded as they are.
-	for _, st := range open {
-		if !yield(idx.complete(st), nil) {
+	for _, st := range a.unfinished() {
+		if !yieldChecked(idx.complete(st), yield) {
 			return
 		}
 	}
@@ -213,7 +190,6 @@ func (x *rowIndex) complete(st *Study) *Study {
 		}
 		st.Tables = append(st.Tables, t)
 	}
-	checkDuplicateClaims(st.Claims)
 	return st
 }
 

@@ -208,9 +208,6 @@ type CorrelationTable struct {
 	// N, Mean and SD per variable, where printed (Absent otherwise).
 	N, Mean, SD []Printed
 	Problems    []*CellError
-	// owner is the study whose report carries the table's problems when
-	// its study name matches several studies' names.
-	owner string
 }
 
 // Input is everything read from one input: the rows of every sheet, in

@@ -1,7 +1,6 @@
 package extract
 
 import (
-	"cmp"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -93,19 +92,26 @@ func Open(path string) (*Source, error) {
 }
 
 // FromInput makes a Source of an input already in memory (a workbook or a
-// folder read whole, or one built by a caller). It takes the input over: it
-// numbers its claims (Index) and reads its rows as the studies are yielded,
-// building each study only when its turn comes, so that no more than one
-// study is copied at a time.
+// folder read whole, or one built by a caller), whose studies come as Open
+// gives them: each study is copied out of the input when its last claims
+// row has come, with the rows of the other sheets that belong to it.
 func FromInput(in *Input) *Source {
 	s := &Source{Path: in.Source, problems: in.Problems}
 	s.ClaimColumns = unknownClaimColumns(in.Claims)
 	s.studies = func(yield func(*Study, error) bool) {
-		for _, plan := range planStudies(in) {
-			for _, st := range splitFamilies(plan.build(in)) {
-				if !yield(st, nil) {
-					return
-				}
+		counts := map[string]int{}
+		for i := range in.Claims {
+			counts[in.Claims[i].Study]++
+		}
+		a, idx := newStudyAssembler(counts), newRowIndex(in)
+		for i := range in.Claims {
+			if st := a.add(in.Claims[i]); st != nil && !yield(idx.complete(st), nil) {
+				return
+			}
+		}
+		for _, st := range idx.rest() {
+			if !yield(st, nil) {
+				return
 			}
 		}
 	}
@@ -148,168 +154,6 @@ func unknownClaimColumns(cs []Claim) []string {
 // studyKey is how correlations and tables are matched to a study.
 func studyKey(s string) string { return strings.ToLower(strings.TrimSpace(s)) }
 
-// studyPlan lists the rows of an input that make one study, by index.
-type studyPlan struct {
-	name                                   string
-	claims, coefs, borrowed, corrs, tables []int
-	last                                   int // index of its last claims row
-}
-
-// build copies the study's rows out of the input.
-func (p *studyPlan) build(in *Input) *Study {
-	st := &Study{Name: p.name}
-	for _, i := range p.claims {
-		st.Claims = append(st.Claims, in.Claims[i])
-	}
-	for _, i := range p.coefs {
-		st.Coefficients = append(st.Coefficients, in.Coefficients[i])
-	}
-	for _, i := range p.borrowed {
-		st.Borrowed = append(st.Borrowed, in.Coefficients[i])
-	}
-	for _, i := range p.corrs {
-		st.Correlations = append(st.Correlations, in.Correlations[i])
-	}
-	for _, i := range p.tables {
-		t := in.Tables[i]
-		if t.owner != p.name {
-			t.Problems = nil // reported once, with the first study that has it
-		}
-		st.Tables = append(st.Tables, t)
-	}
-	return st
-}
-
-// planStudies splits an input into its studies, in the order Open states,
-// numbering the claims in input order.
-func planStudies(in *Input) []*studyPlan {
-	byName := map[string]*studyPlan{}
-	var order []*studyPlan
-	get := func(name string) *studyPlan {
-		p := byName[name]
-		if p == nil {
-			p = &studyPlan{name: name}
-			byName[name] = p
-			order = append(order, p)
-		}
-		return p
-	}
-	for i := range in.Claims {
-		in.Claims[i].Index = i
-		p := get(in.Claims[i].Study)
-		p.claims = append(p.claims, i)
-		p.last = i
-	}
-	coefs := map[[2]string]int{}
-	own := map[[2]string]bool{}
-	for i := range in.Coefficients {
-		c := &in.Coefficients[i]
-		p := get(c.Study)
-		p.coefs = append(p.coefs, i)
-		k := [2]string{c.Study, c.Label}
-		own[k] = true
-		if _, dup := coefs[k]; !dup {
-			coefs[k] = i
-		}
-	}
-	byKey := map[string][]*studyPlan{}
-	for _, p := range order {
-		byKey[studyKey(p.name)] = append(byKey[studyKey(p.name)], p)
-	}
-	matching := func(study string) []*studyPlan {
-		ps := byKey[studyKey(study)]
-		if len(ps) == 0 {
-			ps = []*studyPlan{get(study)}
-			byKey[studyKey(study)] = ps
-		}
-		return ps
-	}
-	for i := range in.Correlations {
-		for _, p := range matching(in.Correlations[i].Study) {
-			p.corrs = append(p.corrs, i)
-		}
-	}
-	for i := range in.Tables {
-		ps := matching(in.Tables[i].Study)
-		in.Tables[i].owner = ps[0].name
-		for _, p := range ps {
-			p.tables = append(p.tables, i)
-		}
-	}
-	// A label written "study:label" that is not a label of the claim's own
-	// study borrows the other study's coefficient.
-	for _, p := range order {
-		borrowed := map[int]bool{}
-		for _, ci := range p.claims {
-			cl := &in.Claims[ci]
-			for _, label := range []string{cl.First, cl.Second} {
-				if own[[2]string{p.name, label}] {
-					continue
-				}
-				s, l, found := strings.Cut(label, ":")
-				if !found {
-					continue
-				}
-				k := [2]string{strings.TrimSpace(s), strings.TrimSpace(l)}
-				if i, ok := coefs[k]; ok && !borrowed[i] && k[0] != p.name {
-					borrowed[i] = true
-					p.borrowed = append(p.borrowed, i)
-				}
-			}
-		}
-	}
-	// Studies with claims, by their last claims row; then the others.
-	var with, without []*studyPlan
-	for _, p := range order {
-		if len(p.claims) > 0 {
-			with = append(with, p)
-		} else {
-			without = append(without, p)
-		}
-	}
-	slices.SortStableFunc(with, func(a, b *studyPlan) int { return cmp.Compare(a.last, b.last) })
-	return append(with, without...)
-}
-
-// splitFamilies cuts a study of more than MaxFamily claims into blocks of
-// MaxFamily claims, each with the study's coefficients and tables.
-func splitFamilies(st *Study) []*Study {
-	if len(st.Claims) <= MaxFamily {
-		return []*Study{st}
-	}
-	var out []*Study
-	for start := 0; start < len(st.Claims); start += MaxFamily {
-		end := min(start+MaxFamily, len(st.Claims))
-		block := *st
-		block.Claims = st.Claims[start:end]
-		block.Problems = nil
-		if start > 0 {
-			block.Coefficients, block.Correlations = nil, nil
-			block.Tables = withoutProblems(st.Tables)
-			block.Borrowed = append(append([]Coefficient(nil), st.Borrowed...), st.Coefficients...)
-			block.Problems = []*CellError{familyProblem(st.Claims[start], len(st.Claims))}
-		}
-		out = append(out, &block)
-	}
-	return out
-}
-
-func withoutProblems(ts []CorrelationTable) []CorrelationTable {
-	out := make([]CorrelationTable, len(ts))
-	for i, t := range ts {
-		t.Problems = nil
-		out[i] = t
-	}
-	return out
-}
-
-func familyProblem(first Claim, total int) *CellError {
-	p := first.Position
-	p.Column = "study"
-	return &CellError{Position: p, Err: fmt.Errorf("study %q has %d claims; its claims from this row on are adjusted for multiplicity as a family of their own, in blocks of %d: %w",
-		first.Study, total, MaxFamily, ErrInputTooLarge)}
-}
-
 // openPaired opens a paired CSV: a first pass counts each study's claims
 // rows, the second (Studies) yields a study as soon as its last row is read.
 // A study whose rows stand together is the only one held; studies whose rows
@@ -341,16 +185,8 @@ func openPaired(path string) (*Source, error) {
 			yield(nil, err)
 			return
 		}
-		// counts is spent as rows are read (the sequence is ranged once);
-		// long studies keep their totals for the problem of each block.
-		long := map[string]int{}
-		for k, n := range counts {
-			if n > MaxFamily {
-				long[k] = n
-			}
-		}
-		open := map[string]*Study{}
-		for index := 0; ; index++ {
+		a := newStudyAssembler(counts) // counts is spent: the sequence is ranged once
+		for {
 			pc, err := pr.Next()
 			if errors.Is(err, io.EOF) {
 				break
@@ -359,40 +195,24 @@ func openPaired(path string) (*Source, error) {
 				yield(nil, err)
 				return
 			}
-			pc.Claim.Index = index
-			name := pc.Claim.Study
-			st := open[name]
-			if st == nil {
-				// Sized from the first pass: a study's rows are copied once.
-				n := min(max(counts[name], 1), MaxFamily)
-				st = &Study{Name: name, Claims: make([]Claim, 0, n), Coefficients: make([]Coefficient, 0, 2*n)}
-				open[name] = st
-			}
-			st.Claims = append(st.Claims, pc.Claim)
-			st.Coefficients = append(st.Coefficients, pc.First, pc.Second)
-			counts[name]--
-			if counts[name] > 0 && len(st.Claims) < MaxFamily {
-				continue
-			}
-			delete(open, name)
-			if total, ok := long[name]; ok && total-counts[name] > MaxFamily {
-				st.Problems = append(st.Problems, familyProblem(st.Claims[0], total))
-			}
-			checkDuplicateClaims(st.Claims)
-			if !yield(st, nil) {
+			if st := a.add(pc.Claim, pc.First, pc.Second); st != nil && !yieldChecked(st, yield) {
 				return
 			}
 		}
-		// Rows the first pass did not see (the file changed between the
-		// passes) leave studies open: they are yielded as they are.
-		for _, st := range open {
-			checkDuplicateClaims(st.Claims)
-			if !yield(st, nil) {
+		for _, st := range a.unfinished() {
+			if !yieldChecked(st, yield) {
 				return
 			}
 		}
 	}
 	return s, nil
+}
+
+// yieldChecked yields a study read as a stream, its claim keys checked for
+// duplicates within it (Read checks an input read whole).
+func yieldChecked(st *Study, yield func(*Study, error) bool) bool {
+	checkDuplicateClaims(st.Claims)
+	return yield(st, nil)
 }
 
 // countPaired is the first pass over a paired CSV: the claims rows of each
@@ -430,7 +250,7 @@ func countPaired(path string) (map[string]int, []string, []*CellError, error) {
 // nextStudy returns the study of the next row that has one, as Next would
 // read it, without copying or checking the row's cells. A row the CSV
 // parser rejects counts under what could be read of it; if the second pass
-// reads it otherwise, that study is yielded at the end (see openPaired).
+// reads it otherwise, that study is yielded at the end (studyAssembler.unfinished).
 func (p *PairedReader) nextStudy() (string, error) {
 	i := p.claim.study
 	for {

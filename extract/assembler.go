@@ -1,0 +1,78 @@
+package extract
+
+import (
+	"cmp"
+	"fmt"
+	"maps"
+	"slices"
+)
+
+// studyAssembler gathers claims rows, in input order, into their studies
+// and hands a study on as soon as its last row has come (by the counts of
+// a first pass) or it holds MaxFamily claims. Every input form goes
+// through it, so that studies come in one order and long studies are cut
+// the same way whatever the form.
+type studyAssembler struct {
+	left  map[string]int // claims rows still to come, by study
+	long  map[string]int // the totals of the studies longer than MaxFamily
+	open  map[string]*Study
+	index int // Index of the next claim
+}
+
+// newStudyAssembler takes over counts, the claims rows of each study; it
+// spends them as rows come.
+func newStudyAssembler(counts map[string]int) *studyAssembler {
+	a := &studyAssembler{left: counts, long: map[string]int{}, open: map[string]*Study{}}
+	for k, n := range counts {
+		if n > MaxFamily {
+			a.long[k] = n
+		}
+	}
+	return a
+}
+
+// add puts the next claims row, with the coefficients the row itself
+// carries (a paired CSV's two), into its study, numbering it (Index). It
+// returns the study when it is complete, nil otherwise.
+func (a *studyAssembler) add(c Claim, coefs ...Coefficient) *Study {
+	c.Index = a.index
+	a.index++
+	st := a.open[c.Study]
+	if st == nil {
+		// Sized from the first pass: a study's rows are copied once.
+		n := min(max(a.left[c.Study], 1), MaxFamily)
+		st = &Study{Name: c.Study, Claims: make([]Claim, 0, n)}
+		if len(coefs) > 0 {
+			st.Coefficients = make([]Coefficient, 0, len(coefs)*n)
+		}
+		a.open[c.Study] = st
+	}
+	st.Claims = append(st.Claims, c)
+	st.Coefficients = append(st.Coefficients, coefs...)
+	a.left[c.Study]--
+	if a.left[c.Study] > 0 && len(st.Claims) < MaxFamily {
+		return nil
+	}
+	delete(a.open, c.Study)
+	if total, ok := a.long[c.Study]; ok && total-a.left[c.Study] > MaxFamily {
+		st.Problems = append(st.Problems, familyProblem(st.Claims[0], total))
+	}
+	return st
+}
+
+// unfinished returns the studies still open, by their first claim: rows the
+// first pass did not see (the file changed between the passes) leave them.
+func (a *studyAssembler) unfinished() []*Study {
+	sts := slices.Collect(maps.Values(a.open))
+	slices.SortFunc(sts, func(x, y *Study) int { return cmp.Compare(x.Claims[0].Index, y.Claims[0].Index) })
+	return sts
+}
+
+// familyProblem says that the claims from first on are a block of a study
+// of total claims, adjusted as a family of their own.
+func familyProblem(first Claim, total int) *CellError {
+	p := first.Position
+	p.Column = "study"
+	return &CellError{Position: p, Err: fmt.Errorf("study %q has %d claims; its claims from this row on are adjusted for multiplicity as a family of their own, in blocks of %d: %w",
+		first.Study, total, MaxFamily, ErrInputTooLarge)}
+}
