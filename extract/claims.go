@@ -95,27 +95,11 @@ func parseAlpha(c sheetCell) (float64, error) {
 // one Claim, in order, however malformed.
 func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) {
 	var out []Claim
-	var rr rowReading
-	var cc claimColumns
-	started := false
-	cols, err := readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) bool {
-		if !started {
-			started = true
-			cols.require("study", "claim", "first", "second", "published")
-			cc = lookupClaimColumns(cols)
-		}
-		rr.start(cols, row, pos)
-		c := readClaim(&rr, &cc, true)
-		c.Extra = rr.extra()
-		c.Problems = rr.problems
-		out = append(out, c)
+	cols, err := readClaimRows(src, pos, func(rr *rowReading, cc *claimColumns) bool {
+		out = append(out, claimRow(rr, cc))
 		return true
 	})
-	problems := sheetProblems(cols, pos, "claims")
-	if cols != nil && !started {
-		cols.require("study", "claim", "first", "second", "published")
-		problems = append(cols.problems, &CellError{Position: pos, Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
-	}
+	problems := claimSheetProblems(cols, pos, len(out))
 	checkDuplicateClaims(out)
 	return out, problems, err
 }

@@ -35,15 +35,19 @@ type closeFunc func() error
 
 func (f closeFunc) Close() error { return f() }
 
-// claimRows reads the rows of a claims sheet after its header, calling each
-// for every row that is not blank until it returns false.
+// claimRows opens a claims sheet and reads its rows (readClaimRows).
 func claimRows(s *inputSheets, sheet string, each func(rr *rowReading, cc *claimColumns) bool) (*columns, error) {
 	src, err := s.open(sheet)
 	if err != nil {
 		return nil, err
 	}
 	defer src.Close()
-	pos := s.where(sheet)
+	return readClaimRows(src, s.where(sheet), each)
+}
+
+// readClaimRows reads the rows of a claims sheet after its header, calling
+// each for every row that is not blank until it returns false.
+func readClaimRows(src rowSource, pos Position, each func(rr *rowReading, cc *claimColumns) bool) (*columns, error) {
 	var (
 		cc      claimColumns
 		rr      rowReading
@@ -52,12 +56,36 @@ func claimRows(s *inputSheets, sheet string, each func(rr *rowReading, cc *claim
 	return readSheet(src, pos, nameSet(claimColumnNames), func(cols *columns, row *sheetRow) bool {
 		if !started {
 			started = true
-			cols.require("study", "claim", "first", "second", "published")
+			cols.require(claimRequired...)
 			cc = lookupClaimColumns(cols)
 		}
 		rr.start(cols, row, pos)
 		return each(&rr, &cc)
 	})
+}
+
+// claimRow reads a claims sheet's row whole: the claim, its unknown
+// columns and its problems.
+func claimRow(rr *rowReading, cc *claimColumns) Claim {
+	c := readClaim(rr, cc, true)
+	c.Extra = rr.extra()
+	c.Problems = rr.problems
+	return c
+}
+
+// claimRequired are the columns a claims sheet must have.
+var claimRequired = []string{"study", "claim", "first", "second", "published"}
+
+// claimSheetProblems are the problems of a claims sheet as a whole, once
+// its rows have been read: an empty sheet, missing columns, or a header
+// with no claims under it.
+func claimSheetProblems(cols *columns, pos Position, rows int) []*CellError {
+	problems := sheetProblems(cols, pos, "claims")
+	if cols != nil && rows == 0 {
+		cols.require(claimRequired...)
+		problems = append(cols.problems, &CellError{Position: pos, Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
+	}
+	return problems
 }
 
 // countClaims is the first pass over the claims sheet: the claims rows of
@@ -77,15 +105,11 @@ func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*Cel
 	if err != nil {
 		return nil, nil, nil, err
 	}
-	problems := sheetProblems(cols, s.where(sheet), "claims")
 	var extra []string
 	if cols != nil {
 		extra = append(extra, cols.extraNames...)
-		if rows == 0 {
-			cols.require("study", "claim", "first", "second", "published")
-			problems = append(cols.problems, &CellError{Position: s.where(sheet), Err: fmt.Errorf("the claims sheet has a header but no claims: %w", ErrMissingValue)})
-		}
 	}
+	problems := claimSheetProblems(cols, s.where(sheet), rows)
 	return counts, extra, problems, nil
 }
 
@@ -96,10 +120,7 @@ func streamClaims(s *inputSheets, sheet string, counts map[string]int, idx *rowI
 	a := newStudyAssembler(counts)
 	stopped := false
 	_, err := claimRows(s, sheet, func(rr *rowReading, cc *claimColumns) bool {
-		c := readClaim(rr, cc, true)
-		c.Extra = rr.extra()
-		c.Problems = rr.problems
-		if st := a.add(c); st != nil {
+		if st := a.add(claimRow(rr, cc)); st != nil {
 			stopped = !yieldChecked(idx.complete(st), yield)
 		}
 		return !stopped
