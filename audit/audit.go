@@ -49,15 +49,26 @@ type auditor struct {
 // never fails: a claim that cannot be tested gets the outcome incomplete
 // with notes saying why.
 func Audit(in *extract.Input, opts Options) *Report {
-	src := extract.FromInput(in)
-	rep := &Report{Source: in.Source, Alpha: extract.DefaultAlpha, Cautions: Cautions, Claims: []ClaimResult{}}
-	rep.Summary, _ = Run(src.Studies(), opts, func(res StudyResult) error {
+	rep, _ := Collect(extract.FromInput(in), opts) // an input in memory cannot fail to be read
+	return rep
+}
+
+// Collect audits every study of src into one report held in memory, for
+// what needs every claim at once (pooling, tests). Its problems list the
+// input's own first, then each study's. It fails as Run fails.
+func Collect(src *extract.Source, opts Options) (*Report, error) {
+	rep := &Report{Source: src.Path, Alpha: extract.DefaultAlpha, Cautions: Cautions, Claims: []ClaimResult{}}
+	var err error
+	rep.Summary, err = Run(src.Studies(), opts, func(res StudyResult) error {
 		rep.Claims = append(rep.Claims, res.Claims...)
 		rep.Problems = append(rep.Problems, res.Problems...)
 		return nil
 	})
+	if err != nil {
+		return nil, err
+	}
 	rep.Problems = append(append([]Problem{}, cellProblems(src.Problems())...), rep.Problems...)
-	return rep
+	return rep, nil
 }
 
 // finishClaims adjusts the claims' p within their study (one family) and

@@ -201,20 +201,13 @@ func Collect(path string, o Options) (*audit.Report, error) {
 		return nil, err
 	}
 	defer src.Close()
-	rep := &audit.Report{Source: o.Source, Alpha: extract.DefaultAlpha, Cautions: audit.Cautions,
-		Claims: []audit.ClaimResult{}, Problems: []audit.Problem{}}
-	if rep.Source == "" {
-		rep.Source = path
-	}
-	rep.Summary, err = audit.Run(src.Studies(), o.Audit, func(res audit.StudyResult) error {
-		rep.Claims = append(rep.Claims, res.Claims...)
-		rep.Problems = append(rep.Problems, res.Problems...)
-		return nil
-	})
+	rep, err := audit.Collect(src, o.Audit)
 	if err != nil {
 		return nil, err
 	}
-	rep.Problems = append(audit.InputProblems(src.Problems()), rep.Problems...)
+	if o.Source != "" {
+		rep.Source = o.Source
+	}
 	return rep, nil
 }
 
