@@ -15,6 +15,10 @@ type Options struct {
 	// Adjust names the multiplicity adjustment whose p decides outcomes:
 	// AdjustNone, AdjustHolm or AdjustBH.
 	Adjust string
+
+	// families, when set, holds the adjusted p of claims whose families
+	// are audited in pieces (StudiesOf).
+	families *familyPValues
 }
 
 // Multiplicity adjustments for Options.Adjust.
@@ -58,8 +62,11 @@ func Audit(in *extract.Input, opts Options) *Report {
 // input's own first, then each study's. It fails as Run fails.
 func Collect(src *extract.Source, opts Options) (*Report, error) {
 	rep := &Report{Source: src.Path, Alpha: extract.DefaultAlpha, Cautions: Cautions, Claims: []ClaimResult{}}
-	var err error
-	rep.Summary, err = Run(src.Studies(), opts, func(res StudyResult) error {
+	studies, opts, err := StudiesOf(src, opts)
+	if err != nil {
+		return nil, err
+	}
+	rep.Summary, err = Run(studies, opts, func(res StudyResult) error {
 		rep.Claims = append(rep.Claims, res.Claims...)
 		rep.Problems = append(rep.Problems, res.Problems...)
 		return nil
@@ -74,7 +81,11 @@ func Collect(src *extract.Source, opts Options) (*Report, error) {
 // finishClaims adjusts the claims' p within their study (one family) and
 // decides their outcomes.
 func finishClaims(claims []ClaimResult, opts Options) {
-	adjustFamily(claims)
+	if opts.families != nil {
+		opts.families.apply(claims)
+	} else {
+		adjustFamily(claims)
+	}
 	for i := range claims {
 		claims[i].settle(opts.Adjust)
 	}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"maps"
 	"slices"
+	"strings"
 )
 
 // studyAssembler gathers claims rows, in input order, into their studies
@@ -13,7 +14,9 @@ import (
 // through it, so that studies come in one order and long studies are cut
 // the same way whatever the form.
 type studyAssembler struct {
-	left  map[string]int // claims rows still to come, by study
+	// left holds the claims rows still to come, by study, counted down
+	// through pointers as rowCounts counts up.
+	left  map[string]*int
 	long  map[string]int // the totals of the studies longer than MaxFamily
 	open  map[string]*Study
 	index int // Index of the next claim
@@ -22,8 +25,9 @@ type studyAssembler struct {
 // newStudyAssembler takes over counts, the claims rows of each study; it
 // spends them as rows come.
 func newStudyAssembler(counts map[string]int) *studyAssembler {
-	a := &studyAssembler{left: counts, long: map[string]int{}, open: map[string]*Study{}}
+	a := &studyAssembler{left: make(map[string]*int, len(counts)), long: map[string]int{}, open: map[string]*Study{}}
 	for k, n := range counts {
+		a.left[k] = &n
 		if n > MaxFamily {
 			a.long[k] = n
 		}
@@ -37,10 +41,15 @@ func newStudyAssembler(counts map[string]int) *studyAssembler {
 func (a *studyAssembler) add(c Claim, coefs ...Coefficient) *Study {
 	c.Index = a.index
 	a.index++
+	left := a.left[c.Study]
+	if left == nil { // a row the first pass did not see
+		left = new(int)
+		a.left[strings.Clone(c.Study)] = left
+	}
 	st := a.open[c.Study]
 	if st == nil {
 		// Sized from the first pass: a study's rows are copied once.
-		n := min(max(a.left[c.Study], 1), MaxFamily)
+		n := min(max(*left, 1), MaxFamily)
 		st = &Study{Name: c.Study, Claims: make([]Claim, 0, n)}
 		if len(coefs) > 0 {
 			st.Coefficients = make([]Coefficient, 0, len(coefs)*n)
@@ -49,12 +58,12 @@ func (a *studyAssembler) add(c Claim, coefs ...Coefficient) *Study {
 	}
 	st.Claims = append(st.Claims, c)
 	st.Coefficients = append(st.Coefficients, coefs...)
-	a.left[c.Study]--
-	if a.left[c.Study] > 0 && len(st.Claims) < MaxFamily {
+	*left--
+	if *left > 0 && len(st.Claims) < MaxFamily {
 		return nil
 	}
 	delete(a.open, c.Study)
-	if total, ok := a.long[c.Study]; ok && total-a.left[c.Study] > MaxFamily {
+	if total, ok := a.long[c.Study]; ok && total-*left > MaxFamily {
 		st.Problems = append(st.Problems, familyProblem(st.Claims[0], total))
 	}
 	return st
@@ -75,4 +84,31 @@ func familyProblem(first Claim, total int) *CellError {
 	p.Column = "study"
 	return &CellError{Position: p, Err: fmt.Errorf("study %q has %d claims; its claims from this row on are adjusted for multiplicity as a family of their own, in blocks of %d: %w",
 		first.Study, total, MaxFamily, ErrInputTooLarge)}
+}
+
+// rowCounts counts claims rows by study during a first pass. Its keys are
+// copies, and it counts through pointers, because a key assigned to a map
+// again is stored again: a study cell is cut from its whole input line,
+// which would keep the last line of every study alive.
+type rowCounts map[string]*int
+
+// add counts one row of study and reports whether the study was seen
+// before.
+func (c rowCounts) add(study string) (seen bool) {
+	n, seen := c[study]
+	if !seen {
+		n = new(int)
+		c[strings.Clone(study)] = n
+	}
+	*n++
+	return seen
+}
+
+// totals returns the counts by study.
+func (c rowCounts) totals() map[string]int {
+	out := make(map[string]int, len(c))
+	for k, n := range c {
+		out[k] = *n
+	}
+	return out
 }

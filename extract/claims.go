@@ -106,21 +106,56 @@ func readClaimSheet(src rowSource, pos Position) ([]Claim, []*CellError, error) 
 
 // checkDuplicateClaims flags a claim key used twice within a study.
 func checkDuplicateClaims(cs []Claim) {
-	type key struct{ study, claim string }
-	seen := make(map[key]int, len(cs))
+	make(duplicateClaims, len(cs)).check(cs, nil)
+}
+
+// duplicateClaims remembers the row of each claim key (study, claim) seen,
+// so that claims read in several pieces are checked against each other.
+type duplicateClaims map[claimKey]int
+
+type claimKey struct{ study, claim string }
+
+// check flags each claim of cs whose key was seen before, in cs or in an
+// earlier call, remembers the keys that are new, and returns the indexes
+// in cs of the claims flagged. When may is not nil, only the claims whose
+// key may be used twice by its word are checked, and their keys alone
+// remembered.
+func (seen duplicateClaims) check(cs []Claim, may func(study, claim string) bool) []int {
+	var dups []int
 	for i := range cs {
 		c := &cs[i]
-		if c.Claim == "" {
+		if c.Claim == "" || may != nil && !may(c.Study, c.Claim) {
 			continue
 		}
-		k := key{c.Study, c.Claim}
-		if j, dup := seen[k]; dup {
+		k := claimKey{c.Study, c.Claim}
+		if row, dup := seen[k]; dup {
 			p := c.Position
 			p.Column = "claim"
 			c.Problems = append(c.Problems, &CellError{Position: p,
-				Err: fmt.Errorf("claim %q appears twice in study %q (first on row %d): %w", c.Claim, c.Study, cs[j].Row, ErrDuplicate)})
+				Err: fmt.Errorf("claim %q appears twice in study %q (first on row %d): %w", c.Claim, c.Study, row, ErrDuplicate)})
+			dups = append(dups, i)
 			continue
 		}
-		seen[k] = i
+		seen[k] = c.Row
+	}
+	return dups
+}
+
+// checkPaired checks the claim keys of rows of a paired CSV, whose
+// coefficients are two a claim in the same order (2i and 2i+1 for claim
+// i). A row whose key was used before cannot be read; its coefficients'
+// labels ("<claim>/first") get its row added, so that they do not make the
+// first row's ambiguous: the first row is audited and the later one is
+// not, wherever they stand in the file. may is as for check.
+func (seen duplicateClaims) checkPaired(cs []Claim, coefs []Coefficient, may func(study, claim string) bool) {
+	if len(coefs) != 2*len(cs) {
+		return
+	}
+	for _, i := range seen.check(cs, may) {
+		c := &cs[i]
+		suffix := fmt.Sprintf(" (row %d)", c.Row)
+		c.First += suffix
+		c.Second += suffix
+		coefs[2*i].Label, coefs[2*i+1].Label = c.First, c.Second
 	}
 }

@@ -91,14 +91,10 @@ func claimSheetProblems(cols *columns, pos Position, rows int) []*CellError {
 // countClaims is the first pass over the claims sheet: the claims rows of
 // each study, the claims' unknown columns and the sheet's problems.
 func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*CellError, error) {
-	counts := map[string]int{}
+	counts := rowCounts{}
 	rows := 0
 	cols, err := claimRows(s, sheet, func(rr *rowReading, cc *claimColumns) bool {
-		study := rr.text(cc.study)
-		if _, seen := counts[study]; !seen {
-			study = strings.Clone(study) // not the whole row's text
-		}
-		counts[study]++
+		counts.add(rr.text(cc.study))
 		rows++
 		return true
 	})
@@ -110,7 +106,7 @@ func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*Cel
 		extra = append(extra, cols.extraNames...)
 	}
 	problems := claimSheetProblems(cols, s.where(sheet), rows)
-	return counts, extra, problems, nil
+	return counts.totals(), extra, problems, nil
 }
 
 // streamClaims is the second pass: it reads the claims rows and yields each

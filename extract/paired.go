@@ -187,6 +187,6 @@ func readPairedFile(path string) (*Input, error) {
 		in.Problems = append(in.Problems, &CellError{Position: Position{File: path},
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})
 	}
-	checkDuplicateClaims(in.Claims)
+	make(duplicateClaims, len(in.Claims)).checkPaired(in.Claims, in.Coefficients, nil)
 	return in, nil
 }

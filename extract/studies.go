@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
+	"hash/maphash"
 	"io"
 	"iter"
 	"os"
@@ -53,6 +54,9 @@ type Source struct {
 	problems []*CellError
 	studies  func(yield func(*Study, error) bool)
 	closer   io.Closer
+	// pieces, for an input whose studies interleave, yields its claims
+	// rows in runs of one study (Pieces).
+	pieces func(yield func(*Study, error) bool)
 }
 
 // Open opens an input in any of its forms, chosen by what path is (see
@@ -68,7 +72,9 @@ type Source struct {
 // rows of a paired CSV (openPaired), the claims sheet of a workbook or a
 // folder, whose other sheets are read whole (openSheets). Memory holds the
 // studies whose rows are still open, not the claims: flat for a file whose
-// studies' rows stand together, growing with how far they interleave.
+// studies' rows stand together, growing with how far they interleave. A
+// paired CSV whose studies interleave, the one form without a size limit,
+// is read in pieces instead (Interleaved, Pieces), in flat memory.
 func Open(path string) (*Source, error) {
 	f, err := formOf(path)
 	if err != nil {
@@ -123,6 +129,25 @@ func FromInput(in *Input) *Source {
 // beyond the size limits). It may be ranged over once.
 func (s *Source) Studies() iter.Seq2[*Study, error] { return s.studies }
 
+// Interleaved reports whether the input's studies interleave so far that
+// Studies would hold them in memory, and Pieces should be read instead.
+// Only a paired CSV, the one form without a size limit, says so: the
+// first pass finds a study whose rows resume after another study's.
+func (s *Source) Interleaved() bool { return s.pieces != nil }
+
+// Pieces returns the claims rows of an input whose studies interleave
+// (Interleaved) in input order, as runs of consecutive rows of one study,
+// each run a Study of its own with the coefficients its rows carry and at
+// most MaxFamily claims. Claim keys are checked for duplicates across the
+// whole study, and the run that holds the first claim of a study's second
+// or later block of MaxFamily claims carries the problem saying so, as
+// Studies would. The claims keep their Index. A caller that wants a
+// study's claims to be one family (audit.RunSource) reads the pieces
+// twice: once to learn each family's p-values and once to report. Unlike
+// Studies, Pieces may be ranged over more than once. It is nil when the
+// input does not interleave.
+func (s *Source) Pieces() iter.Seq2[*Study, error] { return s.pieces }
+
 // Problems returns the problems of the input that belong to no study (a
 // missing sheet or column, a header-only file). It is complete once the
 // studies have been read.
@@ -157,10 +182,11 @@ func studyKey(s string) string { return strings.ToLower(strings.TrimSpace(s)) }
 // openPaired opens a paired CSV: a first pass counts each study's claims
 // rows, the second (Studies) yields a study as soon as its last row is read.
 // A study whose rows stand together is the only one held; studies whose rows
-// interleave are held until their last row, so memory grows only with the
-// interleaving, never with the length of the file.
+// interleave are held until their last row, so memory grows with the
+// interleaving. A file whose studies interleave is therefore read in pieces
+// as well (Pieces), which hold one run of rows at a time.
 func openPaired(path string) (*Source, error) {
-	counts, extra, headerProblems, err := countPaired(path)
+	counts, interleaved, repeated, extra, headerProblems, err := countPaired(path)
 	if err != nil {
 		return nil, err
 	}
@@ -195,17 +221,96 @@ func openPaired(path string) (*Source, error) {
 				yield(nil, err)
 				return
 			}
-			if st := a.add(pc.Claim, pc.First, pc.Second); st != nil && !yieldChecked(st, yield) {
+			if st := a.add(pc.Claim, pc.First, pc.Second); st != nil && !yieldPaired(st, yield) {
 				return
 			}
 		}
 		for _, st := range a.unfinished() {
-			if !yieldChecked(st, yield) {
+			if !yieldPaired(st, yield) {
 				return
 			}
 		}
 	}
+	if interleaved {
+		long := map[string]int{} // Studies spends counts
+		for k, n := range counts {
+			if n > MaxFamily {
+				long[k] = n
+			}
+		}
+		s.pieces = func(yield func(*Study, error) bool) { pairedPieces(path, long, repeated, yield) }
+	}
 	return s, nil
+}
+
+// pairedPieces yields the rows of the paired CSV at path in runs of one
+// study (Source.Pieces). long holds the claims rows of each study longer
+// than MaxFamily, from the first pass, and repeated the claim keys that
+// may be used twice; both are only read.
+func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yield func(*Study, error) bool) {
+	f, err := os.Open(path)
+	if err != nil {
+		yield(nil, err)
+		return
+	}
+	defer f.Close()
+	pr, err := NewPairedReader(f, path)
+	if err != nil {
+		yield(nil, err)
+		return
+	}
+	seen := duplicateClaims{}
+	read := rowCounts{} // claims rows read so far, by long study
+	var run *Study
+	index := 0
+	flush := func() bool {
+		if run == nil {
+			return true
+		}
+		st := run
+		run = nil
+		// Only the keys that may repeat are checked, and held (in seen).
+		seen.checkPaired(st.Claims, st.Coefficients, repeated.may)
+		return yield(st, nil)
+	}
+	for {
+		pc, err := pr.Next()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			yield(nil, err)
+			return
+		}
+		c := pc.Claim
+		c.Index = index
+		index++
+		block := false
+		if _, ok := long[c.Study]; ok { // only a long study has blocks
+			read.add(c.Study)
+			n := *read[c.Study] - 1 // the claims of the study before this one
+			block = n > 0 && n%MaxFamily == 0
+		}
+		if run != nil && (run.Name != c.Study || block || len(run.Claims) == MaxFamily) && !flush() {
+			return
+		}
+		if run == nil {
+			run = &Study{Name: c.Study}
+		}
+		if block {
+			run.Problems = append(run.Problems, familyProblem(c, long[c.Study]))
+		}
+		run.Claims = append(run.Claims, c)
+		run.Coefficients = append(run.Coefficients, pc.First, pc.Second)
+	}
+	flush()
+}
+
+// yieldPaired yields a study of a paired CSV, its claim keys checked for
+// duplicates within it (duplicateClaims.checkPaired).
+func yieldPaired(st *Study, yield func(*Study, error) bool) bool {
+	make(duplicateClaims, len(st.Claims)).checkPaired(st.Claims, st.Coefficients, nil)
+	return yield(st, nil)
 }
 
 // yieldChecked yields a study read as a stream, its claim keys checked for
@@ -218,58 +323,105 @@ func yieldChecked(st *Study, yield func(*Study, error) bool) bool {
 // countPaired is the first pass over a paired CSV: the claims rows of each
 // study, the claims' unknown columns and the header's problems. It reads
 // the study cell of each row and parses nothing else.
-func countPaired(path string) (map[string]int, []string, []*CellError, error) {
+//
+// It also finds whether studies interleave, and, when they do, which claim
+// keys may be used twice (repeatedKeys), so that the pieces (Source.
+// Pieces) need hold only those keys to find duplicates across a study.
+func countPaired(path string) (counts map[string]int, interleaved bool, repeated *repeatedKeys, extra []string, problems []*CellError, err error) {
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, nil, nil, err
+		return nil, false, nil, nil, nil, err
 	}
 	defer f.Close()
 	pr, err := NewPairedReader(f, path)
 	if err != nil {
-		return nil, nil, nil, err
+		return nil, false, nil, nil, nil, err
 	}
-	counts := map[string]int{}
+	rows := rowCounts{}
+	last := ""
+	keys := &repeatedKeys{seed: maphash.MakeSeed()}
+	var hashes []uint64
 	for {
-		study, err := pr.nextStudy()
+		study, claim, err := pr.nextKey()
 		if errors.Is(err, io.EOF) {
 			break
 		}
 		if err != nil {
-			return nil, nil, nil, err
+			return nil, false, nil, nil, nil, err
 		}
-		if _, seen := counts[study]; !seen {
-			// A cell is cut from its whole input line, which a key would
-			// keep alive for the rest of the run.
-			study = strings.Clone(study)
+		hashes = append(hashes, keys.hash(study, claim))
+		if rows.add(study) && study != last {
+			interleaved = true
 		}
-		counts[study]++
+		last = study
 	}
-	return counts, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
+	counts = rows.totals()
+	if interleaved {
+		keys.find(hashes)
+		repeated = keys
+	}
+	return counts, interleaved, repeated, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
 }
 
-// nextStudy returns the study of the next row that has one, as Next would
-// read it, without copying or checking the row's cells. A row the CSV
+// repeatedKeys knows which claim keys (study, claim) of a file more than
+// one row may have: those whose hash more than one row has. Holding every
+// key of a shuffled file of a million rows, to find the few used twice,
+// would take more memory than the rest of its reading; the hashes of the
+// first pass, sorted, take 8 bytes a row for that pass alone.
+type repeatedKeys struct {
+	seed  maphash.Seed
+	twice map[uint64]bool
+}
+
+// hash is the hash of a claim key.
+func (k *repeatedKeys) hash(study, claim string) uint64 {
+	var h maphash.Hash
+	h.SetSeed(k.seed)
+	h.WriteString(study)
+	h.WriteByte(0)
+	h.WriteString(claim)
+	return h.Sum64()
+}
+
+// find keeps the hashes that occur more than once in hashes, which it sorts.
+func (k *repeatedKeys) find(hashes []uint64) {
+	slices.Sort(hashes)
+	k.twice = map[uint64]bool{}
+	for i := 1; i < len(hashes); i++ {
+		if hashes[i] == hashes[i-1] {
+			k.twice[hashes[i]] = true
+		}
+	}
+}
+
+// may reports whether the claim key may be used by more than one row.
+func (k *repeatedKeys) may(study, claim string) bool { return k.twice[k.hash(study, claim)] }
+
+// nextKey returns the study and claim cells of the next row that has
+// either, as Next would read them, without copying or checking the row's
+// cells. A row the CSV
 // parser rejects counts under what could be read of it; if the second pass
 // reads it otherwise, that study is yielded at the end (studyAssembler.unfinished).
-func (p *PairedReader) nextStudy() (string, error) {
-	i := p.claim.study
+func (p *PairedReader) nextKey() (study, claim string, err error) {
+	cell := func(rec []string, i int) string {
+		if i >= 0 && i < len(rec) {
+			return trimSpace(rec[i])
+		}
+		return ""
+	}
 	for {
 		rec, err := p.src.r.Read()
 		p.src.lim.recordStart = p.src.r.InputOffset() // as fill does
 		var pe *csv.ParseError
 		switch {
 		case err == io.EOF:
-			return "", io.EOF
+			return "", "", io.EOF
 		case err != nil && !errors.As(err, &pe):
-			return "", p.src.readError(err, nil, &p.row)
+			return "", "", p.src.readError(err, nil, &p.row)
 		}
-		if i >= 0 && i < len(rec) {
-			if study := trimSpace(rec[i]); study != "" {
-				return study, nil
-			}
-		}
-		if !recordIsBlank(rec) {
-			return "", nil
+		study, claim = cell(rec, p.claim.study), cell(rec, p.claim.claim)
+		if study != "" || claim != "" || !recordIsBlank(rec) {
+			return study, claim, nil
 		}
 	}
 }

@@ -2,6 +2,7 @@ package extract
 
 import (
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -68,6 +69,65 @@ func TestOpenPairedInterleaved(t *testing.T) {
 	dup := sts[1].Claims[2].Problems
 	if len(dup) != 1 || !errors.Is(dup[0], ErrDuplicate) || dup[0].Row != 6 || !strings.Contains(dup[0].Error(), "first on row 2") {
 		t.Errorf("the repeated claim c1 of A on row 6 has problems %v, want one duplicate naming row 2", dup)
+	}
+}
+
+// TestPairedPieces: a paired CSV whose studies interleave says so and
+// gives its rows again as runs of one study, in input order, twice alike;
+// the repeated key of A is found across the runs, and its row's labels
+// get the row so that they do not collide with the first row's. A file
+// whose studies stand together has no pieces.
+func TestPairedPieces(t *testing.T) {
+	path := writeFile(t, "paired.csv", pairedHeader+
+		"A,c1,differ,0.5,0.1,0.2,0.1,x\n"+
+		"A,c3,differ,0.5,0.1,0.2,0.1,x\n"+
+		"B,c1,differ,0.4,0.1,0.1,0.1,x\n"+
+		"A,c2,differ,0.3,0.1,0.2,0.1,x\n"+
+		"A,c1,differ,0.6,0.1,0.2,0.1,x\n")
+	src, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer src.Close()
+	if !src.Interleaved() {
+		t.Fatal("the studies interleave, and the source does not say so")
+	}
+	for pass := range 2 {
+		var runs []string
+		var last *Study
+		for st, err := range src.Pieces() {
+			if err != nil {
+				t.Fatal(err)
+			}
+			run := st.Name + ":"
+			for i, c := range st.Claims {
+				run += fmt.Sprintf(" %s@%d", c.Claim, c.Index)
+				if st.Coefficients[2*i].Label != c.First || st.Coefficients[2*i+1].Label != c.Second {
+					t.Errorf("claim %s names %s/%s, its coefficients are %s/%s", c.Claim, c.First, c.Second, st.Coefficients[2*i].Label, st.Coefficients[2*i+1].Label)
+				}
+			}
+			runs = append(runs, run)
+			last = st
+		}
+		if got := strings.Join(runs, " | "); got != "A: c1@0 c3@1 | B: c1@2 | A: c2@3 c1@4" {
+			t.Errorf("pass %d: pieces %q", pass+1, got)
+		}
+		dup := last.Claims[1]
+		if len(dup.Problems) != 1 || !errors.Is(dup.Problems[0], ErrDuplicate) || !strings.Contains(dup.Problems[0].Error(), "first on row 2") || dup.First != "c1/first (row 6)" {
+			t.Errorf("pass %d: the repeated c1 of A is %q with problems %v, want one duplicate naming row 2, labels with row 6", pass+1, dup.First, dup.Problems)
+		}
+	}
+
+	together := writeFile(t, "together.csv", pairedHeader+
+		"A,c1,differ,0.5,0.1,0.2,0.1,x\n"+
+		"B,c1,differ,0.4,0.1,0.1,0.1,x\n")
+	src2, err := Open(together)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer src2.Close()
+	if src2.Interleaved() || src2.Pieces() != nil {
+		t.Error("a file whose studies stand together is read in pieces")
 	}
 }
 

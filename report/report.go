@@ -147,14 +147,17 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 	if err := wr.Begin(h); err != nil {
 		return audit.Summary{}, fmt.Errorf("writing the %s report: %w", format, err)
 	}
-	studies := src.Studies()
+	studies, opts, err := audit.StudiesOf(src, o.Audit)
+	if err != nil {
+		return audit.Summary{}, err
+	}
 	// audit.Run reads the studies in a goroutine of its own: Input (as a
 	// study is read) and Study (as results come back) take turns.
 	var turn sync.Mutex
 	if iw, ok := wr.(InputWriter); ok {
 		studies = showingInput(studies, iw, &turn)
 	}
-	sum, err := audit.Run(studies, o.Audit, func(res audit.StudyResult) error {
+	sum, err := audit.Run(studies, opts, func(res audit.StudyResult) error {
 		turn.Lock()
 		defer turn.Unlock()
 		if err := wr.Study(res); err != nil {
