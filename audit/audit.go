@@ -255,6 +255,11 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
+	if reflectsSecond(cl.Published, rc1.Estimate, rc2.Estimate) {
+		r.reflected = true
+		reflect(rc2)
+		r.Notes = append(r.Notes, reflectedNote)
+	}
 	r.Overlap = overlapOf(rc1, rc2, r)
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {

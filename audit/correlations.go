@@ -18,7 +18,7 @@ func (a *auditor) independentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffi
 		r.Notes = append(r.Notes, "Without both n the correlations are compared on Fisher's z scale with SEs taken from their intervals, and no interval for ρ1 − ρ2 is given.")
 		return
 	}
-	cmp, err := correlation.CompareIndependent(c1.Estimate.Value, int(rc1.N), c2.Estimate.Value, int(rc2.N), 1-r.Alpha)
+	cmp, err := correlation.CompareIndependent(c1.Estimate.Value, int(rc1.N), r.signOf(true)*c2.Estimate.Value, int(rc2.N), 1-r.Alpha)
 	if err != nil {
 		r.Notes = append(r.Notes, "The Fisher z test could not be run: "+err.Error()+".")
 		return
@@ -108,6 +108,10 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 			return false
 		}
 		vals := []extract.Printed{c1.Estimate, c2.Estimate, pkh}
+		if r.reflected {
+			// Reflect hh, the second correlation's own variable.
+			vals[1], vals[2] = negated(vals[1]), negated(vals[2])
+		}
 		eval := func(v []float64) (correlation.Comparison, error) {
 			return correlation.CompareOverlapping(v[0], v[1], v[2], int(n), level)
 		}
@@ -126,6 +130,10 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	if len(missing) > 0 {
 		r.Notes = append(r.Notes, fmt.Sprintf("The correlations %s are not in %s.", strings.Join(missing, ", "), src.name))
 		return false
+	}
+	if r.reflected {
+		// Reflect m: r(h,m), r(j,m) and r(k,m) turn sign.
+		vals[1], vals[3], vals[5] = negated(vals[1]), negated(vals[3]), negated(vals[5])
 	}
 	eval := func(v []float64) (correlation.Comparison, error) {
 		return correlation.CompareNonOverlapping(correlation.NonOverlapping{JK: v[0], HM: v[1], JH: v[2], JM: v[3], KH: v[4], KM: v[5]}, int(n), level)
@@ -175,6 +183,6 @@ func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient
 	}
 	walk(0)
 	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
-	r.classify(c1.Estimate.Value, c2.Estimate.Value, dr, pr, rangeGrid)
+	r.classify(vals[0].Value, vals[1].Value, dr, pr, rangeGrid)
 	return true
 }

@@ -50,6 +50,9 @@ func commonDF(r *ClaimResult, rc1, rc2 *extract.Reconstructed) float64 {
 // correlation ρ of the two estimates: Var(d) = SE1² + SE2² − 2ρ SE1 SE2.
 func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
+	if r.reflected {
+		rho = negated(rho)
+	}
 	d, err := infer.CorrelatedDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, rho.Value, df, 1-r.Alpha)
 	if err != nil {
 		r.Notes = append(r.Notes, "The difference could not be tested with the printed estimate_corr: "+err.Error()+".")

@@ -65,6 +65,9 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 		return false
 	}
 	i, j := indexOf(preds, c1.Predictor), indexOf(preds, c2.Predictor)
+	if r.reflected {
+		table.reflect(j + 1) // the outcome is variable 0
+	}
 	level := 1 - r.Alpha
 	res, err := table.test(table.point(), int(n), i, j, unstd, level)
 	if err != nil {
@@ -92,7 +95,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	r.P = Number(res.diff.P)
 	r.PoolEstimate, r.PoolSE, r.PoolScale = r.Difference, r.DifferenceSE, extract.ScaleAsPrinted
 	r.First.Estimate, r.First.SE, r.First.SEFrom = Number(res.est[i]), Number(res.se[i]), "rebuilt from "+src.name
-	r.Second.Estimate, r.Second.SE, r.Second.SEFrom = Number(res.est[j]), Number(res.se[j]), "rebuilt from "+src.name
+	r.Second.Estimate, r.Second.SE, r.Second.SEFrom = Number(r.signOf(true)*res.est[j]), Number(res.se[j]), "rebuilt from "+src.name
 	kind := "classical OLS covariance, t with the residual df"
 	if !unstd {
 		kind = "normal-theory delta-method covariance of standardized coefficients (Yuan & Chan 2011; Jones & Waller 2013), z test"
@@ -124,8 +127,12 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 		}
 	}
 	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
-	r.classify(res.est[i], res.est[j], dr, pr, rangeGrid)
+	r.classify(res.est[i], res.est[j], dr, pr, rangeGrid) // j reflected for magnitude
 
+	if r.reflected {
+		estLo[j], estHi[j] = -estHi[j], -estLo[j]
+		res.est[j] = -res.est[j]
+	}
 	var conflicts []string
 	for _, pc := range []struct {
 		c *extract.Coefficient
@@ -159,6 +166,17 @@ type modelTable struct {
 	sds      []extract.Printed
 	unstd    bool
 	printedN int
+	// reflected marks variables whose scoring is reversed (their
+	// correlations turn sign), for claims about magnitude; nil for none.
+	reflected []bool
+}
+
+// reflect reverses the scoring of variable k.
+func (t *modelTable) reflect(k int) {
+	if t.reflected == nil {
+		t.reflected = make([]bool, len(t.r))
+	}
+	t.reflected[k] = !t.reflected[k]
 }
 
 func newModelTable(src *corrSource, vars []string, unstd bool) (*modelTable, error) {
@@ -221,7 +239,11 @@ func (t *modelTable) build(at func(extract.Printed) float64) values {
 	for a := 0; a < q; a++ {
 		m.SetSym(a, a, 1)
 		for b := a + 1; b < q; b++ {
-			m.SetSym(a, b, math.Max(-1, math.Min(1, at(t.r[a][b]))))
+			v := math.Max(-1, math.Min(1, at(t.r[a][b])))
+			if t.reflected != nil && t.reflected[a] != t.reflected[b] {
+				v = -v
+			}
+			m.SetSym(a, b, v)
 		}
 	}
 	v := values{r: m}

@@ -121,6 +121,9 @@ type ClaimResult struct {
 	dec      decision
 	decided  bool
 	conflict bool
+	// reflected is set when a claim about magnitude compares estimates of
+	// opposite sign: the second is tested with its sign turned.
+	reflected bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
 }

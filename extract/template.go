@@ -151,7 +151,7 @@ var instructions = []instruction{
 	instructionHeading("Sheet claims: one row per comparison the paper made between two coefficients"),
 	instructionLine("study, claim: keys; claim names the comparison and is unique within the study."),
 	instructionLine("first, second: the labels of the two coefficients compared, from the coefficients sheet of the same study."),
-	instructionLine("published: what the paper concluded: differ, no-difference, first-larger or second-larger."),
+	instructionLine("published: what the paper concluded: differ, no-difference, first-larger or second-larger (signed: the first estimate is above the second), first-stronger or second-stronger (magnitude: |estimate|; for ratios the distance from 1)."),
 	instructionLine("published_p: the p-value the paper gave for the difference itself, if any."),
 	instructionLine("basis: how the paper reached its verdict: test (a test of the difference), overlap (whether the intervals overlap), significance-split (one significant, the other not), unstated."),
 	instructionLine("alpha: the significance level (blank means 0.05). estimate_corr: the correlation between the two estimates, where the paper reported it. topic: claims with the same topic can be pooled."),

@@ -23,17 +23,19 @@ var methodDescriptions = map[string]string{
 }
 
 var publishedWords = map[string]string{
-	extract.PublishedDiffer:       "the two estimates differ",
-	extract.PublishedNoDifference: "the two estimates do not differ",
-	extract.PublishedFirstLarger:  "the first is the larger",
-	extract.PublishedSecondLarger: "the second is the larger",
+	extract.PublishedDiffer:         "the two estimates differ",
+	extract.PublishedNoDifference:   "the two estimates do not differ",
+	extract.PublishedFirstLarger:    "the first is the larger",
+	extract.PublishedSecondLarger:   "the second is the larger",
+	extract.PublishedFirstStronger:  "the first is the stronger (larger in magnitude)",
+	extract.PublishedSecondStronger: "the second is the stronger (larger in magnitude)",
 }
 
 var outcomeWords = map[string]string{
 	audit.Consistent:    "The published verdict stands.",
 	audit.Unsupported:   "The published difference is not supported by the test of the difference.",
 	audit.Missed:        "The paper reports no difference, but the test of the difference shows one.",
-	audit.Reversed:      "The published direction is the opposite of what the estimates show.",
+	audit.Reversed:      "The test of the difference shows the opposite of the published direction.",
 	audit.Indeterminate: "The verdict cannot be decided from what was printed.",
 	audit.Conflict:      "The printed numbers contradict each other, so the verdict cannot be checked as printed.",
 	audit.Incomplete:    "Not enough was printed to test the claim.",

@@ -86,7 +86,7 @@ is listed in --fail-on, 2 for a usage error.`,
 	f.BoolVar(&o.sameModel, "same-model", false, "the estimates are coefficients of one fitted model")
 	f.BoolVar(&o.sameSample, "same-sample", false, "the estimates come from one sample (different models)")
 	f.StringVar(&o.text.Corr, "corr", "", "sampling correlation of the two estimates, as printed (same model or sample)")
-	f.StringVar(&o.text.Published, "published", extract.PublishedDiffer, "the paper's verdict: differ, no-difference, first-larger or second-larger")
+	f.StringVar(&o.text.Published, "published", extract.PublishedDiffer, "the paper's verdict: differ, no-difference, first-larger, second-larger (signed), first-stronger or second-stronger (magnitude)")
 	f.StringVar(&o.text.Measure, "measure", extract.MeasureOther, "the estimates' measure: b, beta, r, or, rr, hr, md or other")
 	f.Float64Var(&o.text.Alpha, "alpha", extract.DefaultAlpha, "significance level of the test")
 	f.StringVar(&o.text.N1, "n1", "", "sample size of the first estimate")

@@ -30,7 +30,13 @@ func TestCompareCommand(t *testing.T) {
 		{"ratios, no difference published", []string{"--first", "0.67 (0.46 to 0.98)", "--second", "0.88 (0.71 to 1.08)",
 			"--independent", "--measure", "rr", "--published", "no-difference"},
 			exitOK, []string{"-0.2726", "p 0.217", "log scale", "CONSISTENT"}},
-		{"p-values and a decided direction", []string{"--first", "0.41, p = .003", "--second", "0.18, p = .20", "--independent",
+		// SEs 0.41/2.968 = 0.138 and 0.18/1.282 = 0.140: d = 0.23, z 1.17, p 0.24.
+		// The point estimates point the other way, not significantly (issue 17).
+		{"p-values and an opposite point estimate", []string{"--first", "0.41, p = .003", "--second", "0.18, p = .20", "--independent",
+			"--published", "second-larger"}, exitFlagged, []string{"UNSUPPORTED", "point the other way"}},
+		// SEs 0.41/3.891 = 0.105 and 0.05/0.524 = 0.095: d = 0.36, SE 0.142, z 2.54,
+		// p 0.011: the test shows the first is the larger.
+		{"p-values and a reversed direction", []string{"--first", "0.41, p = .0001", "--second", "0.05, p = .60", "--independent",
 			"--published", "second-larger"}, exitFlagged, []string{"REVERSED"}},
 		{"correlations need n", []string{"--first", "0.45 (0.29 to 0.58)", "--second", "0.20 (0.01 to 0.38)", "--independent",
 			"--measure", "r", "--n1", "120", "--n2", "110"}, exitOK, []string{"fisher-z"}},

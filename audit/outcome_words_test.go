@@ -1,0 +1,64 @@
+package audit
+
+import (
+	"strings"
+	"testing"
+
+	"coefaudit/extract"
+)
+
+// TestIssue17OutcomeWords: an opposite point estimate without a significant
+// difference was labelled reversed, and "larger" mixed sign and magnitude.
+// Reversed now needs the test to show the opposite direction at α; the
+// recomputed verdict of a claim about magnitude is in the same words.
+// Numbers constructed; arithmetic in each comment.
+func TestIssue17OutcomeWords(t *testing.T) {
+	tests := []struct {
+		name           string
+		c1, c2         coefSpec
+		published      string
+		rho            string
+		wantOutcome    string
+		wantRecomputed string
+		wantNote       string
+	}{
+		// d = 0.20 − 0.28 = −0.08, SE(d) = 0.141, p 0.57.
+		{"opposite point estimate", coefSpec{label: "x", measure: "b", group: "g", est: "0.20", se: "0.10"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "0.28", se: "0.10"}, extract.PublishedFirstLarger, "",
+			Unsupported, extract.PublishedNoDifference, "point estimates point the other way"},
+		// |−0.60| vs |0.20|: the reflected difference −0.60 − (−0.20) = −0.40, SE 0.141,
+		// z −2.83, p 0.005: the first is significantly the stronger.
+		{"first-stronger, opposite signs", coefSpec{label: "x", measure: "b", group: "g", est: "-0.60", se: "0.10"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "0.20", se: "0.10"}, extract.PublishedFirstStronger, "",
+			Consistent, extract.PublishedFirstStronger, "opposite signs"},
+		// One model, printed estimate_corr 0.5. Reflecting the second turns it to −0.5:
+		// d = 0.50 − 0.20 = 0.30, Var = 0.01 + 0.01 + 2·0.5·0.01 = 0.03, SE 0.173, t 1.73,
+		// p ≈ 0.08: not significant. Without the reflection Var = 0.01 and t = 3.
+		{"magnitude with estimate_corr", coefSpec{label: "x", measure: "b", group: "all", model: "m", est: "0.50", se: "0.10"},
+			coefSpec{label: "y", measure: "b", group: "all", model: "m", est: "-0.20", se: "0.10"}, extract.PublishedFirstStronger, "0.5",
+			Unsupported, extract.PublishedNoDifference, "opposite signs"},
+		// Signed: −0.60 is significantly below 0.20, the recomputed verdict is
+		// second-larger.
+		{"signed recomputed", coefSpec{label: "x", measure: "b", group: "g", est: "-0.60", se: "0.10"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "0.20", se: "0.10"}, extract.PublishedFirstLarger, "",
+			Reversed, extract.PublishedSecondLarger, "opposite direction at α"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			cl := claim("S", "c", 2, tt.c1.label, tt.c2.label, tt.published, "test")
+			cl.EstimateCorr = printed(tt.rho)
+			in := &extract.Input{
+				Coefficients: []extract.Coefficient{coefficient("S", 2, tt.c1), coefficient("S", 3, tt.c2)},
+				Claims:       []extract.Claim{cl},
+			}
+			r := Audit(in, DefaultOptions).Claims[0]
+			if r.Outcome != tt.wantOutcome || r.Recomputed != tt.wantRecomputed {
+				t.Errorf("outcome %s, recomputed %s; want %s, %s; p %v; notes %q", r.Outcome, r.Recomputed,
+					tt.wantOutcome, tt.wantRecomputed, r.P, r.Notes)
+			}
+			if !strings.Contains(strings.Join(r.Notes, " "), tt.wantNote) {
+				t.Errorf("notes %q lack %q", r.Notes, tt.wantNote)
+			}
+		})
+	}
+}
