@@ -68,6 +68,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	h, m := c2.Outcome, c2.Predictor
 	if j == "" || k == "" || h == "" || m == "" {
 		r.Notes = append(r.Notes, "A correlation's two variables (outcome and predictor columns) are needed to find the correlations between them in the table.")
+		src.tried(fmt.Sprintf("claim %s: its correlations do not name their two variables", r.Claim))
 		return false
 	}
 	n := src.n
@@ -78,6 +79,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	}
 	if math.IsNaN(n) {
 		r.Notes = append(r.Notes, fmt.Sprintf("No n is printed for the correlations or in %s.", src.name))
+		src.tried(fmt.Sprintf("claim %s: no n is printed", r.Claim))
 		return false
 	}
 	level := 1 - r.Alpha
@@ -105,6 +107,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 		pkh, ok := src.corr(k, hh)
 		if !ok {
 			r.Notes = append(r.Notes, fmt.Sprintf("The correlation of %s and %s is not in %s.", k, hh, src.name))
+			src.tried(fmt.Sprintf("claim %s: it lacks the correlation of %s and %s", r.Claim, k, hh))
 			return false
 		}
 		vals := []extract.Printed{c1.Estimate, c2.Estimate, pkh}
@@ -115,7 +118,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 		eval := func(v []float64) (correlation.Comparison, error) {
 			return correlation.CompareOverlapping(v[0], v[1], v[2], int(n), level)
 		}
-		return a.finishCorrelations(r, c1, c2, vals, eval, fmt.Sprintf("r(%s, %s) = %s from %s", k, hh, pkh.Text, src.name))
+		return a.finishCorrelations(r, c1, c2, src, vals, eval, fmt.Sprintf("r(%s, %s) = %s from %s", k, hh, pkh.Text, src.name))
 	}
 	need := [][2]string{{j, h}, {j, m}, {k, h}, {k, m}}
 	vals := []extract.Printed{c1.Estimate, c2.Estimate}
@@ -129,6 +132,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	}
 	if len(missing) > 0 {
 		r.Notes = append(r.Notes, fmt.Sprintf("The correlations %s are not in %s.", strings.Join(missing, ", "), src.name))
+		src.tried(fmt.Sprintf("claim %s: it lacks the correlations %s", r.Claim, strings.Join(missing, ", ")))
 		return false
 	}
 	if r.reflected {
@@ -138,13 +142,13 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	eval := func(v []float64) (correlation.Comparison, error) {
 		return correlation.CompareNonOverlapping(correlation.NonOverlapping{JK: v[0], HM: v[1], JH: v[2], JM: v[3], KH: v[4], KM: v[5]}, int(n), level)
 	}
-	return a.finishCorrelations(r, c1, c2, vals, eval, "the four cross correlations from "+src.name)
+	return a.finishCorrelations(r, c1, c2, src, vals, eval, "the four cross correlations from "+src.name)
 }
 
 // finishCorrelations runs a dependent correlation comparison at the
 // printed values and over a grid of the rounding box (each printed
 // correlation at its two rounding limits and its printed value) for p_range.
-func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, vals []extract.Printed,
+func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource, vals []extract.Printed,
 	eval func([]float64) (correlation.Comparison, error), used string) bool {
 	point := make([]float64, len(vals))
 	for i, v := range vals {
@@ -153,8 +157,10 @@ func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient
 	cmp, err := eval(point)
 	if err != nil {
 		r.Notes = append(r.Notes, "The dependent correlations could not be compared: "+err.Error()+".")
+		src.tried(fmt.Sprintf("claim %s: %v", r.Claim, err))
 		return false
 	}
+	src.used = true
 	r.Method = cmp.Primary.Method
 	setCorrelationComparison(r, cmp)
 	r.Notes = append(r.Notes, "The comparison uses "+used+".")

@@ -3,6 +3,8 @@ package audit
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -18,7 +20,11 @@ const undetermined = "undetermined"
 // paper's correlation table; the printed sampling correlation of the two
 // estimates (estimate_corr); and otherwise the range over every admissible
 // correlation.
-func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
+//
+// missingSE holds the notes of a coefficient whose SE the printed numbers
+// do not give: the table may still test the claim, and otherwise it is
+// incomplete with those notes.
+func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, missingSE []string) {
 	src := a.corr[sampleKey(c1.Study, c1.Group)]
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
@@ -26,15 +32,31 @@ func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.C
 		}
 	}
 	if r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure) && src != nil {
-		if a.regressionFromTable(r, c1, c2, src) {
+		if a.regressionFromTable(r, c1, c2, rc1, rc2, src) {
 			return
 		}
+	}
+	if len(missingSE) > 0 {
+		r.Notes = append(r.Notes, missingSE...)
+		r.Outcome = Incomplete
+		return
 	}
 	if cl.EstimateCorr.IsExact() {
 		a.withEstimateCorr(r, cl.EstimateCorr, rc1, rc2)
 		return
 	}
 	a.admissible(r, c1, rc1, rc2)
+}
+
+// tableMayTest reports whether the sample's correlations may test a claim
+// of one sample whatever its printed SEs: dependent correlations, or two
+// coefficients of one regression rebuilt from the table.
+func (a *auditor) tableMayTest(r *ClaimResult, c1, c2 *extract.Coefficient) bool {
+	if r.Relation == Independent || a.corr[sampleKey(c1.Study, c1.Group)] == nil ||
+		!c1.Estimate.IsExact() || !c2.Estimate.IsExact() {
+		return false
+	}
+	return r.Measure == extract.MeasureR || (r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure))
 }
 
 // commonDF returns the residual df two coefficients of one model share, or
@@ -118,11 +140,30 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 	case r.Relation == SameModel:
 		need += ", or the correlation table of the model's variables with SDs and n"
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("One sample (study %q, group %q), covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s would settle it.", c1.Study, c1.Group, need))
+	settle := need + " would settle it"
+	if src := a.corr[sampleKey(c1.Study, c1.Group)]; src != nil {
+		settle = fmt.Sprintf("%s is printed but could not be used for this claim (see above); %s would settle it", src.what(), need)
+	} else if others := a.otherSamples(c1.Study); len(others) > 0 {
+		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q would settle it", strings.Join(others, "; "), need, c1.Group)
+	}
+	r.Notes = append(r.Notes, fmt.Sprintf("One sample (study %q, group %q), covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s.", c1.Study, c1.Group, settle))
 	if c1.Group == "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}
 	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
+}
+
+// otherSamples names the correlation sources of a study, each with its
+// group, in a fixed order.
+func (a *auditor) otherSamples(study string) []string {
+	var out []string
+	for k, s := range a.corr {
+		if k[0] == sampleKey(study, "")[0] {
+			out = append(out, fmt.Sprintf("%s, group %q", s.name, s.group))
+		}
+	}
+	slices.Sort(out)
+	return out
 }
 
 func diffRange(rc1, rc2 *extract.Reconstructed) infer.Range {
