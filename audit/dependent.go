@@ -45,7 +45,7 @@ func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.C
 		a.withEstimateCorr(r, cl.EstimateCorr, rc1, rc2)
 		return
 	}
-	a.admissible(r, c1, rc1, rc2)
+	a.admissible(r, c1, c2, rc1, rc2)
 }
 
 // tableMayTest reports whether the sample's correlations may test a claim
@@ -125,7 +125,7 @@ func seGap(a, b infer.Range) float64 {
 // admissible gives the range of p over every admissible sampling
 // correlation of the two estimates, −1 to 1: Var(d) runs from (SE1 − SE2)²
 // to (SE1 + SE2)².
-func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
+func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
 	r.Method = "admissible-range"
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
@@ -151,6 +151,7 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}
 	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
+	r.tip, r.hasTip = a.tippingOf(r, c1, c2, rc1, rc2, df)
 }
 
 // otherSamples names the correlation sources of a study, each with its

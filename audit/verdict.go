@@ -179,6 +179,10 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 		r.Outcome = Indeterminate
 		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
 			dc.how.phrase(), FormatP(pr.Lo), FormatP(pr.Hi), FormatAlpha(r.Alpha)))
+		if r.hasTip {
+			r.TippingCorr = []Number{Number(r.tip.rho)}
+			r.Notes = append(r.Notes, r.tip.note(r))
+		}
 	}
 }
 
