@@ -105,7 +105,9 @@ func (a *auditor) load(in *extract.Input) {
 	for i := range in.Coefficients {
 		c := &in.Coefficients[i]
 		if len(c.Problems) == 0 {
-			if ps := consistencyProblems(c); len(ps) > 0 {
+			ps := consistencyProblems(c)
+			ps = append(ps, a.tableContradicts(c)...)
+			if len(ps) > 0 {
 				a.conflicts[c] = ps
 			}
 		}

@@ -34,6 +34,52 @@ type corrSource struct {
 	// first reason a claim that tried it could not.
 	used bool
 	why  string
+	// minEigen is the smallest eigenvalue of a complete table that is not
+	// positive definite, NaN otherwise (set by checkDefinite).
+	minEigen float64
+}
+
+// checkDefinite sets minEigen when the source's correlations are all
+// printed and form a matrix that no sample can have.
+func (s *corrSource) checkDefinite() {
+	s.minEigen = math.NaN()
+	if len(s.r) < 2 {
+		return
+	}
+	for i, row := range s.r {
+		for j, v := range row {
+			if i != j && !v.IsExact() {
+				return
+			}
+		}
+	}
+	var npd *regress.NotPositiveDefiniteError
+	if err := regress.CheckCorrelationMatrix((&modelTable{r: s.r}).point().r); errors.As(err, &npd) {
+		s.minEigen = npd.MinEigenvalue
+	}
+}
+
+// contradictionFor is contradiction for a claim that would use the source
+// (dependent correlations, or two coefficients of one regression), "" for
+// others and for no source.
+func (s *corrSource) contradictionFor(r *ClaimResult) string {
+	if s == nil || !(r.Measure == extract.MeasureR || (r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure))) {
+		return ""
+	}
+	msg := s.contradiction()
+	if msg != "" {
+		s.used = true // its problem is listed; it is not also "unused"
+	}
+	return msg
+}
+
+// contradiction says, for a claim that uses the source, that its
+// correlations contradict each other; "" when they do not.
+func (s *corrSource) contradiction() string {
+	if math.IsNaN(s.minEigen) {
+		return ""
+	}
+	return fmt.Sprintf("The correlations in %s are not positive definite (smallest eigenvalue %.3g): no sample can have them all, so the printed numbers contradict each other and no verdict is drawn from them.", s.name, s.minEigen)
 }
 
 func sampleKey(study, group string) [2]string {
@@ -124,7 +170,13 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 		}
 	}
 	for _, k := range order {
-		out[k] = long[k]
+		s := long[k]
+		if s.checkDefinite(); !math.IsNaN(s.minEigen) {
+			problems = append(problems, Problem{Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf(
+				"the correlations of study %q, group %q are not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper",
+				s.study, s.group, s.minEigen)})
+		}
+		out[k] = s
 	}
 	for i := range in.Tables {
 		t := &in.Tables[i]
@@ -142,6 +194,7 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 			s.index[varKey(v)] = j
 		}
 		s.r, s.sd, s.mean = t.R, t.SD, t.Mean
+		s.checkDefinite()
 		for _, n := range t.N {
 			if n.IsExact() && (math.IsNaN(s.n) || n.Value < s.n) {
 				s.n = n.Value
@@ -269,4 +322,31 @@ func tableProblems(in *extract.Input) []Problem {
 		}
 	}
 	return out
+}
+
+// tableContradicts checks a printed correlation against the cell of its
+// sample's table for the same pair: values whose rounding intervals do not
+// meet contradict each other (a problem of the coefficient, and a conflict
+// for the claims that use it).
+func (a *auditor) tableContradicts(c *extract.Coefficient) []Problem {
+	if c.Measure != extract.MeasureR || !c.Estimate.IsExact() || c.Outcome == "" || c.Predictor == "" {
+		return nil
+	}
+	src := a.corr[sampleKey(c.Study, c.Group)]
+	if src == nil {
+		return nil
+	}
+	cell, ok := src.corr(c.Outcome, c.Predictor)
+	if !ok {
+		return nil
+	}
+	lo1, hi1 := c.Estimate.RoundingInterval()
+	lo2, hi2 := cell.RoundingInterval()
+	if hi1 >= lo2-1e-12 && lo1 <= hi2+1e-12 {
+		return nil
+	}
+	src.used = true // its contradiction is listed; it is not also "unused"
+	return []Problem{{Sheet: c.Sheet, Row: c.Row, Column: "estimate", Message: fmt.Sprintf(
+		"coefficient %s is printed as r = %s, but %s gives %s for %s and %s: the two printed values differ beyond rounding",
+		c.Label, c.Estimate.Text, src.name, cell.Text, c.Outcome, c.Predictor)}}
 }

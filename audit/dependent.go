@@ -26,6 +26,10 @@ const undetermined = "undetermined"
 // incomplete with those notes.
 func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, missingSE []string) {
 	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	if msg := src.contradictionFor(r); msg != "" {
+		r.Notes = append(r.Notes, msg)
+		r.conflict = true
+	}
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
 			return

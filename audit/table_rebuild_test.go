@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"strconv"
 	"strings"
 	"testing"
 
@@ -20,8 +21,7 @@ func rebuildTable(group string) extract.CorrelationTable {
 	for i := range t.R {
 		for j := range t.R[i] {
 			if i != j {
-				t.R[i][j] = printed(strings.TrimPrefix(t.R[i][j].Text, "0"))
-				t.R[i][j].Decimals = 2
+				t.R[i][j] = printed(strconv.FormatFloat(t.R[i][j].Value, 'f', 2, 64))
 			}
 		}
 	}
