@@ -161,7 +161,7 @@ var instructions = []instruction{
 	instructionLine(""),
 	instructionHeading("Sheets named \"table …\": a correlation table as the paper printed it"),
 	instructionLine("Name the sheet \"table \" and a name (\"table 2\"). Optional key rows first: study, group or n in the first cell and the value in the second. Then a header row whose first cell is \"variable\" or blank, optional n, mean and sd columns, and one column per variable, by name or by number."),
-	instructionLine("Then one row per variable. Fill the lower or the upper triangle; the diagonal may be blank, a dash or 1. A blank row ends the table. Without a study row the study is the name after \"table \". For example:"),
+	instructionLine("Then one row per variable. Fill the lower or the upper triangle; the diagonal may be blank, a dash or 1. A blank row ends the table. Without a study row the study is the name after \"table \"; without a group row the table belongs to the study's one sample (a study with several samples needs a group row). For example:"),
 	instructionExample("study", "Smith 2020"),
 	instructionExample("n", "240"),
 	instructionExample("variable", "mean", "sd", "1", "2", "3"),
