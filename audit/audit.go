@@ -280,7 +280,11 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range a.conflictsOf(c) {
-			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s): %s.", extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}, p.Message))
+			where := extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}.String()
+			if where != "" {
+				where = " (" + where + ")"
+			}
+			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other%s: %s.", where, p.Message))
 		}
 	}
 

@@ -149,7 +149,11 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 		k := sampleKey(c.Study, group)
 		s := long[k]
 		if s == nil {
-			s = &corrSource{name: "the correlations sheet", index: map[string]int{}, n: math.NaN(),
+			name := "the correlations sheet"
+			if c.Sheet == "" {
+				name = "the correlations given" // typed, not read from a workbook
+			}
+			s = &corrSource{name: name, index: map[string]int{}, n: math.NaN(),
 				sheet: c.Sheet, row: c.Row, study: c.Study, group: group}
 			if _, msg := sampleOf(groups, c.Study, c.Group, fmt.Sprintf("the correlations sheet (from row %d)", c.Row)); msg != "" {
 				problems = append(problems, Problem{Sheet: c.Sheet, Row: c.Row, Column: "group", Message: msg})
@@ -242,6 +246,9 @@ func unusedProblems(srcs map[[2]string]*corrSource, study string) []Problem {
 
 // what names the source for a problem.
 func (s *corrSource) what() string {
+	if s.sheet == "" {
+		return s.name
+	}
 	if s.name == "the correlations sheet" {
 		return fmt.Sprintf("the correlations of study %q, group %q (correlations sheet)", s.study, s.group)
 	}

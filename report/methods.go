@@ -46,8 +46,12 @@ var outcomeWords = map[string]string{
 // verdict and its caveats.
 func methodsText(r *audit.ClaimResult) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Claim %s (%s, claims row %d): the paper reports that %s (%s vs %s", r.Claim, r.Study, r.Row,
-		publishedOr(r.Published), r.First.Label, r.Second.Label)
+	if r.Row > 0 {
+		fmt.Fprintf(&b, "Claim %s (%s, claims row %d): t", r.Claim, r.Study, r.Row)
+	} else {
+		b.WriteString("T") // typed with compare: no workbook row
+	}
+	fmt.Fprintf(&b, "he paper reports that %s (%s vs %s", publishedOr(r.Published), r.First.Label, r.Second.Label)
 	if r.Basis != "" {
 		fmt.Fprintf(&b, "; basis: %s", r.Basis)
 	}
