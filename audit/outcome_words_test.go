@@ -62,3 +62,57 @@ func TestIssue17OutcomeWords(t *testing.T) {
 		})
 	}
 }
+
+// TestIssue17MagnitudeReflectsTheVariable: reversing the scoring of a
+// predictor turns the sign of its coefficient and of its correlations and
+// nothing else, so a claim about magnitude on the reflected table must be
+// tested exactly as the signed claim on the original one: for a model
+// rebuilt from the table and for two dependent correlations.
+func TestIssue17MagnitudeReflectsTheVariable(t *testing.T) {
+	flip := func(tab extract.CorrelationTable, k int) extract.CorrelationTable {
+		for i := range tab.R {
+			if i != k {
+				tab.R[i][k], tab.R[k][i] = negated(tab.R[i][k]), negated(tab.R[k][i])
+			}
+		}
+		return tab
+	}
+	t.Run("rebuilt model", func(t *testing.T) {
+		run := func(b2, published string, tab extract.CorrelationTable) ClaimResult {
+			in := &extract.Input{
+				Coefficients: []extract.Coefficient{beta(t, "b1", "x1", "", ".45", "", 2), beta(t, "b2", "x2", "", b2, "", 3)},
+				Claims:       []extract.Claim{claim("S", "c", 2, "b1", "b2", published, "unstated")},
+				Tables:       []extract.CorrelationTable{tab},
+			}
+			return Audit(in, DefaultOptions).Claims[0]
+		}
+		signed := run(".12", extract.PublishedFirstLarger, rebuildTable(""))
+		magnitude := run("−.12", extract.PublishedFirstStronger, flip(rebuildTable(""), 2))
+		if signed.Outcome != Consistent || relDiff(float64(magnitude.P), float64(signed.P)) > 1e-9 ||
+			relDiff(float64(magnitude.Difference), float64(signed.Difference)) > 1e-9 || magnitude.Outcome != Consistent {
+			t.Errorf("magnitude on the reflected table: p %v d %v %s; signed on the original: p %v d %v %s",
+				magnitude.P, magnitude.Difference, magnitude.Outcome, signed.P, signed.Difference, signed.Outcome)
+		}
+		if float64(magnitude.Second.Estimate) > 0 {
+			t.Errorf("the second estimate is shown reflected: %v", magnitude.Second.Estimate)
+		}
+	})
+	t.Run("dependent correlations", func(t *testing.T) {
+		// r(y,x1) = .50 against r(y,x2) = .30 with r(x1,x2) = .40: Williams' t.
+		run := func(r2, published string, tab extract.CorrelationTable) ClaimResult {
+			c1, c2 := rCoef("r1", "y", "x1", 0, 2), rCoef("r2", "y", "x2", 0, 3)
+			c1.Group, c2.Group = "", ""
+			c1.Estimate, c2.Estimate = printed("0.50"), printed(r2)
+			in := &extract.Input{Coefficients: []extract.Coefficient{c1, c2}, Tables: []extract.CorrelationTable{tab},
+				Claims: []extract.Claim{claim("S", "c", 2, "r1", "r2", published, "unstated")}}
+			return Audit(in, DefaultOptions).Claims[0]
+		}
+		signed := run("0.30", extract.PublishedFirstLarger, rebuildTable(""))
+		magnitude := run("-0.30", extract.PublishedFirstStronger, flip(rebuildTable(""), 2))
+		if signed.Method != "williams-t" || relDiff(float64(magnitude.P), float64(signed.P)) > 1e-9 ||
+			magnitude.Outcome != signed.Outcome || magnitude.Recomputed != extract.PublishedFirstStronger {
+			t.Errorf("magnitude on the reflected table: %s p %v %s %s; signed on the original: %s p %v %s",
+				magnitude.Method, magnitude.P, magnitude.Outcome, magnitude.Recomputed, signed.Method, signed.P, signed.Outcome)
+		}
+	})
+}
