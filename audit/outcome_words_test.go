@@ -116,3 +116,23 @@ func TestIssue17MagnitudeReflectsTheVariable(t *testing.T) {
 		}
 	})
 }
+
+// TestIssue17OppositeWithUnknownCovariance: one model, covariance unknown,
+// the estimates against the published direction: 0.10 (SE 0.10) against
+// 0.25 (SE 0.05), d = −0.15. At ρ = −1 SE(d) = 0.15 and z = −1 (no
+// difference); at ρ = 1 SE(d) = 0.05 and z = −3 (the opposite direction).
+// Whatever was not printed, the published verdict falls: unsupported (the
+// milder word), not indeterminate.
+func TestIssue17OppositeWithUnknownCovariance(t *testing.T) {
+	in := &extract.Input{
+		Coefficients: []extract.Coefficient{
+			coefficient("S", 2, coefSpec{label: "x", measure: "b", group: "all", model: "m", est: "0.10", se: "0.10"}),
+			coefficient("S", 3, coefSpec{label: "y", measure: "b", group: "all", model: "m", est: "0.25", se: "0.05"})},
+		Claims: []extract.Claim{claim("S", "c", 2, "x", "y", extract.PublishedFirstLarger, "test")},
+	}
+	r := Audit(in, DefaultOptions).Claims[0]
+	notes := strings.Join(r.Notes, " ")
+	if r.Outcome != Unsupported || !strings.Contains(notes, "never the published one") || strings.Contains(notes, "not significant") {
+		t.Errorf("outcome %s, p range %v; want unsupported; notes %q", r.Outcome, r.PRange, r.Notes)
+	}
+}

@@ -161,8 +161,13 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	if math.IsNaN(p) {
 		r.Recomputed = undetermined
 		r.Outcome = Indeterminate
-		if seen.n == 1 {
+		switch {
+		case seen.n == 1:
 			r.Outcome = seen.o[0]
+		case !seen.has(Consistent) && seen.has(Unsupported):
+			// The verdict falls whatever was not printed: the test shows
+			// the opposite direction or nothing. The milder word holds.
+			r.Outcome = Unsupported
 		}
 	} else {
 		sig := p < r.Alpha
@@ -171,7 +176,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	dc.verdictNote, dc.dir, dc.used = len(r.Notes), dir, pr
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
-	if want := wantedDirection(r.Published); want != 0 && dir == -want && r.Outcome != Reversed {
+	if want := wantedDirection(r.Published); want != 0 && dir == -want && r.Outcome != Reversed && !math.IsNaN(p) {
 		r.Notes = append(r.Notes, "The point estimates point the other way ("+
 			strings.TrimSuffix(r.directionWords(-want), ".")+"), but the difference is not significant: the paper's direction is not supported, not shown reversed.")
 	}
@@ -215,6 +220,10 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 	case Consistent:
 		return "The verdict stands: " + test + "."
 	case Unsupported:
+		if !r.P.Known() && pr.Lo < r.Alpha {
+			return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but " + test +
+				": within what was not printed the test shows either no difference or the opposite direction, never the published one."
+		}
 		return "The paper reports a difference, but " + test + ", not below α = " + alpha + ": the printed numbers do not show one."
 	case Missed:
 		return "The paper reports no difference, but " + test + ", below α = " + alpha + "."
