@@ -42,10 +42,17 @@ type auditor struct {
 	// conflicts holds each coefficient's printed numbers that contradict
 	// each other, in input order of the coefficients.
 	conflicts map[*extract.Coefficient][]Problem
-	// modelPredictors lists each model's predictors in input order.
+	// modelPredictors lists each model's predictors in input order, and
+	// modelCoefs its coefficients.
 	modelPredictors map[modelKey][]string
-	// corr holds the correlation tables by sample.
-	corr map[[2]string]*corrSource
+	modelCoefs      map[modelKey][]*extract.Coefficient
+	// rebuilt holds each coefficient's disagreements with a model rebuilt
+	// from a correlation table, found while auditing claims.
+	rebuilt map[*extract.Coefficient][]Problem
+	// corr holds the correlation tables by sample; corrProblems the
+	// problems of placing them.
+	corr         map[[2]string]*corrSource
+	corrProblems []Problem
 }
 
 // Audit audits every study of an input held in memory, in the order
@@ -101,14 +108,17 @@ func newAuditor(in *extract.Input) *auditor {
 func (a *auditor) load(in *extract.Input) {
 	a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[modelKey]int{}
 	a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
-	a.corr = nil
+	a.modelCoefs, a.rebuilt = map[modelKey][]*extract.Coefficient{}, map[*extract.Coefficient][]Problem{}
+	a.corr, a.corrProblems = nil, nil
 	if len(in.Correlations) > 0 || len(in.Tables) > 0 {
-		a.corr = correlationSources(in)
+		a.corr, a.corrProblems = correlationSources(in)
 	}
 	for i := range in.Coefficients {
 		c := &in.Coefficients[i]
 		if len(c.Problems) == 0 {
-			if ps := consistencyProblems(c); len(ps) > 0 {
+			ps := consistencyProblems(c)
+			ps = append(ps, a.tableContradicts(c)...)
+			if len(ps) > 0 {
 				a.conflicts[c] = ps
 			}
 		}
@@ -121,6 +131,7 @@ func (a *auditor) load(in *extract.Input) {
 		if extract.IsRegressionMeasure(c.Measure) {
 			mk := modelOf(c)
 			a.modelSize[mk]++
+			a.modelCoefs[mk] = append(a.modelCoefs[mk], c)
 			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
 				a.modelPredictors[mk] = append(a.modelPredictors[mk], c.Predictor)
 			}
@@ -243,13 +254,18 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale
+	// A coefficient without an SE can still be tested when the sample's
+	// correlation table rebuilds the model (or gives the correlations):
+	// the notes of what is missing wait until that has been tried.
+	var missingSE []string
 	for i, err := range []error{e1, e2} {
 		if err != nil {
-			r.Notes = append(r.Notes, []string{c1.Label, c2.Label}[i]+": "+err.Error()+
+			missingSE = append(missingSE, []string{c1.Label, c2.Label}[i]+": "+err.Error()+
 				"; print its SE, interval, statistic or exact p to test the claim.")
 		}
 	}
-	if e1 != nil || e2 != nil {
+	if len(missingSE) > 0 && !a.tableMayTest(r, c1, c2) {
+		r.Notes = append(r.Notes, missingSE...)
 		r.Outcome = Incomplete
 		return
 	}
@@ -266,18 +282,30 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}
+	if reflectsSecond(cl.Published, rc1.Estimate, rc2.Estimate) {
+		r.reflected = true
+		reflect(rc2)
+		r.Notes = append(r.Notes, reflectedNote)
+	}
 	r.Overlap = overlapOf(rc1, rc2, r)
 	var conflicts []string
 	for _, c := range []*extract.Coefficient{c1, c2} {
 		for _, p := range a.conflictsOf(c) {
-			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other (%s): %s.", extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}, p.Message))
+			where := extract.Position{File: baseName(c.File), Sheet: p.Sheet, Row: p.Row, Column: p.Column}.String()
+			if where != "" {
+				where = " (" + where + ")"
+			}
+			conflicts = append(conflicts, fmt.Sprintf("The printed numbers contradict each other%s: %s.", where, p.Message))
 		}
 	}
 
 	if r.Relation == Independent {
 		a.independent(r, c1, c2, rc1, rc2)
 	} else {
-		a.dependent(r, cl, c1, c2, rc1, rc2)
+		a.dependent(r, cl, c1, c2, rc1, rc2, missingSE)
+		if r.Outcome == Incomplete {
+			return
+		}
 		if strings.HasSuffix(r.Method, "from-correlation-table") {
 			r.Notes = append(r.Notes[:readNotes], r.Notes[readEnd:]...)
 			// The basis notes speak of the rebuilt estimates too.

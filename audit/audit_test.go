@@ -137,13 +137,33 @@ func TestAuditOutcomes(t *testing.T) {
 		// d = 2.9, SE(d) = √(0.8² + 0.9²) = 1.204, z 2.41, p 0.016: the test shows a difference.
 		{"missed", coefSpec{label: "x", measure: "md", group: "g", est: "4.1", se: "0.80"},
 			coefSpec{label: "y", measure: "md", group: "h", est: "1.2", se: "0.90"}, "no-difference", "overlap", Missed},
-		// The first is the smaller: 0.21 < 0.29.
-		{"reversed", coefSpec{label: "x", measure: "beta", group: "g", est: ".21", lo: ".12", hi: ".30"},
-			coefSpec{label: "y", measure: "beta", group: "h", est: ".29", lo: ".20", hi: ".38"}, "first-larger", "unstated", Reversed},
+		// The first is the smaller, 0.21 < 0.29, but not significantly: SEs
+		// 0.18/3.92 = 0.046 each, SE(d) 0.065, z −1.23, p 0.22. An opposite
+		// point estimate alone is unsupported, not reversed (issue 17).
+		{"opposite point estimate, not significant", coefSpec{label: "x", measure: "beta", group: "g", est: ".21", lo: ".12", hi: ".30"},
+			coefSpec{label: "y", measure: "beta", group: "h", est: ".29", lo: ".20", hi: ".38"}, "first-larger", "unstated", Unsupported},
+		// d = 0.20 − 0.60 = −0.40, SE(d) = √(0.1² + 0.1²) = 0.141, z −2.83, p 0.005
+		// (within rounding p stays below 0.01): the second is significantly larger.
+		{"reversed", coefSpec{label: "x", measure: "b", group: "g", est: "0.200", se: "0.100"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "0.600", se: "0.100"}, "first-larger", "test", Reversed},
 		// Both negative: −0.50 is the stronger; d = −0.30, SE(d) = √(0.1² + 0.1²) = 0.141,
-		// z −2.12, p 0.034: the first (farther from zero) is larger.
+		// z −2.12, p 0.034: the first is farther from zero, so first-stronger stands ...
 		{"stronger negative", coefSpec{label: "x", measure: "b", group: "g", est: "-0.500", se: "0.100"},
-			coefSpec{label: "y", measure: "b", group: "h", est: "-0.200", se: "0.100"}, "first-larger", "test", Consistent},
+			coefSpec{label: "y", measure: "b", group: "h", est: "-0.200", se: "0.100"}, "first-stronger", "test", Consistent},
+		// ... while "larger" is signed: −0.50 is significantly below −0.20.
+		{"larger is signed", coefSpec{label: "x", measure: "b", group: "g", est: "-0.500", se: "0.100"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "-0.200", se: "0.100"}, "first-larger", "test", Reversed},
+		// Opposite signs: |0.50| vs |−0.20| is tested as 0.50 − 0.20 = 0.30 (the second
+		// reflected), SE(d) 0.141, z 2.12, p 0.034: the first is the stronger.
+		{"stronger, opposite signs", coefSpec{label: "x", measure: "b", group: "g", est: "0.500", se: "0.100"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "-0.200", se: "0.100"}, "first-stronger", "test", Consistent},
+		// The same claim made of the second: |−0.20| is significantly weaker.
+		{"second-stronger reversed", coefSpec{label: "x", measure: "b", group: "g", est: "0.500", se: "0.100"},
+			coefSpec{label: "y", measure: "b", group: "h", est: "-0.200", se: "0.100"}, "second-stronger", "test", Reversed},
+		// Odds ratios: 0.50 is farther from 1 than 1.20 on the log scale
+		// (|ln 0.5| = 0.693 vs ln 1.2 = 0.182); SEs 0.05: d = 0.511, z 7.2.
+		{"stronger ratio", coefSpec{label: "x", measure: "or", group: "g", est: "0.50", se: "0.05"},
+			coefSpec{label: "y", measure: "or", group: "h", est: "1.20", se: "0.05"}, "first-stronger", "test", Consistent},
 		// One decimal: d = 0.3 printed, in [0.2, 0.4]; SEs from [0.3, 0.7] lie in
 		// [0.30/3.92, 0.50/3.92] = [0.077, 0.128], so SE(d) ∈ [0.108, 0.180] and p runs from
 		// 2·Q(0.4/0.108) = 2e-4 to 2·Q(0.2/0.180) = 0.27, across 0.05.

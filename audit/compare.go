@@ -31,13 +31,35 @@ type Comparison struct {
 	// N1, N2 are the samples' sizes, DF the residual df, as printed
 	// (Absent when not known).
 	N1, N2, DF extract.Printed
+	// R13, R14, R23 and R24 are the other correlations of one sample for
+	// comparing two dependent correlations, in the notation of Steiger
+	// (1980): the first estimate is r12; with R23 alone the second is r13
+	// (overlapping: variable 1 in both), with all four it is r34
+	// (non-overlapping). Absent when not given.
+	R13, R14, R23, R24 extract.Printed
+}
+
+// dependentCorrelations reports whether the comparison is of two
+// correlations of one sample with their cross correlations, and whether
+// they share a variable.
+func (c *Comparison) dependentCorrelations() (given, overlapping bool) {
+	four := c.R13.Present() || c.R14.Present() || c.R24.Present()
+	return four || c.R23.Present(), !four
 }
 
 // CompareReported audits one comparison exactly as a claims row of a
 // workbook is audited: it builds an input holding the two coefficients and
-// one claim (study "compare"; the two in separate groups when independent,
-// in one group and one model for SameModel, one group and two models for
-// SameSample) and runs Audit on it. The report holds one claim.
+// one claim, placed on no sheet or row and in no study, so that no note
+// speaks of a workbook (the two in separate groups when independent, in
+// one group and one model for SameModel, one group and two models for
+// SameSample; two correlations of one sample with their cross correlations
+// R13, R14, R23, R24 as that sample's correlations), and runs Audit on it.
+// The report holds one claim.
+//
+// Two correlations of one sample are compared as in a workbook: r12 and
+// r13 with r23 by Williams' t (Steiger 1980, eq. 7), r12 and r34 with the
+// four cross correlations by the ZPF test (Raghunathan, Rosenthal & Rubin
+// 1996), each with Zou's (2007) interval.
 //
 // The test is the one the design calls for, as in a workbook: for
 // independent estimates [1]
@@ -66,6 +88,18 @@ type Comparison struct {
 func CompareReported(c Comparison, opts Options) (*Report, error) {
 	bad := func(format string, a ...any) (*Report, error) {
 		return nil, fmt.Errorf("%s: %w", fmt.Sprintf(format, a...), ErrComparison)
+	}
+	if c.Measure == "" || c.Measure == extract.MeasureOther {
+		// The labels of the estimates ("OR 1.80", "β = .34") name the measure
+		// when none was chosen.
+		if m := c.First.Measure; m != "" && (m == c.Second.Measure || c.Second.Measure == "") {
+			c.Measure = m
+		} else if m := c.Second.Measure; m != "" && c.First.Measure == "" {
+			c.Measure = m
+		}
+	}
+	if given, _ := c.dependentCorrelations(); given && (c.Measure == "" || c.Measure == extract.MeasureOther) {
+		c.Measure = extract.MeasureR
 	}
 	if c.Measure == "" {
 		c.Measure = extract.MeasureOther
@@ -98,27 +132,83 @@ func CompareReported(c Comparison, opts Options) (*Report, error) {
 			return bad("%s %q must be a positive number", p.name, p.v.Text)
 		}
 	}
-	groups, models := [2]string{"first", "second"}, [2]string{"model", "model"}
+	for i, r := range []Reported{c.First, c.Second} {
+		n := [2]extract.Printed{c.N1, c.N2}[i]
+		label := [2]string{"first", "second"}[i]
+		switch {
+		case r.Measure != "" && r.Measure != c.Measure:
+			return bad("the %s estimate is labelled as measure %s, but the measure is %s", label, r.Measure, c.Measure)
+		case r.OnlyEstimate() && !(c.Measure == extract.MeasureR && n.IsExact()):
+			return bad("the %s estimate is given alone; add its interval (\"%s [lo, hi]\"), its SE (\"%s, SE 0.05\"), its p (\"%s, p = .03\") or, for a correlation, n",
+				label, r.Estimate.Text, r.Estimate.Text, r.Estimate.Text)
+		}
+	}
+	in, err := c.input()
+	if err != nil {
+		return nil, err
+	}
+	return Audit(in, opts), nil
+}
+
+// input builds the workbook-shaped input of a comparison: two
+// coefficients and one claim, none placed on a sheet or row (so that no
+// note speaks of one), in two groups when independent, one group and one
+// model for SameModel, one group and two models for SameSample; with the
+// cross correlations as correlations rows of that sample.
+func (c *Comparison) input() (*extract.Input, error) {
+	groups, models := [2]string{"first sample", "second sample"}, [2]string{"model", "model"}
 	switch c.Relation {
 	case SameModel:
-		groups = [2]string{"sample", "sample"}
+		groups = [2]string{"", ""}
 	case SameSample:
-		groups, models = [2]string{"sample", "sample"}, [2]string{"first model", "second model"}
+		groups, models = [2]string{"", ""}, [2]string{"first model", "second model"}
 	}
-	in := &extract.Input{Source: "compare"}
+	// Variables of a correlation, in Steiger's numbering.
+	vars := [2][2]string{{"", ""}, {"", ""}}
+	in := &extract.Input{}
+	if given, overlapping := c.dependentCorrelations(); given {
+		switch {
+		case c.Measure != extract.MeasureR:
+			return nil, fmt.Errorf("correlations r13, r14, r23, r24 are given, but the measure is %s, not r: %w", c.Measure, ErrComparison)
+		case c.Relation != SameSample:
+			return nil, fmt.Errorf("correlations among the variables are given, but the two correlations are not from one sample (--same-sample): %w", ErrComparison)
+		case !c.N1.IsExact():
+			return nil, fmt.Errorf("two correlations of one sample need its n: %w", ErrComparison)
+		case !overlapping && !(c.R13.Present() && c.R14.Present() && c.R23.Present() && c.R24.Present()):
+			return nil, fmt.Errorf("two correlations without a shared variable (r12 and r34) need all four of r13, r14, r23 and r24: %w", ErrComparison)
+		}
+		vars = [2][2]string{{"1", "2"}, {"1", "3"}}
+		cross := map[[2]string]extract.Printed{{"2", "3"}: c.R23}
+		if !overlapping {
+			vars[1] = [2]string{"3", "4"}
+			cross = map[[2]string]extract.Printed{{"1", "3"}: c.R13, {"1", "4"}: c.R14, {"2", "3"}: c.R23, {"2", "4"}: c.R24}
+		}
+		for _, pair := range [][2]string{{"1", "3"}, {"1", "4"}, {"2", "3"}, {"2", "4"}} {
+			r, ok := cross[pair]
+			if !ok {
+				continue
+			}
+			if !r.IsExact() || math.Abs(r.Value) > 1 {
+				return nil, fmt.Errorf("r%s%s %q must be a correlation between −1 and 1: %w", pair[0], pair[1], r.Text, ErrComparison)
+			}
+			in.Correlations = append(in.Correlations, extract.Correlation{VarA: pair[0], VarB: pair[1], R: r, N: c.N1})
+		}
+	}
 	for i, r := range []Reported{c.First, c.Second} {
-		label := [2]string{"first", "second"}[i]
-		n := [2]extract.Printed{c.N1, c.N2}[i]
+		df := c.DF
+		if r.DF.Present() {
+			df = r.DF
+		}
 		in.Coefficients = append(in.Coefficients, extract.Coefficient{
-			Position: extract.Position{Sheet: "compare", Row: i + 2, Column: ""},
-			Study:    "compare", Label: label, Measure: c.Measure, Group: groups[i], Model: models[i],
-			Estimate: r.Estimate, CI: r.CI, CILevel: r.Level, SE: r.SE, P: r.P, DF: c.DF, N: n,
+			Label: [2]string{"first", "second"}[i], Measure: c.Measure, Group: groups[i], Model: models[i],
+			Outcome: vars[i][0], Predictor: vars[i][1],
+			Estimate: r.Estimate, CI: r.CI, CILevel: r.Level, SE: r.SE, Stat: r.Stat, P: r.P, DF: df,
+			N: [2]extract.Printed{c.N1, c.N2}[i],
 		})
 	}
-	in.Claims = []extract.Claim{{Position: extract.Position{Sheet: "compare", Row: 2},
-		Study: "compare", Claim: "1", First: "first", Second: "second", Published: c.Published,
+	in.Claims = []extract.Claim{{First: "first", Second: "second", Published: c.Published,
 		Basis: extract.BasisUnstated, Alpha: c.Alpha, EstimateCorr: c.EstimateCorr}}
-	return Audit(in, opts), nil
+	return in, nil
 }
 
 // ComparisonText is a comparison as typed on a command line: the two
@@ -136,10 +226,14 @@ type ComparisonText struct {
 	// N1 and N2 are the samples' sizes; N is one size for both, for one
 	// sample; DF the residual df. "" when not known.
 	N1, N2, N, DF string
+	// R13, R14, R23 and R24 are the cross correlations of two dependent
+	// correlations (see Comparison), "" when not given.
+	R13, R14, R23, R24 string
 }
 
 // FieldError is a problem with one field of a ComparisonText. Field is the
-// field's name in lower case (first, second, corr, n1, n2, n, df).
+// field's name in lower case (first, second, corr, n1, n2, n, df, r13,
+// r14, r23, r24).
 type FieldError struct {
 	Field string
 	Err   error
@@ -167,6 +261,14 @@ func ParseComparison(t ComparisonText) (Comparison, error) {
 	}
 	if c.EstimateCorr, err = ParseCorrelation(t.Corr); err != nil {
 		return Comparison{}, &FieldError{"corr", err}
+	}
+	for _, f := range []struct {
+		name, text string
+		to         *extract.Printed
+	}{{"r13", t.R13, &c.R13}, {"r14", t.R14, &c.R14}, {"r23", t.R23, &c.R23}, {"r24", t.R24, &c.R24}} {
+		if *f.to, err = extract.ParseNumber(f.text); err != nil {
+			return Comparison{}, &FieldError{f.name, err}
+		}
 	}
 	if t.N != "" && (t.N1 != "" || t.N2 != "") {
 		return Comparison{}, &FieldError{"n", fmt.Errorf("give n for one sample, or n1 and n2 for two, not both: %w", ErrComparison)}

@@ -153,6 +153,10 @@ func TestCompareReportedErrors(t *testing.T) {
 		{"correlation for independent", Comparison{First: first, Second: second, Relation: Independent, EstimateCorr: rho}, "independent estimates have none"},
 		{"correlation out of range", Comparison{First: first, Second: second, Relation: SameModel, EstimateCorr: tooBig}, "between −1 and 1"},
 		{"negative n", Comparison{First: first, Second: second, Relation: Independent, N1: negN}, "positive"},
+		{"estimate only", Comparison{First: mustReported(t, "0.41"), Second: second, Relation: Independent}, "given alone"},
+		{"label against measure", Comparison{First: mustReported(t, "OR 1.80 (1.21–2.68)"), Second: second, Relation: Independent, Measure: "b"}, "labelled as measure or"},
+		{"r23 for independent", Comparison{First: mustReported(t, "r = .5"), Second: mustReported(t, "r = .3"), Relation: Independent, N1: rho, N2: rho, R23: rho}, "one sample"},
+		{"three of four", Comparison{First: mustReported(t, "r = .5"), Second: mustReported(t, "r = .3"), Relation: SameSample, N1: rho, N2: rho, R23: rho, R13: rho, R14: rho}, "all four"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

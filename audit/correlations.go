@@ -18,7 +18,7 @@ func (a *auditor) independentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffi
 		r.Notes = append(r.Notes, "Without both n the correlations are compared on Fisher's z scale with SEs taken from their intervals, and no interval for ρ1 − ρ2 is given.")
 		return
 	}
-	cmp, err := correlation.CompareIndependent(c1.Estimate.Value, int(rc1.N), c2.Estimate.Value, int(rc2.N), 1-r.Alpha)
+	cmp, err := correlation.CompareIndependent(c1.Estimate.Value, int(rc1.N), r.signOf(true)*c2.Estimate.Value, int(rc2.N), 1-r.Alpha)
 	if err != nil {
 		r.Notes = append(r.Notes, "The Fisher z test could not be run: "+err.Error()+".")
 		return
@@ -68,6 +68,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	h, m := c2.Outcome, c2.Predictor
 	if j == "" || k == "" || h == "" || m == "" {
 		r.Notes = append(r.Notes, "A correlation's two variables (outcome and predictor columns) are needed to find the correlations between them in the table.")
+		src.tried(fmt.Sprintf("claim %s: its correlations do not name their two variables", r.Claim))
 		return false
 	}
 	n := src.n
@@ -78,6 +79,7 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	}
 	if math.IsNaN(n) {
 		r.Notes = append(r.Notes, fmt.Sprintf("No n is printed for the correlations or in %s.", src.name))
+		src.tried(fmt.Sprintf("claim %s: no n is printed", r.Claim))
 		return false
 	}
 	level := 1 - r.Alpha
@@ -105,13 +107,18 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 		pkh, ok := src.corr(k, hh)
 		if !ok {
 			r.Notes = append(r.Notes, fmt.Sprintf("The correlation of %s and %s is not in %s.", k, hh, src.name))
+			src.tried(fmt.Sprintf("claim %s: it lacks the correlation of %s and %s", r.Claim, k, hh))
 			return false
 		}
 		vals := []extract.Printed{c1.Estimate, c2.Estimate, pkh}
+		if r.reflected {
+			// Reflect hh, the second correlation's own variable.
+			vals[1], vals[2] = negated(vals[1]), negated(vals[2])
+		}
 		eval := func(v []float64) (correlation.Comparison, error) {
 			return correlation.CompareOverlapping(v[0], v[1], v[2], int(n), level)
 		}
-		return a.finishCorrelations(r, c1, c2, vals, eval, fmt.Sprintf("r(%s, %s) = %s from %s", k, hh, pkh.Text, src.name))
+		return a.finishCorrelations(r, c1, c2, src, vals, eval, fmt.Sprintf("r(%s, %s) = %s from %s", k, hh, pkh.Text, src.name))
 	}
 	need := [][2]string{{j, h}, {j, m}, {k, h}, {k, m}}
 	vals := []extract.Printed{c1.Estimate, c2.Estimate}
@@ -125,18 +132,23 @@ func (a *auditor) dependentCorrelations(r *ClaimResult, c1, c2 *extract.Coeffici
 	}
 	if len(missing) > 0 {
 		r.Notes = append(r.Notes, fmt.Sprintf("The correlations %s are not in %s.", strings.Join(missing, ", "), src.name))
+		src.tried(fmt.Sprintf("claim %s: it lacks the correlations %s", r.Claim, strings.Join(missing, ", ")))
 		return false
+	}
+	if r.reflected {
+		// Reflect m: r(h,m), r(j,m) and r(k,m) turn sign.
+		vals[1], vals[3], vals[5] = negated(vals[1]), negated(vals[3]), negated(vals[5])
 	}
 	eval := func(v []float64) (correlation.Comparison, error) {
 		return correlation.CompareNonOverlapping(correlation.NonOverlapping{JK: v[0], HM: v[1], JH: v[2], JM: v[3], KH: v[4], KM: v[5]}, int(n), level)
 	}
-	return a.finishCorrelations(r, c1, c2, vals, eval, "the four cross correlations from "+src.name)
+	return a.finishCorrelations(r, c1, c2, src, vals, eval, "the four cross correlations from "+src.name)
 }
 
 // finishCorrelations runs a dependent correlation comparison at the
 // printed values and over a grid of the rounding box (each printed
 // correlation at its two rounding limits and its printed value) for p_range.
-func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, vals []extract.Printed,
+func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource, vals []extract.Printed,
 	eval func([]float64) (correlation.Comparison, error), used string) bool {
 	point := make([]float64, len(vals))
 	for i, v := range vals {
@@ -145,8 +157,10 @@ func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient
 	cmp, err := eval(point)
 	if err != nil {
 		r.Notes = append(r.Notes, "The dependent correlations could not be compared: "+err.Error()+".")
+		src.tried(fmt.Sprintf("claim %s: %v", r.Claim, err))
 		return false
 	}
+	src.used = true
 	r.Method = cmp.Primary.Method
 	setCorrelationComparison(r, cmp)
 	r.Notes = append(r.Notes, "The comparison uses "+used+".")
@@ -175,6 +189,6 @@ func (a *auditor) finishCorrelations(r *ClaimResult, c1, c2 *extract.Coefficient
 	}
 	walk(0)
 	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
-	r.classify(c1.Estimate.Value, c2.Estimate.Value, dr, pr, rangeGrid)
+	r.classify(vals[0].Value, vals[1].Value, dr, pr, rangeGrid)
 	return true
 }

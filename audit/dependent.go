@@ -3,6 +3,8 @@ package audit
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -18,23 +20,47 @@ const undetermined = "undetermined"
 // paper's correlation table; the printed sampling correlation of the two
 // estimates (estimate_corr); and otherwise the range over every admissible
 // correlation.
-func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
+//
+// missingSE holds the notes of a coefficient whose SE the printed numbers
+// do not give: the table may still test the claim, and otherwise it is
+// incomplete with those notes.
+func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, missingSE []string) {
 	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	if msg := src.contradictionFor(r); msg != "" {
+		r.Notes = append(r.Notes, msg)
+		r.conflict = true
+	}
 	if r.Measure == extract.MeasureR && src != nil {
 		if a.dependentCorrelations(r, c1, c2, src) {
 			return
 		}
 	}
 	if r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure) && src != nil {
-		if a.regressionFromTable(r, c1, c2, src) {
+		if a.regressionFromTable(r, c1, c2, rc1, rc2, src) {
 			return
 		}
+	}
+	if len(missingSE) > 0 {
+		r.Notes = append(r.Notes, missingSE...)
+		r.Outcome = Incomplete
+		return
 	}
 	if cl.EstimateCorr.IsExact() {
 		a.withEstimateCorr(r, cl.EstimateCorr, rc1, rc2)
 		return
 	}
-	a.admissible(r, c1, rc1, rc2)
+	a.admissible(r, c1, c2, rc1, rc2)
+}
+
+// tableMayTest reports whether the sample's correlations may test a claim
+// of one sample whatever its printed SEs: dependent correlations, or two
+// coefficients of one regression rebuilt from the table.
+func (a *auditor) tableMayTest(r *ClaimResult, c1, c2 *extract.Coefficient) bool {
+	if r.Relation == Independent || a.corr[sampleKey(c1.Study, c1.Group)] == nil ||
+		!c1.Estimate.IsExact() || !c2.Estimate.IsExact() {
+		return false
+	}
+	return r.Measure == extract.MeasureR || (r.Relation == SameModel && extract.IsRegressionMeasure(r.Measure))
 }
 
 // commonDF returns the residual df two coefficients of one model share, or
@@ -50,6 +76,9 @@ func commonDF(r *ClaimResult, rc1, rc2 *extract.Reconstructed) float64 {
 // correlation ρ of the two estimates: Var(d) = SE1² + SE2² − 2ρ SE1 SE2.
 func (a *auditor) withEstimateCorr(r *ClaimResult, rho extract.Printed, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
+	if r.reflected {
+		rho = negated(rho)
+	}
 	d, err := infer.CorrelatedDifference(rc1.Estimate, rc1.SE, rc2.Estimate, rc2.SE, rho.Value, df, 1-r.Alpha)
 	if err != nil {
 		r.Notes = append(r.Notes, "The difference could not be tested with the printed estimate_corr: "+err.Error()+".")
@@ -100,7 +129,7 @@ func seGap(a, b infer.Range) float64 {
 // admissible gives the range of p over every admissible sampling
 // correlation of the two estimates, −1 to 1: Var(d) runs from (SE1 − SE2)²
 // to (SE1 + SE2)².
-func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
+func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
 	r.Method = "admissible-range"
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
@@ -115,11 +144,35 @@ func (a *auditor) admissible(r *ClaimResult, c1 *extract.Coefficient, rc1, rc2 *
 	case r.Relation == SameModel:
 		need += ", or the correlation table of the model's variables with SDs and n"
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("One sample (study %q, group %q), covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s would settle it.", c1.Study, c1.Group, need))
-	if c1.Group == "" {
+	settle := need + " would settle it"
+	if src := a.corr[sampleKey(c1.Study, c1.Group)]; src != nil {
+		settle = fmt.Sprintf("%s is printed but could not be used for this claim (see above); %s would settle it", src.what(), need)
+	} else if others := a.otherSamples(c1.Study); len(others) > 0 {
+		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q would settle it", strings.Join(others, "; "), need, c1.Group)
+	}
+	sample := fmt.Sprintf("One sample (study %q, group %q)", c1.Study, c1.Group)
+	if c1.Sheet == "" {
+		sample = "One sample" // typed, not read from a workbook
+	}
+	r.Notes = append(r.Notes, fmt.Sprintf("%s, covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s.", sample, settle))
+	if c1.Group == "" && c1.Sheet != "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}
 	a.finishRange(r, rc1, rc2, ser, df, rangeAdmissible)
+	r.tip, r.hasTip = a.tippingOf(r, c1, c2, rc1, rc2, df)
+}
+
+// otherSamples names the correlation sources of a study, each with its
+// group, in a fixed order.
+func (a *auditor) otherSamples(study string) []string {
+	var out []string
+	for k, s := range a.corr {
+		if k[0] == sampleKey(study, "")[0] {
+			out = append(out, fmt.Sprintf("%s, group %q", s.name, s.group))
+		}
+	}
+	slices.Sort(out)
+	return out
 }
 
 func diffRange(rc1, rc2 *extract.Reconstructed) infer.Range {

@@ -31,12 +31,18 @@ func modelOf(c *extract.Coefficient) modelKey { return modelKey{c.Study, c.Group
 // difference with the rebuilt covariance: a t test with the residual df for
 // unstandardized coefficients, a z test with the delta-method covariance for
 // standardized ones. It reports false when the table lacks what is needed.
-func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficient, src *corrSource) bool {
+//
+// The printed coefficients are then checked against the rebuilt ones
+// (checkPrinted): an estimate outside the rebuilt one's rounding is a
+// conflict, stars that disagree with the rebuilt p a problem, and a printed
+// SE or interval is said to agree or not.
+func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, src *corrSource) bool {
 	key := modelOf(c1)
 	preds := a.predictorsOf(key)
 	outcome := c1.Outcome
 	if outcome == "" || c1.Predictor == "" || c2.Predictor == "" || outcome != c2.Outcome {
 		r.Notes = append(r.Notes, "To rebuild the model from the correlation table, both coefficients need the same outcome and their predictors named.")
+		src.tried(fmt.Sprintf("claim %s: its coefficients do not both name the same outcome and their predictors", r.Claim))
 		return false
 	}
 	vars := append([]string{outcome}, preds...)
@@ -48,6 +54,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	}
 	if len(missing) > 0 {
 		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: it lacks %s.", src.name, strings.Join(missing, ", ")))
+		src.tried(fmt.Sprintf("claim %s: the model needs %s", r.Claim, strings.Join(missing, ", ")))
 		return false
 	}
 	n := src.n
@@ -56,15 +63,20 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	}
 	if math.IsNaN(n) {
 		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: no n is printed.", src.name))
+		src.tried(fmt.Sprintf("claim %s: no n is printed", r.Claim))
 		return false
 	}
 	unstd := r.Measure == extract.MeasureB
 	table, err := newModelTable(src, vars, unstd)
 	if err != nil {
 		r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: %v.", src.name, err))
+		src.tried(fmt.Sprintf("claim %s: %v", r.Claim, err))
 		return false
 	}
 	i, j := indexOf(preds, c1.Predictor), indexOf(preds, c2.Predictor)
+	if r.reflected {
+		table.reflect(j + 1) // the outcome is variable 0
+	}
 	level := 1 - r.Alpha
 	res, err := table.test(table.point(), int(n), i, j, unstd, level)
 	if err != nil {
@@ -74,8 +86,10 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 		} else {
 			r.Notes = append(r.Notes, fmt.Sprintf("The model cannot be rebuilt from %s: %v.", src.name, err))
 		}
+		src.tried(fmt.Sprintf("claim %s: %v", r.Claim, err))
 		return false
 	}
+	src.used = true
 	if unstd {
 		r.Method = "t-from-correlation-table"
 	} else {
@@ -92,7 +106,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	r.P = Number(res.diff.P)
 	r.PoolEstimate, r.PoolSE, r.PoolScale = r.Difference, r.DifferenceSE, extract.ScaleAsPrinted
 	r.First.Estimate, r.First.SE, r.First.SEFrom = Number(res.est[i]), Number(res.se[i]), "rebuilt from "+src.name
-	r.Second.Estimate, r.Second.SE, r.Second.SEFrom = Number(res.est[j]), Number(res.se[j]), "rebuilt from "+src.name
+	r.Second.Estimate, r.Second.SE, r.Second.SEFrom = Number(r.signOf(true)*res.est[j]), Number(res.se[j]), "rebuilt from "+src.name
 	kind := "classical OLS covariance, t with the residual df"
 	if !unstd {
 		kind = "normal-theory delta-method covariance of standardized coefficients (Yuan & Chan 2011; Jones & Waller 2013), z test"
@@ -109,8 +123,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	// printed values, then corners of the box drawn with a fixed seed.
 	pr := infer.Point(res.diff.P)
 	dr := infer.Point(res.diff.Estimate)
-	estLo := append([]float64(nil), res.est...)
-	estHi := append([]float64(nil), res.est...)
+	box := newRebuiltBox(res)
 	rng := rand.New(rand.NewPCG(uint64(len(vars)), uint64(n)))
 	for range roundingCorners {
 		g, err := table.test(table.corner(rng), int(n), i, j, unstd, level)
@@ -119,28 +132,14 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 		}
 		pr.Lo, pr.Hi = math.Min(pr.Lo, g.diff.P), math.Max(pr.Hi, g.diff.P)
 		dr.Lo, dr.Hi = math.Min(dr.Lo, g.diff.Estimate), math.Max(dr.Hi, g.diff.Estimate)
-		for k := range g.est {
-			estLo[k], estHi[k] = math.Min(estLo[k], g.est[k]), math.Max(estHi[k], g.est[k])
-		}
+		box.widen(g)
 	}
 	r.PRange = [2]Number{Number(pr.Lo), Number(pr.Hi)}
-	r.classify(res.est[i], res.est[j], dr, pr, rangeGrid)
-
-	var conflicts []string
-	for _, pc := range []struct {
-		c *extract.Coefficient
-		k int
-	}{{c1, i}, {c2, j}} {
-		lo, hi := pc.c.Estimate.RoundingInterval()
-		if hi < estLo[pc.k]-1e-12 || lo > estHi[pc.k]+1e-12 {
-			conflicts = append(conflicts, fmt.Sprintf("Coefficient %s is printed as %s, but the correlation table gives %s (between %s and %s within its rounding): the table and the coefficient disagree beyond rounding, or the model had covariates the table does not show.",
-				pc.c.Label, pc.c.Estimate.Text, FormatNum(res.est[pc.k]), FormatNum(estLo[pc.k]), FormatNum(estHi[pc.k])))
-		}
+	r.classify(res.est[i], res.est[j], dr, pr, rangeGrid) // j reflected for magnitude
+	if r.reflected {
+		box.reflect(j)
 	}
-	if len(conflicts) > 0 {
-		r.Notes = append(r.Notes, conflicts...)
-		r.conflict = true
-	}
+	a.checkPrinted(r, src, key, box, rebuiltCoef{c1, rc1, i}, rebuiltCoef{c2, rc2, j})
 	return true
 }
 
@@ -159,6 +158,17 @@ type modelTable struct {
 	sds      []extract.Printed
 	unstd    bool
 	printedN int
+	// reflected marks variables whose scoring is reversed (their
+	// correlations turn sign), for claims about magnitude; nil for none.
+	reflected []bool
+}
+
+// reflect reverses the scoring of variable k.
+func (t *modelTable) reflect(k int) {
+	if t.reflected == nil {
+		t.reflected = make([]bool, len(t.r))
+	}
+	t.reflected[k] = !t.reflected[k]
 }
 
 func newModelTable(src *corrSource, vars []string, unstd bool) (*modelTable, error) {
@@ -221,7 +231,11 @@ func (t *modelTable) build(at func(extract.Printed) float64) values {
 	for a := 0; a < q; a++ {
 		m.SetSym(a, a, 1)
 		for b := a + 1; b < q; b++ {
-			m.SetSym(a, b, math.Max(-1, math.Min(1, at(t.r[a][b]))))
+			v := math.Max(-1, math.Min(1, at(t.r[a][b])))
+			if t.reflected != nil && t.reflected[a] != t.reflected[b] {
+				v = -v
+			}
+			m.SetSym(a, b, v)
 		}
 	}
 	v := values{r: m}
@@ -235,6 +249,7 @@ func (t *modelTable) build(at func(extract.Printed) float64) values {
 type tableResult struct {
 	diff     *regress.Difference
 	est, se  []float64
+	df       float64 // +Inf for the z test of standardized coefficients
 	warnings []string
 }
 
@@ -262,6 +277,7 @@ func (t *modelTable) test(v values, n, i, j int, unstd bool, level float64) (tab
 	if unstd {
 		all = fit.Coefficients
 	}
+	res.df = df
 	res.diff, err = regress.TestDifference(all, cov, i, j, df, level)
 	return res, err
 }

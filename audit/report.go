@@ -90,7 +90,11 @@ type ClaimResult struct {
 	Outcome      string         `json:"outcome"`
 	Notes        []string       `json:"notes"`
 	Overlap      *OverlapResult `json:"overlap"`
-	Alternatives []Alternative  `json:"alternatives,omitempty"`
+	// TippingCorr holds the sampling correlation of the two estimates at
+	// which the verdict flips, for a claim indeterminate because that
+	// correlation was not printed.
+	TippingCorr  []Number      `json:"tipping_corr,omitempty"`
+	Alternatives []Alternative `json:"alternatives,omitempty"`
 
 	// Alpha is the claim's significance level; Basis how the paper reached
 	// its verdict; Measure the coefficients' measure. Shown in tables and CSV.
@@ -121,6 +125,13 @@ type ClaimResult struct {
 	dec      decision
 	decided  bool
 	conflict bool
+	// tip is where the verdict of a claim tested over every admissible
+	// correlation turns, when it does (hasTip).
+	tip    tipping
+	hasTip bool
+	// reflected is set when a claim about magnitude compares estimates of
+	// opposite sign: the second is tested with its sign turned.
+	reflected bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
 }

@@ -71,7 +71,8 @@ func TestParseReported(t *testing.T) {
 func TestParseReportedErrors(t *testing.T) {
 	tests := []struct{ name, in, want string }{
 		{"empty", "  ", "empty"},
-		{"estimate only", "0.41", "only an estimate"},
+		{"two statistics", "0.41, t = 2.1, t = 2.2", "statistic is given twice"},
+		{"z with df", "0.41, z(120) = 2.1", "no df"},
 		{"not a number", "abc [0.1, 0.2]", "the estimate"},
 		{"plus-minus", "0.41 ± 0.05", "±"},
 		{"two intervals", "0.41 [0.30, 0.52] (0.1 to 0.2)", "two intervals"},
@@ -84,9 +85,58 @@ func TestParseReportedErrors(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			_, err := ParseReported(tt.in)
+			_, err := ParseReported(tt.in) // "0.41" alone is accepted, see TestIssue17PrintedForms
 			if err == nil || !errors.Is(err, ErrReported) || !strings.Contains(err.Error(), tt.want) {
 				t.Errorf("ParseReported(%q) error = %v, want ErrReported saying %q", tt.in, err, tt.want)
+			}
+		})
+	}
+}
+
+// TestIssue17PrintedForms: the forms people paste from a paper. Each
+// reading is set against the same estimate written the long way.
+func TestIssue17PrintedForms(t *testing.T) {
+	tests := []struct {
+		in, measure         string
+		est, se, stat, df   float64
+		p                   float64
+		pBound              extract.Bound
+		starsAsP, onlyFirst bool
+	}{
+		{in: "b = 0.41, SE = 0.12", measure: "b", est: 0.41, se: 0.12},
+		{in: "B = 0.41 (SE 0.12)", measure: "b", est: 0.41, se: 0.12},
+		{in: "β = .34, p < .01", measure: "beta", est: 0.34, p: 0.01, pBound: extract.Below},
+		{in: "beta: .34, p = .004", measure: "beta", est: 0.34, p: 0.004, pBound: extract.Exact},
+		{in: "OR 1.80 (1.21–2.68)", measure: "or", est: 1.80},
+		{in: "HR = 0.81 [0.70, 0.94]", measure: "hr", est: 0.81},
+		{in: "0.41, t(120) = 3.2", est: 0.41, stat: 3.2, df: 120},
+		{in: "b = 0.41, t(120) = 3.2, p = .002", measure: "b", est: 0.41, stat: 3.2, df: 120, p: 0.002, pBound: extract.Exact},
+		{in: "0.41 (t = 3.2)", est: 0.41, stat: 3.2},
+		{in: "0.41, z = 2.05", est: 0.41, stat: 2.05},
+		// Stars alone are the p bound they state (p < .05, .01, .001).
+		{in: "0.41***", est: 0.41, p: 0.001, pBound: extract.Below, starsAsP: true},
+		{in: "β = .21*", measure: "beta", est: 0.21, p: 0.05, pBound: extract.Below, starsAsP: true},
+		// Stars beside an interval are not read as p.
+		{in: ".41** [.30, .52]", est: 0.41},
+		{in: "r = .45", measure: "r", est: 0.45, onlyFirst: true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			r, err := ParseReported(tt.in)
+			if err != nil {
+				t.Fatalf("ParseReported(%q) error %v", tt.in, err)
+			}
+			if r.Measure != tt.measure || r.Estimate.Value != tt.est {
+				t.Errorf("ParseReported(%q) measure %q estimate %v, want %q %v", tt.in, r.Measure, r.Estimate.Value, tt.measure, tt.est)
+			}
+			if tt.se != 0 && r.SE.Value != tt.se || tt.stat != 0 && r.Stat.Value != tt.stat || tt.df != 0 && r.DF.Value != tt.df {
+				t.Errorf("ParseReported(%q) SE %v stat %v df %v, want %v %v %v", tt.in, r.SE.Value, r.Stat.Value, r.DF.Value, tt.se, tt.stat, tt.df)
+			}
+			if tt.p != 0 && (r.P.Bound != tt.pBound || math.Abs(r.P.Value-tt.p) > 1e-12) || tt.p == 0 && r.P.Present() {
+				t.Errorf("ParseReported(%q) p %v (%v), want %v (%v)", tt.in, r.P.Value, r.P.Bound, tt.p, tt.pBound)
+			}
+			if r.PFromStars != tt.starsAsP || r.OnlyEstimate() != tt.onlyFirst {
+				t.Errorf("ParseReported(%q) PFromStars %v OnlyEstimate %v, want %v %v", tt.in, r.PFromStars, r.OnlyEstimate(), tt.starsAsP, tt.onlyFirst)
 			}
 		})
 	}

@@ -41,8 +41,11 @@ func AuditStudy(st *extract.Study, opts Options) StudyResult {
 	own := &extract.Input{Coefficients: st.Coefficients, Claims: st.Claims, Correlations: st.Correlations, Tables: st.Tables}
 	res.Problems = append(res.Problems, collectProblems(own)...)
 	res.Problems = append(res.Problems, tableProblems(own)...)
+	res.Problems = append(res.Problems, a.corrProblems...)
+	res.Problems = append(res.Problems, unusedProblems(a.corr, st.Name)...)
 	for i := range in.Coefficients[:len(st.Coefficients)] {
 		res.Problems = append(res.Problems, a.conflictsOf(&in.Coefficients[i])...)
+		res.Problems = append(res.Problems, a.rebuilt[&in.Coefficients[i]]...)
 	}
 	return res
 }

@@ -4,17 +4,21 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
 )
 
-// direction returns +1 when the first estimate is the stronger at
-// difference d, −1 when the second is, 0 for no difference. When both
-// estimates are negative "stronger" means farther from zero, so the sign
-// of d is turned; otherwise the signed values are compared.
-func direction(e1, e2, d float64) int {
-	if e1 < 0 && e2 < 0 {
+// direction returns +1 when the test favours the first estimate at
+// difference d = e1 − e2, −1 when it favours the second, 0 for no
+// difference. For a signed claim (first-larger, second-larger, differ) that
+// is the sign of d. For a claim about magnitude (first-stronger,
+// second-stronger) the two estimates have the same sign by then (one of
+// opposite sign is reflected before the test, see reflectForMagnitude), so
+// |e1| − |e2| has the sign of d times the sign of the estimates.
+func direction(published string, e1, e2, d float64) int {
+	if extract.IsMagnitudeVerdict(published) && e1+e2 < 0 {
 		d = -d
 	}
 	switch {
@@ -26,8 +30,23 @@ func direction(e1, e2, d float64) int {
 	return 0
 }
 
+// wantedDirection is the direction a directional verdict asserts, and 0
+// for differ and no-difference.
+func wantedDirection(published string) int {
+	switch published {
+	case extract.PublishedFirstLarger, extract.PublishedFirstStronger:
+		return 1
+	case extract.PublishedSecondLarger, extract.PublishedSecondStronger:
+		return -1
+	}
+	return 0
+}
+
 // outcomeAt classifies a published verdict against a test that is
-// significant or not, with the estimates pointing in direction dir.
+// significant or not, with the estimates pointing in direction dir. A
+// directional verdict is reversed only when the test shows the opposite
+// direction at α; an opposite point estimate without a significant
+// difference leaves the verdict unsupported.
 func outcomeAt(published string, significant bool, dir int) string {
 	switch published {
 	case extract.PublishedDiffer:
@@ -40,28 +59,32 @@ func outcomeAt(published string, significant bool, dir int) string {
 			return Missed
 		}
 		return Consistent
-	case extract.PublishedFirstLarger, extract.PublishedSecondLarger:
-		want := 1
-		if published == extract.PublishedSecondLarger {
-			want = -1
-		}
-		switch {
-		case dir == -want:
-			return Reversed
-		case significant && dir == want:
-			return Consistent
-		}
-		return Unsupported
 	}
-	return Incomplete
+	want := wantedDirection(published)
+	switch {
+	case want == 0:
+		return Incomplete
+	case significant && dir == want:
+		return Consistent
+	case significant && dir == -want:
+		return Reversed
+	}
+	return Unsupported
 }
 
-func recomputedVerdict(significant bool, dir int) string {
+// recomputedVerdict is the verdict the test supports, in the words of the
+// published one: signed (first-larger) or about magnitude (first-stronger).
+func recomputedVerdict(published string, significant bool, dir int) string {
+	magnitude := extract.IsMagnitudeVerdict(published)
 	switch {
 	case !significant || dir == 0:
 		return extract.PublishedNoDifference
+	case dir > 0 && magnitude:
+		return extract.PublishedFirstStronger
 	case dir > 0:
 		return extract.PublishedFirstLarger
+	case magnitude:
+		return extract.PublishedSecondStronger
 	}
 	return extract.PublishedSecondLarger
 }
@@ -115,7 +138,7 @@ func (r *ClaimResult) classify(e1, e2 float64, dr, pr infer.Range, how rangeKind
 // only when the whole range lies on one side of α.
 func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	dc := &r.dec
-	dir := direction(dc.e1, dc.e2, float64(r.Difference))
+	dir := direction(r.Published, dc.e1, dc.e2, float64(r.Difference))
 	dirs := [2]int{dir, dir}
 	if dc.dr.Contains(0) {
 		dirs = [2]int{1, -1}
@@ -138,20 +161,33 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	if math.IsNaN(p) {
 		r.Recomputed = undetermined
 		r.Outcome = Indeterminate
-		if seen.n == 1 {
+		switch {
+		case seen.n == 1:
 			r.Outcome = seen.o[0]
+		case !seen.has(Consistent) && seen.has(Unsupported):
+			// The verdict falls whatever was not printed: the test shows
+			// the opposite direction or nothing. The milder word holds.
+			r.Outcome = Unsupported
 		}
 	} else {
 		sig := p < r.Alpha
-		r.Recomputed = recomputedVerdict(sig, dir)
+		r.Recomputed = recomputedVerdict(r.Published, sig, dir)
 		r.Outcome = outcomeAt(r.Published, sig, dir)
 	}
 	dc.verdictNote, dc.dir, dc.used = len(r.Notes), dir, pr
 	r.Notes = append(r.Notes, r.outcomeNote(dir, pr))
+	if want := wantedDirection(r.Published); want != 0 && dir == -want && r.Outcome != Reversed && !math.IsNaN(p) {
+		r.Notes = append(r.Notes, "The point estimates point the other way ("+
+			strings.TrimSuffix(r.directionWords(-want), ".")+"), but the difference is not significant: the paper's direction is not supported, not shown reversed.")
+	}
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
 		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
 			dc.how.phrase(), FormatP(pr.Lo), FormatP(pr.Hi), FormatAlpha(r.Alpha)))
+		if r.hasTip {
+			r.TippingCorr = []Number{Number(r.tip.rho)}
+			r.Notes = append(r.Notes, r.tip.note(r))
+		}
 	}
 }
 
@@ -184,11 +220,15 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 	case Consistent:
 		return "The verdict stands: " + test + "."
 	case Unsupported:
+		if !r.P.Known() && pr.Lo < r.Alpha {
+			return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but " + test +
+				": within what was not printed the test shows either no difference or the opposite direction, never the published one."
+		}
 		return "The paper reports a difference, but " + test + ", not below α = " + alpha + ": the printed numbers do not show one."
 	case Missed:
 		return "The paper reports no difference, but " + test + ", below α = " + alpha + "."
 	case Reversed:
-		return "The paper says the " + larger(r.Published) + " estimate is the larger, but the estimates point the other way: " + test + "."
+		return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but the test shows the opposite direction at α = " + alpha + ": " + test + "."
 	case Indeterminate:
 		return "The verdict cannot be decided: " + test + "."
 	case Conflict:
@@ -208,11 +248,17 @@ func (r *ClaimResult) testResult(pr infer.Range) string {
 	return fmt.Sprintf("the difference %s has p from %s to %s", FormatNum(float64(r.Difference)), FormatP(pr.Lo), FormatP(pr.Hi))
 }
 
-func larger(published string) string {
-	if published == extract.PublishedSecondLarger {
-		return "second"
+// directionWords says which estimate is ahead in direction dir, in the
+// words of the claim: the larger (signed) or the stronger (magnitude).
+func (r *ClaimResult) directionWords(dir int) string {
+	which := "first"
+	if dir < 0 {
+		which = "second"
 	}
-	return "first"
+	if extract.IsMagnitudeVerdict(r.Published) {
+		return "the " + which + " estimate is the stronger (larger in magnitude)"
+	}
+	return "the " + which + " estimate is the larger"
 }
 
 // formatNum writes a number with four significant digits, as the notes

@@ -110,3 +110,19 @@ type Interval struct {
 
 // Present reports whether both limits were printed.
 func (iv Interval) Present() bool { return iv.Low.IsExact() && iv.High.IsExact() }
+
+// StarsPBound is the p bound a number of significance stars states: one
+// star p < .05, two p < .01, three p < .001 (the usual convention of
+// journal tables; common practice, no source). It reports false for no
+// stars or more than three.
+func StarsPBound(stars int) (float64, bool) {
+	switch stars {
+	case 1:
+		return 0.05, true
+	case 2:
+		return 0.01, true
+	case 3:
+		return 0.001, true
+	}
+	return 0, false
+}

@@ -27,16 +27,28 @@ func IsRatioMeasure(m string) bool { return m == MeasureOR || m == MeasureRR || 
 // (unstandardized or standardized), one of a model's listed coefficients.
 func IsRegressionMeasure(m string) bool { return m == MeasureB || m == MeasureBeta }
 
-// Published verdicts of the claims sheet's published column.
+// Published verdicts of the claims sheet's published column. "Larger" is
+// signed (the first estimate is above the second); "stronger" is about
+// magnitude (|estimate|, and for ratio measures the distance from 1 on the
+// log scale).
 const (
-	PublishedDiffer       = "differ"
-	PublishedNoDifference = "no-difference"
-	PublishedFirstLarger  = "first-larger"
-	PublishedSecondLarger = "second-larger"
+	PublishedDiffer         = "differ"
+	PublishedNoDifference   = "no-difference"
+	PublishedFirstLarger    = "first-larger"
+	PublishedSecondLarger   = "second-larger"
+	PublishedFirstStronger  = "first-stronger"
+	PublishedSecondStronger = "second-stronger"
 )
 
 // Verdicts lists the valid published values.
-var Verdicts = []string{PublishedDiffer, PublishedNoDifference, PublishedFirstLarger, PublishedSecondLarger}
+var Verdicts = []string{PublishedDiffer, PublishedNoDifference, PublishedFirstLarger, PublishedSecondLarger,
+	PublishedFirstStronger, PublishedSecondStronger}
+
+// IsMagnitudeVerdict reports whether a published verdict is about the
+// magnitude of the estimates (first-stronger, second-stronger).
+func IsMagnitudeVerdict(v string) bool {
+	return v == PublishedFirstStronger || v == PublishedSecondStronger
+}
 
 // Bases of the claims sheet's basis column: how the paper reached its verdict.
 const (

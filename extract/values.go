@@ -18,8 +18,9 @@ import (
 //	           relative-risk;  hr: hazard-ratio;  md: mean-difference
 //	published  differ: differs, different;
 //	           no-difference: nodifference, no-diff, not-different;
-//	           first-larger: first-greater, first-stronger;
-//	           second-larger: second-greater, second-stronger
+//	           first-larger: first-greater;  second-larger: second-greater;
+//	           first-stronger: first-larger-magnitude;
+//	           second-stronger: second-larger-magnitude
 //	basis      test: tested, formal-test;  overlap: ci-overlap,
 //	           interval-overlap;  significance-split: sig-split;
 //	           unstated: not-stated, unknown
@@ -34,8 +35,8 @@ var valueAliases = map[string]map[string]string{
 	"published": {
 		"differs": PublishedDiffer, "different": PublishedDiffer,
 		"nodifference": PublishedNoDifference, "no-diff": PublishedNoDifference, "not-different": PublishedNoDifference,
-		"first-greater": PublishedFirstLarger, "first-stronger": PublishedFirstLarger,
-		"second-greater": PublishedSecondLarger, "second-stronger": PublishedSecondLarger,
+		"first-greater": PublishedFirstLarger, "second-greater": PublishedSecondLarger,
+		"first-larger-magnitude": PublishedFirstStronger, "second-larger-magnitude": PublishedSecondStronger,
 	},
 	"basis": {
 		"tested": BasisTest, "formal-test": BasisTest,

@@ -23,17 +23,19 @@ var methodDescriptions = map[string]string{
 }
 
 var publishedWords = map[string]string{
-	extract.PublishedDiffer:       "the two estimates differ",
-	extract.PublishedNoDifference: "the two estimates do not differ",
-	extract.PublishedFirstLarger:  "the first is the larger",
-	extract.PublishedSecondLarger: "the second is the larger",
+	extract.PublishedDiffer:         "the two estimates differ",
+	extract.PublishedNoDifference:   "the two estimates do not differ",
+	extract.PublishedFirstLarger:    "the first is the larger",
+	extract.PublishedSecondLarger:   "the second is the larger",
+	extract.PublishedFirstStronger:  "the first is the stronger (larger in magnitude)",
+	extract.PublishedSecondStronger: "the second is the stronger (larger in magnitude)",
 }
 
 var outcomeWords = map[string]string{
 	audit.Consistent:    "The published verdict stands.",
 	audit.Unsupported:   "The published difference is not supported by the test of the difference.",
 	audit.Missed:        "The paper reports no difference, but the test of the difference shows one.",
-	audit.Reversed:      "The published direction is the opposite of what the estimates show.",
+	audit.Reversed:      "The test of the difference shows the opposite of the published direction.",
 	audit.Indeterminate: "The verdict cannot be decided from what was printed.",
 	audit.Conflict:      "The printed numbers contradict each other, so the verdict cannot be checked as printed.",
 	audit.Incomplete:    "Not enough was printed to test the claim.",
@@ -44,8 +46,12 @@ var outcomeWords = map[string]string{
 // verdict and its caveats.
 func methodsText(r *audit.ClaimResult) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Claim %s (%s, claims row %d): the paper reports that %s (%s vs %s", r.Claim, r.Study, r.Row,
-		publishedOr(r.Published), r.First.Label, r.Second.Label)
+	if r.Row > 0 {
+		fmt.Fprintf(&b, "Claim %s (%s, claims row %d): t", r.Claim, r.Study, r.Row)
+	} else {
+		b.WriteString("T") // typed with compare: no workbook row
+	}
+	fmt.Fprintf(&b, "he paper reports that %s (%s vs %s", publishedOr(r.Published), r.First.Label, r.Second.Label)
 	if r.Basis != "" {
 		fmt.Fprintf(&b, "; basis: %s", r.Basis)
 	}

@@ -117,8 +117,12 @@ INPUT is one of
 column.
 
 Every claims row appears once in the report, in input order, with an
-outcome: consistent, unsupported, missed, reversed, indeterminate, conflict
-or incomplete, and notes saying why.
+outcome: consistent, unsupported, missed, reversed (the test shows the
+opposite direction at alpha; an opposite point estimate alone is
+unsupported), indeterminate (with the tipping correlation where only the
+estimates' correlation is missing), conflict or incomplete, and notes
+saying why. The published verdict is differ, no-difference, first-larger
+or second-larger (signed), first-stronger or second-stronger (magnitude).
 
 Formats: table (the terminal), json (the output contract), csv, md (one
 Markdown document: a table and each claim's methods paragraph), xlsx (the

@@ -51,13 +51,22 @@ with its interval, its SE or its p:
 
   "0.41 [0.30, 0.52]"   "0.18 (0.05 to 0.31)"   "0.41 (95% CI 0.30-0.52)"
   "0.41, SE 0.05"       "0.41 (SE 0.05)"        "0.41, p = .003"
+  "b = 0.41, SE = 0.12" "β = .34, p < .01"      "OR 1.80 (1.21–2.68)"
+  "0.41, t(120) = 3.2"  "0.41***" (stars: p < .05, .01, .001)
 
+A label (b, β, r, OR, RR, HR, MD) names the measure when --measure is not
+given.
 Say how the two are related: --independent (two samples), --same-model
 (two coefficients of one fitted model) or --same-sample (one sample, two
 models). For the last two, --corr gives the sampling correlation of the
 two estimates if the paper printed it; without it the p is given over
 every admissible correlation. Ratios (--measure or, rr, hr) are tested on
-the log scale; correlations (--measure r) need --n1 and --n2 (or --n).
+the log scale; correlations (--measure r) need --n1 and --n2 (or --n), and
+nothing else ("r = .45"). Two correlations of one sample (--same-sample
+--n N) are compared with the sample's other correlations, numbered as in
+Steiger (1980): --first r12 and --second r13 with --r23 (overlapping,
+Williams' t), or --first r12 and --second r34 with --r13, --r14, --r23 and
+--r24 (non-overlapping, the ZPF test).
 
 The claim goes through exactly the check that "coefaudit check" runs on a
 claims row, and the command prints the test, the verdict, the notes and a
@@ -66,7 +75,8 @@ is listed in --fail-on, 2 for a usage error.`,
 		Example: `  coefaudit compare --first "0.41 [0.30, 0.52]" --second "0.18 (0.05 to 0.31)" --independent
   coefaudit compare --first "0.41, SE 0.05" --second "0.18, SE 0.06" --same-model --corr 0.35 --df 120
   coefaudit compare --first "0.67 (0.46 to 0.98)" --second "0.88 (0.71 to 1.08)" --independent \
-      --measure rr --published no-difference`,
+      --measure rr --published no-difference
+  coefaudit compare --first "r = .80" --second "r = .72" --same-sample --n 26 --r23 .89`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := o.validate(); err != nil {
@@ -86,13 +96,17 @@ is listed in --fail-on, 2 for a usage error.`,
 	f.BoolVar(&o.sameModel, "same-model", false, "the estimates are coefficients of one fitted model")
 	f.BoolVar(&o.sameSample, "same-sample", false, "the estimates come from one sample (different models)")
 	f.StringVar(&o.text.Corr, "corr", "", "sampling correlation of the two estimates, as printed (same model or sample)")
-	f.StringVar(&o.text.Published, "published", extract.PublishedDiffer, "the paper's verdict: differ, no-difference, first-larger or second-larger")
+	f.StringVar(&o.text.Published, "published", extract.PublishedDiffer, "the paper's verdict: differ, no-difference, first-larger, second-larger (signed), first-stronger or second-stronger (magnitude)")
 	f.StringVar(&o.text.Measure, "measure", extract.MeasureOther, "the estimates' measure: b, beta, r, or, rr, hr, md or other")
 	f.Float64Var(&o.text.Alpha, "alpha", extract.DefaultAlpha, "significance level of the test")
 	f.StringVar(&o.text.N1, "n1", "", "sample size of the first estimate")
 	f.StringVar(&o.text.N2, "n2", "", "sample size of the second estimate")
 	f.StringVar(&o.text.N, "n", "", "sample size of both (one sample)")
 	f.StringVar(&o.text.DF, "df", "", "residual degrees of freedom, for a t test")
+	f.StringVar(&o.text.R23, "r23", "", "correlations of one sample: r23, with --first r12 and --second r13 (overlapping) or r34")
+	f.StringVar(&o.text.R13, "r13", "", "correlations of one sample: r13, with --first r12 and --second r34 (non-overlapping)")
+	f.StringVar(&o.text.R14, "r14", "", "correlations of one sample: r14 (non-overlapping)")
+	f.StringVar(&o.text.R24, "r24", "", "correlations of one sample: r24 (non-overlapping)")
 	f.StringVarP(&o.format, "format", "f", "text", "output format: text or json")
 	o.report.bindFailOn(cmd)
 	cmd.MarkFlagRequired("first")
