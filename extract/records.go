@@ -3,6 +3,7 @@ package extract
 import (
 	"errors"
 	"fmt"
+	"path/filepath"
 )
 
 // Measure values of the coefficients sheet's measure column.
@@ -65,8 +66,16 @@ type Position struct {
 	Column string
 }
 
+// csvPosition is the position of a CSV file: its Sheet is the file's name,
+// so that a problem of a CSV folder or a paired CSV names the file the way
+// a workbook's names its sheet.
+func csvPosition(path string) Position {
+	return Position{File: path, Sheet: filepath.Base(path)}
+}
+
 // String writes the position as "file, sheet "x", row 4, column "se"",
-// leaving out the parts that are empty.
+// leaving out the parts that are empty, and the sheet when it is the
+// file's own name (a CSV).
 func (p Position) String() string {
 	s := p.File
 	add := func(part string) {
@@ -75,7 +84,7 @@ func (p Position) String() string {
 		}
 		s += part
 	}
-	if p.Sheet != "" {
+	if p.Sheet != "" && p.Sheet != filepath.Base(p.File) {
 		add(fmt.Sprintf("sheet %q", p.Sheet))
 	}
 	if p.Row > 0 {

@@ -70,10 +70,14 @@ func adjustedP(c *audit.ClaimResult, method string) audit.Number {
 	return q
 }
 
-// problemText places a problem: `sheet "claims", row 4, column "p": …`.
+// problemText places a problem: `sheet "claims", row 4, column "p": …`,
+// or `file "claims.csv", row 4, …` for a CSV, whose sheet is its file name.
 func problemText(p audit.Problem) string {
 	var loc []string
-	if p.Sheet != "" {
+	switch {
+	case strings.HasSuffix(strings.ToLower(p.Sheet), ".csv"):
+		loc = append(loc, fmt.Sprintf("file %q", p.Sheet))
+	case p.Sheet != "":
 		loc = append(loc, fmt.Sprintf("sheet %q", p.Sheet))
 	}
 	if p.Row > 0 {
