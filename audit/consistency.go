@@ -89,7 +89,7 @@ func consistencyProblems(c *extract.Coefficient) []Problem {
 					}
 				}
 				if pHi < pr.Lo*(1-1e-9) || pLo > pr.Hi*(1+1e-9) {
-					add("p", "p %s disagrees with estimate/SE = %s/%s, which implies p between %s and %s", c.P.Text, c.Estimate.Text, c.SE.Text, FormatP(pr.Lo), FormatP(pr.Hi))
+					add("p", "p %s disagrees with estimate/SE = %s/%s, which implies p %s", c.P.Text, c.Estimate.Text, c.SE.Text, PSpan(pr.Lo, pr.Hi))
 				}
 			}
 		}

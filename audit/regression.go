@@ -134,7 +134,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 		lo, hi := pc.c.Estimate.RoundingInterval()
 		if hi < estLo[pc.k]-1e-12 || lo > estHi[pc.k]+1e-12 {
 			conflicts = append(conflicts, fmt.Sprintf("Coefficient %s is printed as %s, but the correlation table gives %s (between %s and %s within its rounding): the table and the coefficient disagree beyond rounding, or the model had covariates the table does not show.",
-				pc.c.Label, pc.c.Estimate.Text, FormatNum(res.est[pc.k]), FormatNum(estLo[pc.k]), FormatNum(estHi[pc.k])))
+				pc.c.Label, pc.c.Estimate.Text, r.FormatEstimate(res.est[pc.k]), r.FormatEstimate(estLo[pc.k]), r.FormatEstimate(estHi[pc.k])))
 		}
 	}
 	if len(conflicts) > 0 {

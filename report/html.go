@@ -286,7 +286,7 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 		Row: c.Row, Notes: c.Notes, Methods: strings.TrimSpace(methodsText(c)), Chart: template.HTML(intervalChartSVG(c))}
 	for k, s := range []audit.Side{c.First, c.Second} {
 		h.Sides = append(h.Sides, htmlSide{Role: []string{"First", "Second"}[k], Label: s.Label,
-			Estimate: numberOrDash(s.Estimate), SE: numberOrDash(s.SE), SEFrom: s.SEFrom})
+			Estimate: estimateCell(c, s), SE: seCell(c, s), SEFrom: s.SEFrom})
 	}
 	add := func(name, value string) {
 		if value != "" && value != "-" {
@@ -309,10 +309,10 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 		add("p, BH within study", pCell(q))
 	}
 	if c.Statistic.Known() {
-		add("Statistic", audit.FormatNum(float64(c.Statistic)))
+		add("Statistic", statisticCell(c.Statistic))
 	}
 	if c.DF.Known() {
-		add("df", audit.FormatNum(float64(c.DF)))
+		add("df", dfCell(c.DF))
 	}
 	if c.Alpha > 0 {
 		add("α", audit.FormatAlpha(c.Alpha))

@@ -24,7 +24,7 @@ func TestMethodsText(t *testing.T) {
 			Published: extract.PublishedDiffer, Basis: extract.BasisSignificanceSplit, Alpha: 0.05}}}
 	c := audit.Audit(in, audit.DefaultOptions).Claims[0]
 	m := methodsText(&c)
-	for _, want := range []string{"Claim c (S, claims row 2)", "basis: significance-split", "The difference was 15", "p = 0.289",
+	for _, want := range []string{"Claim c (S, claims row 2)", "basis: significance-split", "The difference was 15", "p = .289",
 		"Outcome: unsupported", "Caveats:", "Gelman & Stern"} {
 		if !strings.Contains(m, want) {
 			t.Errorf("methodsText() lacks %q: %q", want, m)

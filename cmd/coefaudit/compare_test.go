@@ -19,17 +19,18 @@ func TestCompareCommand(t *testing.T) {
 		// Var(b1 − b2) = 0.05² + 0.06² − 2·0.35·0.05·0.06 = 0.004 (the
 		// variance of a difference): z = 0.23/0.06325 = 3.64, p < 0.001.
 		{"same model with a printed correlation", []string{"--first", "0.41, SE 0.05", "--second", "0.18, SE 0.06", "--same-model", "--corr", "0.35"},
-			exitOK, []string{"one fitted model", "z-with-estimate-corr", "difference 0.23 [", "p < 0.001"}},
+			exitOK, []string{"one fitted model", "z-with-estimate-corr", "difference 0.230 [", "p < .001"}},
 		// Altman DG, Bland JM (2003). Interaction revisited: the difference
 		// between two estimates. BMJ 326:219, worked example (data of Torgerson
 		// & Bell-Syer 2001, JAMA 285:2891–2897; the CI 0.71 to 1.08 from
 		// memory): log difference −0.2726 as printed (SECONDARY: OCR of the
 		// printed note on es.scribd.com, document 375349251); P 0.2165 derived
 		// here from the note's formula, not a published value; no evidence of
-		// a difference.
+		// a difference. Shown as the ratio of the RRs exp(−0.2726) = 0.761,
+		// 95% CI 0.494 to 1.173 (the note: 0.76, 0.49 to 1.17, from memory).
 		{"ratios, no difference published", []string{"--first", "0.67 (0.46 to 0.98)", "--second", "0.88 (0.71 to 1.08)",
 			"--independent", "--measure", "rr", "--published", "no-difference"},
-			exitOK, []string{"-0.2726", "p 0.217", "log scale", "CONSISTENT"}},
+			exitOK, []string{"ratio of the two ratios 0.761 [0.494, 1.173]", "p = .217", "log scale", "CONSISTENT"}},
 		{"p-values and a decided direction", []string{"--first", "0.41, p = .003", "--second", "0.18, p = .20", "--independent",
 			"--published", "second-larger"}, exitFlagged, []string{"REVERSED"}},
 		{"correlations need n", []string{"--first", "0.45 (0.29 to 0.58)", "--second", "0.20 (0.01 to 0.38)", "--independent",
