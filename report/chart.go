@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"html"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -40,7 +41,7 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 	if err != nil {
 		return nil
 	}
-	toCorrelation := c.Measure == extract.MeasureR && c.Scale == "correlation"
+	toCorrelation := c.Measure == extract.MeasureR && c.Scale == audit.ScaleCorrelation
 	var rows []chartRow
 	for i, s := range []audit.Side{c.First, c.Second} {
 		if !s.Estimate.Known() {
@@ -80,6 +81,59 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 	return rows
 }
 
+// chartCaption is the legend of a claim's chart: it names only what
+// chartRows draws (a dot per estimate drawn, with its interval when known;
+// the diamond of the difference, with its interval when known), and the
+// dashed line at zero.
+func chartCaption(c *audit.ClaimResult) string {
+	var dots, diamond []chartRow
+	for _, r := range chartRows(c) {
+		if r.difference {
+			diamond = append(diamond, r)
+		} else {
+			dots = append(dots, r)
+		}
+	}
+	if len(dots)+len(diamond) == 0 {
+		return ""
+	}
+	var parts []string
+	if len(dots) > 0 {
+		what, each := "the estimate", "with its "
+		if len(dots) == 2 {
+			what, each = "the two estimates", "each with its "
+		}
+		if c.Scale == extract.ScaleLog {
+			what = strings.Replace(what, "estimate", "log of the ratio", 1)
+			if len(dots) == 2 {
+				what = "the logs of the two ratios"
+			}
+		}
+		var with []string
+		for _, r := range dots {
+			if !math.IsNaN(r.lo) && !slices.Contains(with, r.intervalLabel) {
+				with = append(with, r.intervalLabel)
+			}
+		}
+		if len(with) > 0 {
+			what += ", " + each + strings.Join(with, " or ")
+		}
+		parts = append(parts, "Dots: "+what+".")
+	}
+	if len(diamond) > 0 {
+		what := "the difference"
+		if c.Scale == extract.ScaleLog {
+			what = "the difference of the logs (the log of the ratio of the two ratios)"
+		}
+		if !math.IsNaN(diamond[0].lo) {
+			what += " with its " + diamond[0].intervalLabel
+		}
+		parts = append(parts, "Diamond: "+what+".")
+	}
+	parts = append(parts, "Dashed line: zero, on the "+chartScale(c)+".")
+	return strings.Join(parts, " ")
+}
+
 // chartScale names the axis of a claim's chart.
 func chartScale(c *audit.ClaimResult) string {
 	switch c.Scale {
@@ -87,7 +141,7 @@ func chartScale(c *audit.ClaimResult) string {
 		return "log scale (0 is a ratio of 1)"
 	case extract.ScaleFisherZ:
 		return "Fisher z scale"
-	case "correlation":
+	case audit.ScaleCorrelation:
 		return "correlation scale"
 	}
 	return "scale as printed"
@@ -154,7 +208,7 @@ func intervalChartSVG(c *audit.ClaimResult) string {
 			cls = "difference"
 			fmt.Fprintf(&b, `<line class="separator" x1="8" y1="%.1f" x2="%d" y2="%.1f"/>`, y-chartRowH/2, chartWidth-chartRight, y-chartRowH/2)
 		}
-		fmt.Fprintf(&b, `<g class="%s"><title>%s</title>`, cls, html.EscapeString(rowText(r)))
+		fmt.Fprintf(&b, `<g class="%s"><title>%s</title>`, cls, html.EscapeString(rowText(c, r)))
 		fmt.Fprintf(&b, `<text class="row-label" x="%d" y="%.1f" text-anchor="end" dominant-baseline="middle">%s</text>`,
 			chartLeft-10, y, html.EscapeString(shorten(r.label, chartLabelN)))
 		if !math.IsNaN(r.lo) && !math.IsNaN(r.hi) {
@@ -202,10 +256,11 @@ func tickLabel(v, step float64) string {
 	return strings.Replace(s, "-", "−", 1)
 }
 
-func rowText(r chartRow) string {
-	s := r.label + " " + audit.FormatNum(r.est)
+// rowText says what a chart row draws, to the claim's decimals.
+func rowText(c *audit.ClaimResult, r chartRow) string {
+	s := r.label + " " + c.FormatEstimate(r.est)
 	if !math.IsNaN(r.lo) {
-		s += " (" + audit.FormatNum(r.lo) + " to " + audit.FormatNum(r.hi) + ")"
+		s += " (" + c.FormatEstimate(r.lo) + " to " + c.FormatEstimate(r.hi) + ")"
 	}
 	return s + ", " + r.intervalLabel
 }
@@ -213,7 +268,7 @@ func rowText(r chartRow) string {
 func chartTitle(c *audit.ClaimResult, rows []chartRow) string {
 	parts := make([]string, len(rows))
 	for i, r := range rows {
-		parts[i] = rowText(r)
+		parts[i] = rowText(c, r)
 	}
 	return "Intervals of claim " + c.Claim + " on the " + chartScale(c) + ": " + strings.Join(parts, "; ")
 }

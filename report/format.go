@@ -114,6 +114,15 @@ func pRangeCell(r [2]audit.Number) string {
 	return lo + "–" + hi
 }
 
+// pOrRange is the claim's p, or the range of p when there is no point p
+// (an unknown covariance): ".043", "< .001–.167".
+func pOrRange(c *audit.ClaimResult) string {
+	if c.P.Known() {
+		return pCell(c.P)
+	}
+	return pRangeCell(c.PRange)
+}
+
 // adjustedP is the claim's p adjusted within its study by method, NaN
 // when there is none.
 func adjustedP(c *audit.ClaimResult, method string) audit.Number {

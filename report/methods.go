@@ -23,6 +23,47 @@ var methodDescriptions = map[string]string{
 	"admissible-range":               "the range of p over every admissible sampling correlation of the two estimates (−1 to 1), since the paper printed nothing that gives their covariance",
 }
 
+// alternativeMethod is another test of the same comparison of
+// correlations, as a reader is shown it.
+type alternativeMethod struct {
+	Name, Source string
+}
+
+// alternativeMethods name the correlation tests reported beside the
+// primary one (infer/correlation's method identifiers), with their sources.
+var alternativeMethods = map[string]alternativeMethod{
+	"fisher-z":        {"Fisher's z test of two independent correlations", "Fisher 1921"},
+	"zou-ci":          {"Zou's confidence interval for the difference of two correlations (an interval, no test)", "Zou 2007"},
+	"williams-t":      {"Williams' t test of two correlations sharing a variable", "Williams 1959; Steiger 1980"},
+	"steiger-z":       {"Steiger's z test on Fisher's z, the correlations pooled under the null", "Steiger 1980"},
+	"mrr-z":           {"Meng, Rosenthal and Rubin's z test of two correlations sharing a variable", "Meng, Rosenthal & Rubin 1992"},
+	"pearson-filon-z": {"Pearson and Filon's z test of two correlations with no variable in common", "Pearson & Filon 1898"},
+	"zpf":             {"the Pearson–Filon test on Fisher's z (ZPF)", "Dunn & Clark 1969; Raghunathan, Rosenthal & Rubin 1996"},
+}
+
+// alternativeRow is one line of the table of other tests: the method's
+// full name and source, its statistic and p by the precision rule.
+type alternativeRow struct {
+	Name, Source, Statistic, P string
+}
+
+// alternativeRows lists the claim's other tests of the same comparison.
+func alternativeRows(c *audit.ClaimResult) []alternativeRow {
+	var out []alternativeRow
+	for _, a := range c.Alternatives {
+		m, ok := alternativeMethods[a.Method]
+		if !ok {
+			m = alternativeMethod{Name: a.Method}
+		}
+		row := alternativeRow{Name: m.Name, Source: m.Source, Statistic: statisticCell(a.Statistic), P: pCell(a.P)}
+		if !a.P.Known() {
+			row.P = "interval only"
+		}
+		out = append(out, row)
+	}
+	return out
+}
+
 var publishedWords = map[string]string{
 	extract.PublishedDiffer:       "the two estimates differ",
 	extract.PublishedNoDifference: "the two estimates do not differ",

@@ -192,9 +192,10 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 		in := x.inputs[c.Index]
 		delete(x.inputs, c.Index)
 		row := claimInputCells(st, c, in, x.extra)
+		shown := c.Shown()
 		row = append(row, st.outcomeCell(c.Outcome), st.textCell(c.Recomputed), st.textCell(c.Relation),
-			st.textCell(c.Method), st.textCell(c.Scale), st.number(c.Difference, st.decimal),
-			st.number(c.DifferenceCI[0], st.decimal), st.number(c.DifferenceCI[1], st.decimal),
+			st.textCell(c.Method), st.textCell(shownScale(c)), st.estimateNumber(c, shown.Estimate),
+			st.estimateNumber(c, shown.Low), st.estimateNumber(c, shown.High),
 			st.pValue(c.P), st.pValue(c.PRange[0]), st.pValue(c.PRange[1]),
 			st.pValue(adjustedP(c, audit.AdjustHolm)), st.pValue(adjustedP(c, audit.AdjustBH)),
 			st.number(c.Statistic, st.stat), st.number(c.DF, st.general), st.number(overlapProportion(c), st.stat),
@@ -295,6 +296,16 @@ func (x *xlsxWriter) End(f Footer) error {
 		return fmt.Errorf("xlsx report: %w", err)
 	}
 	return nil
+}
+
+// shownScale says what the difference columns hold when it is not the
+// difference as computed: "ratio of the two ratios" for ratio measures
+// (their log-scale difference is in the JSON and CSV).
+func shownScale(c *audit.ClaimResult) string {
+	if c.Scale == extract.ScaleLog {
+		return c.Shown().Name
+	}
+	return c.Scale
 }
 
 // claimResultColumns are the audit's columns on the claims sheet.
