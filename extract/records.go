@@ -100,6 +100,10 @@ func (p Position) String() string {
 type CellError struct {
 	Position
 	Err error
+	// Text is the cell as typed (as displayed, for a numeric cell of a
+	// workbook) when the problem is with one cell's content, so that a
+	// report can show the cell as it was; "" otherwise.
+	Text string
 }
 
 // Error implements error.

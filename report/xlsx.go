@@ -192,6 +192,11 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 		in := x.inputs[c.Index]
 		delete(x.inputs, c.Index)
 		row := claimInputCells(st, c, in, x.extra)
+		var bad []badCell
+		if in != nil {
+			bad = badCells(in.Problems, claimInputColumns)
+			markBad(st, row, bad)
+		}
 		shown := c.Shown()
 		row = append(row, st.outcomeCell(c.Outcome), st.textCell(c.Recomputed), st.textCell(c.Relation),
 			st.textCell(c.Method), st.textCell(shownScale(c)), st.estimateNumber(c, shown.Estimate),
@@ -201,6 +206,9 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 			st.number(c.Statistic, st.stat), st.number(c.DF, st.general), st.number(overlapProportion(c), st.stat),
 			st.textCell(strings.Join(c.Notes, " | ")), excelize.Cell{StyleID: st.count, Value: c.Row})
 		if err := x.claims.add(row...); err != nil {
+			return fmt.Errorf("xlsx report, sheet %q: %w", "claims", err)
+		}
+		if err := x.claims.commentBad(bad); err != nil {
 			return fmt.Errorf("xlsx report, sheet %q: %w", "claims", err)
 		}
 		methods := strings.TrimSpace(methodsText(c))

@@ -13,6 +13,8 @@ import (
 type xlsxStyles struct {
 	title, label, header, resultHeader, text, wrap, note int
 	stat, general, p, pTiny, count, share                int
+	// bad marks an input cell that could not be read, shown as typed.
+	bad int
 	// estimate holds the styles of estimates written with MinDecimals to
 	// MaxDecimals decimals (the precision rule), from MinDecimals.
 	estimate [audit.MaxDecimals - audit.MinDecimals + 1]int
@@ -42,6 +44,9 @@ func newXLSXStyles(f *excelize.File) (*xlsxStyles, error) {
 		{&st.text, excelize.Style{NumFmt: textFmt, Alignment: top}},
 		{&st.wrap, excelize.Style{NumFmt: textFmt, Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}},
 		{&st.note, excelize.Style{NumFmt: textFmt, Font: &excelize.Font{Italic: true, Color: "5A6270"}}},
+		{&st.bad, excelize.Style{NumFmt: textFmt, Alignment: top, Font: &excelize.Font{Bold: true, Color: "9C0006"},
+			Fill:   excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"FFC7CE"}},
+			Border: []excelize.Border{{Type: "left", Color: "9C0006", Style: 1}, {Type: "right", Color: "9C0006", Style: 1}, {Type: "top", Color: "9C0006", Style: 1}, {Type: "bottom", Color: "9C0006", Style: 1}}}},
 		{&st.stat, excelize.Style{CustomNumFmt: &statFmt, Alignment: top}},
 		{&st.general, excelize.Style{NumFmt: 0, Alignment: top}},
 		{&st.p, excelize.Style{CustomNumFmt: &pFmt, Alignment: top}},
