@@ -52,6 +52,9 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 		if s.SE.Known() {
 			r.lo, r.hi = r.est-z95*float64(s.SE), r.est+z95*float64(s.SE)
 		}
+		if c.Scale == extract.ScaleLog {
+			r.intervalLabel = "95% interval, exp(log ratio ± 1.96 SE)"
+		}
 		if toCorrelation {
 			r.est, r.lo, r.hi = math.Tanh(r.est), math.Tanh(r.lo), math.Tanh(r.hi)
 			r.intervalLabel = "95% Fisher interval"
@@ -104,10 +107,7 @@ func chartCaption(c *audit.ClaimResult) string {
 			what, each = "the two estimates", "each with its "
 		}
 		if c.Scale == extract.ScaleLog {
-			what = strings.Replace(what, "estimate", "log of the ratio", 1)
-			if len(dots) == 2 {
-				what = "the logs of the two ratios"
-			}
+			what = strings.Replace(what, "estimate", "ratio", 1)
 		}
 		var with []string
 		for _, r := range dots {
@@ -123,14 +123,18 @@ func chartCaption(c *audit.ClaimResult) string {
 	if len(diamond) > 0 {
 		what := "the difference"
 		if c.Scale == extract.ScaleLog {
-			what = "the difference of the logs (the log of the ratio of the two ratios)"
+			what = "the ratio of the two ratios"
 		}
 		if !math.IsNaN(diamond[0].lo) {
 			what += " with its " + diamond[0].intervalLabel
 		}
 		parts = append(parts, "Diamond: "+what+".")
 	}
-	parts = append(parts, "Dashed line: zero, on the "+chartScale(c)+".")
+	zero := "zero"
+	if c.Scale == extract.ScaleLog {
+		zero = "a ratio of 1"
+	}
+	parts = append(parts, "Dashed line: "+zero+", on the "+chartScale(c)+".")
 	return strings.Join(parts, " ")
 }
 
@@ -138,7 +142,7 @@ func chartCaption(c *audit.ClaimResult) string {
 func chartScale(c *audit.ClaimResult) string {
 	switch c.Scale {
 	case extract.ScaleLog:
-		return "log scale (0 is a ratio of 1)"
+		return "ratio scale, drawn as logs"
 	case extract.ScaleFisherZ:
 		return "Fisher z scale"
 	case audit.ScaleCorrelation:
@@ -195,7 +199,7 @@ func intervalChartSVG(c *audit.ClaimResult) string {
 		v := lo + float64(k)*step
 		xv := x(v)
 		fmt.Fprintf(&b, `<line class="grid" x1="%.1f" y1="%d" x2="%.1f" y2="%d"/>`, xv, chartTop, xv, axisY)
-		fmt.Fprintf(&b, `<text class="tick" x="%.1f" y="%d" text-anchor="middle">%s</text>`, xv, axisY+14, tickLabel(v, step))
+		fmt.Fprintf(&b, `<text class="tick" x="%.1f" y="%d" text-anchor="middle">%s</text>`, xv, axisY+14, tickLabel(c, v, step))
 	}
 	fmt.Fprintf(&b, `<line class="axis" x1="%d" y1="%d" x2="%d" y2="%d"/>`, chartLeft, axisY, chartWidth-chartRight, axisY)
 	fmt.Fprintf(&b, `<text class="axis-label" x="%.1f" y="%d" text-anchor="middle">%s</text>`,
@@ -243,8 +247,13 @@ func niceStep(raw float64) float64 {
 	return 10 * p
 }
 
-// tickLabel writes a tick value with as many decimals as the step needs.
-func tickLabel(v, step float64) string {
+// tickLabel writes a tick value with as many decimals as the step needs;
+// on the log scale of a ratio measure, the ratio exp(v) to two decimals,
+// so that the axis reads as ratios.
+func tickLabel(c *audit.ClaimResult, v, step float64) string {
+	if c.Scale == extract.ScaleLog {
+		return strings.Replace(audit.FormatFixed(math.Exp(v), 2), "-", "−", 1)
+	}
 	dec := 0
 	if step < 1 {
 		dec = int(math.Ceil(-math.Log10(step) - 1e-9))
@@ -256,11 +265,18 @@ func tickLabel(v, step float64) string {
 	return strings.Replace(s, "-", "−", 1)
 }
 
-// rowText says what a chart row draws, to the claim's decimals.
+// rowText says what a chart row draws, to the claim's decimals: for a
+// ratio measure the ratios themselves (exp of what is drawn).
 func rowText(c *audit.ClaimResult, r chartRow) string {
-	s := r.label + " " + c.FormatEstimate(r.est)
+	shown := func(x float64) string {
+		if c.Scale == extract.ScaleLog {
+			x = math.Exp(x)
+		}
+		return c.FormatEstimate(x)
+	}
+	s := r.label + " " + shown(r.est)
 	if !math.IsNaN(r.lo) {
-		s += " (" + c.FormatEstimate(r.lo) + " to " + c.FormatEstimate(r.hi) + ")"
+		s += " (" + shown(r.lo) + " to " + shown(r.hi) + ")"
 	}
 	return s + ", " + r.intervalLabel
 }

@@ -310,7 +310,7 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 	add("Basis", c.Basis)
 	add("Relation", c.Relation)
 	add("Method", c.Method)
-	add("Scale", c.Scale)
+	add("Scale", shownScale(c))
 	add("Difference [CI]", differenceCell(c))
 	add("p", pCell(c.P))
 	add("p range", pRangeCell(c.PRange))
