@@ -74,7 +74,7 @@ func consistencyProblems(c *extract.Coefficient) []Problem {
 			zLo, zHi := ratioRange(er, sr)
 			tLo, tHi := c.Stat.RoundingInterval()
 			if tHi < zLo || tLo > zHi {
-				add("stat", "the statistic %s disagrees with estimate/SE = %s/%s, which lies in [%.3g, %.3g]", c.Stat.Text, c.Estimate.Text, c.SE.Text, zLo, zHi)
+				add("stat", "the statistic %s disagrees with estimate/SE = %s/%s, which lies in [%s, %s]", c.Stat.Text, c.Estimate.Text, c.SE.Text, FormatStatistic(zLo), FormatStatistic(zHi))
 			}
 		}
 		if c.P.IsExact() || c.P.Bound == extract.Below {

@@ -9,10 +9,11 @@ import (
 
 	"golang.org/x/net/html"
 
+	"coefaudit/audit"
 	"coefaudit/extract"
 )
 
-// The precision rule (audit/precision.go, README "Numbers as printed"):
+// The precision rule (audit/precision.go, README "Numbers as a paper prints them"):
 // estimates, differences and intervals to the printed decimals plus one,
 // at least 2 and at most 4; statistics to 2 decimals; p as journals print
 // it (APA Publication Manual, 7th ed., 2020, §6.36, from memory): ".043",
@@ -245,5 +246,54 @@ func TestIssue20CheckTextPrecisionCatches(t *testing.T) {
 	}
 	if bad := checkTextPrecision("p = .043 (difference 0.240, 95% CI 0.064 to 0.416), z = 2.67, p < .001"); len(bad) > 0 {
 		t.Errorf("checkTextPrecision flags a good text: %v", bad)
+	}
+}
+
+// TestIssue20PrecisionRuleTable: the terminal table follows the rule too.
+func TestIssue20PrecisionRuleTable(t *testing.T) {
+	for _, b := range checkTextPrecision(string(writeInput(t, "table", demoInput(t)))) {
+		t.Error(b)
+	}
+}
+
+// TestIssue20CorrelationsShownAsR: a comparison of correlations shows each
+// estimate as r (the JSON keeps Fisher's z) and labels the SEs, which stay
+// on Fisher's z, so; the difference is r₁ − r₂.
+func TestIssue20CorrelationsShownAsR(t *testing.T) {
+	rep, in := demoReport(t)
+	printedR := map[string]extract.Printed{}
+	for _, c := range in.Coefficients {
+		if c.Measure == extract.MeasureR {
+			printedR[c.Study+"\x00"+c.Label] = c.Estimate
+		}
+	}
+	seen := 0
+	for i := range rep.Claims {
+		c := &rep.Claims[i]
+		if c.Measure != extract.MeasureR || !c.First.Estimate.Known() {
+			continue
+		}
+		seen++
+		for _, s := range []audit.Side{c.First, c.Second} {
+			r, ok := printedR[c.Study+"\x00"+s.Label]
+			if !ok {
+				continue
+			}
+			// The printed r with one decimal more: ".30" is shown as
+			// "0.300", whatever Fisher's z of it is.
+			want := fmt.Sprintf("%.*f", printedDecimals(r.Text)+1, r.Value)
+			if got := estimateCell(c, s); got != want {
+				t.Errorf("claim %s, %s: estimate shown as %q, want r = %q", c.Claim, s.Label, got, want)
+			}
+			if got := seCell(c, s); !strings.HasSuffix(got, "(Fisher z)") {
+				t.Errorf("claim %s, %s: SE shown as %q, want it labelled Fisher z", c.Claim, s.Label, got)
+			}
+		}
+		if c.Shown().Name != "difference r₁ − r₂" {
+			t.Errorf("claim %s: the difference is shown as %q, want r₁ − r₂", c.Claim, c.Shown().Name)
+		}
+	}
+	if seen == 0 {
+		t.Fatal("the demo has no comparison of correlations; the test needs one")
 	}
 }
