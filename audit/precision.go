@@ -14,10 +14,11 @@ import (
 // the inputs were printed with plus one, at least MinDecimals and at most
 // MaxDecimals; test statistics to two decimals; p as journals print it
 // ("p = .043", "p < .001"), three decimals without the leading zero, which
-// is the style of the APA Publication Manual (7th ed., 2020, §6.36) and of
-// most journals in medicine and the social sciences. One decimal more than
-// printed keeps the rounding of the inputs visible without claiming digits
-// the paper never had (common practice, no source).
+// is the style of the APA Publication Manual (7th ed., 2020, §6.36; from
+// memory) and of many journals in medicine and the social sciences. One
+// decimal more than printed keeps the rounding of the inputs visible
+// without claiming digits the paper never had (common practice, no
+// source).
 const (
 	// MinDecimals is the fewest decimals an estimate is written with.
 	MinDecimals = 2
@@ -165,9 +166,6 @@ func (r *ClaimResult) SEScale() string {
 func (r *ClaimResult) sideScale() string {
 	if r.Scale == ScaleCorrelation {
 		return extract.ScaleFisherZ
-	}
-	if r.Scale == extract.ScaleLog && r.Method != "" {
-		return extract.ScaleLog
 	}
 	return r.Scale
 }
