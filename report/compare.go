@@ -23,11 +23,11 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	for i, s := range []audit.Side{r.First, r.Second} {
 		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", EscapeControls([]audit.Reported{c.First, c.Second}[i].Text))
 		if s.Estimate.Known() {
-			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", estimateCell(r, s), seCell(r, s))
-			if s.SEFrom != "" {
-				fmt.Fprintf(bw, " (from %s)", s.SEFrom)
+			if s.SE.Known() {
+				fmt.Fprintf(bw, "%-10s estimate %s\n", "", sideProse(r, s))
+			} else {
+				fmt.Fprintf(bw, "%-10s estimate %s, SE not known\n", "", estimateCell(r, s))
 			}
-			fmt.Fprintln(bw)
 		}
 	}
 	fmt.Fprintf(bw, "%-10s %s\n", "Design:", designWords(r.Relation))
