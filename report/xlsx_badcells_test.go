@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -107,4 +108,43 @@ func commentText(c excelize.Comment) string {
 		s += p.Text
 	}
 	return s
+}
+
+// TestIssue20XLSXDecimals: on the claims sheet the difference and its
+// interval are shown to the claim's decimals (the printed decimals plus
+// one, worked out from the input's text by expectedDecimals), as a ratio
+// of ratios for ratio measures, while the cell holds the full value.
+func TestIssue20XLSXDecimals(t *testing.T) {
+	in := demoInput(t)
+	want := expectedDecimals(in)
+	rep, _ := demoReport(t)
+	f, err := excelize.OpenReader(bytes.NewReader(writeInput(t, "xlsx", in)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	checked := 0
+	for i := range rep.Claims {
+		c := &rep.Claims[i]
+		if !c.Difference.Known() {
+			continue
+		}
+		cell := findInputCell(t, f, "claims", c.Row, "difference")
+		id, _ := f.GetCellStyle("claims", cell)
+		st, _ := f.GetStyle(id)
+		format := "0." + strings.Repeat("0", want[c.Row])
+		if st == nil || st.CustomNumFmt == nil || *st.CustomNumFmt != format {
+			t.Errorf("claims row %d: difference cell %s format %v, want %s", c.Row, cell, st.CustomNumFmt, format)
+		}
+		raw, _ := f.GetCellValue("claims", cell, excelize.Options{RawCellValue: true})
+		v, err := strconv.ParseFloat(raw, 64)
+		// Excel keeps 15 significant digits (its specification limits).
+		if w := c.Shown().Estimate; err != nil || math.Abs(v-w) > 1e-14*math.Abs(w) {
+			t.Errorf("claims row %d: difference cell holds %q, want the full %v", c.Row, raw, w)
+		}
+		checked++
+	}
+	if checked < 10 {
+		t.Fatalf("only %d claims checked", checked)
+	}
 }
