@@ -58,6 +58,16 @@ func differenceInterval(c *audit.ClaimResult) string {
 	return fmt.Sprintf("%s [%s, %s]", c.FormatEstimate(s.Estimate), c.FormatEstimate(s.Low), c.FormatEstimate(s.High))
 }
 
+// shownScale says what the difference columns hold when it is not the
+// difference as computed: "ratio of the two ratios" for ratio measures
+// (their log-scale difference is in the JSON and CSV).
+func shownScale(c *audit.ClaimResult) string {
+	if c.Scale == extract.ScaleLog {
+		return c.Shown().Name
+	}
+	return c.Scale
+}
+
 // estimateCell is one side's estimate as shown (a correlation as r, a
 // ratio as the ratio).
 func estimateCell(c *audit.ClaimResult, s audit.Side) string {

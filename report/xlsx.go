@@ -306,16 +306,6 @@ func (x *xlsxWriter) End(f Footer) error {
 	return nil
 }
 
-// shownScale says what the difference columns hold when it is not the
-// difference as computed: "ratio of the two ratios" for ratio measures
-// (their log-scale difference is in the JSON and CSV).
-func shownScale(c *audit.ClaimResult) string {
-	if c.Scale == extract.ScaleLog {
-		return c.Shown().Name
-	}
-	return c.Scale
-}
-
 // claimResultColumns are the audit's columns on the claims sheet.
 var claimResultColumns = []string{"outcome", "recomputed", "relation", "method", "scale", "difference",
 	"difference_ci_low", "difference_ci_high", "p", "p_low", "p_high", "p_holm", "p_bh", "statistic", "df",
