@@ -214,9 +214,9 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	}
 	if len(cl.Problems) > 0 {
 		for _, p := range cl.Problems {
-			r.Notes = append(r.Notes, "This claims row could not be read: "+cellMessage(p)+".")
+			r.Notes = append(r.Notes, fmt.Sprintf("Row %d could not be read: %s.", cl.Row, cellMessage(p)))
 		}
-		r.Outcome = Incomplete
+		r.Outcome, r.Unreadable = Incomplete, true
 		return
 	}
 	c1, err1 := a.lookup(cl.Study, cl.First)
@@ -243,6 +243,7 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	}
 	r.Relation = relationOf(c1, c2)
 	r.Measure = c1.Measure
+	r.decimals = coefficientDecimals(c1, c2)
 	if c1.Measure != c2.Measure {
 		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
 		r.Outcome = Incomplete
@@ -278,7 +279,9 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	switch rc1.Scale {
 	case extract.ScaleAsPrinted:
 	case extract.ScaleFisherZ:
-		r.Notes = append(r.Notes, "The two estimates and their SEs are shown on the Fisher z scale.")
+		r.Notes = append(r.Notes, "The correlations are analysed as Fisher's z: their SEs are on that scale (as are the estimates in the JSON and CSV).")
+	case extract.ScaleLog:
+		r.Notes = append(r.Notes, "The ratios are analysed on the log scale (as are the estimates, SEs and difference in the JSON and CSV); the difference of the logs is shown as the ratio of the two ratios.")
 	default:
 		r.Notes = append(r.Notes, "Estimates, SEs and the difference are on the "+rc1.Scale+" scale.")
 	}

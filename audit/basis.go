@@ -53,9 +53,9 @@ func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) stri
 	for _, rc := range [2]*extract.Reconstructed{rc1, rc2} {
 		switch p, below := ownP(rc); {
 		case below && p <= r.Alpha:
-			own = append(own, fmt.Sprintf("%s: p < %g, significant", rc.Label, p))
+			own = append(own, fmt.Sprintf("%s: p < %s, significant", rc.Label, formatPBound(p)))
 		case below:
-			own = append(own, fmt.Sprintf("%s: p < %g, not known whether significant", rc.Label, p))
+			own = append(own, fmt.Sprintf("%s: p < %s, not known whether significant", rc.Label, formatPBound(p)))
 		case math.IsNaN(p):
 			own = append(own, rc.Label+": own p not known")
 		case p < r.Alpha:
@@ -121,6 +121,6 @@ func publishedPNote(r *ClaimResult, pp extract.Printed) string {
 	if hi >= pr.Lo/2 && lo <= pr.Hi/2 {
 		oneSided = "; it matches a one-sided p, half the two-sided one"
 	}
-	return fmt.Sprintf("The paper's p for the difference (%s) disagrees with the recomputed %s (from %s to %s within rounding)%s.",
-		pp.Text, FormatP(float64(r.P)), FormatP(pr.Lo), FormatP(pr.Hi), oneSided)
+	return fmt.Sprintf("The paper's p for the difference (%s) disagrees with the recomputed %s (%s within rounding)%s.",
+		pp.Text, PStatement(float64(r.P)), PSpan(pr.Lo, pr.Hi), oneSided)
 }

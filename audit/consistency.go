@@ -74,7 +74,7 @@ func consistencyProblems(c *extract.Coefficient) []Problem {
 			zLo, zHi := ratioRange(er, sr)
 			tLo, tHi := c.Stat.RoundingInterval()
 			if tHi < zLo || tLo > zHi {
-				add("stat", "the statistic %s disagrees with estimate/SE = %s/%s, which lies in [%.3g, %.3g]", c.Stat.Text, c.Estimate.Text, c.SE.Text, zLo, zHi)
+				add("stat", "the statistic %s disagrees with estimate/SE = %s/%s, which lies in [%s, %s]", c.Stat.Text, c.Estimate.Text, c.SE.Text, FormatStatistic(zLo), FormatStatistic(zHi))
 			}
 		}
 		if c.P.IsExact() || c.P.Bound == extract.Below {
@@ -89,7 +89,7 @@ func consistencyProblems(c *extract.Coefficient) []Problem {
 					}
 				}
 				if pHi < pr.Lo*(1-1e-9) || pLo > pr.Hi*(1+1e-9) {
-					add("p", "p %s disagrees with estimate/SE = %s/%s, which implies p between %s and %s", c.P.Text, c.Estimate.Text, c.SE.Text, FormatP(pr.Lo), FormatP(pr.Hi))
+					add("p", "p %s disagrees with estimate/SE = %s/%s, which implies p %s", c.P.Text, c.Estimate.Text, c.SE.Text, PSpan(pr.Lo, pr.Hi))
 				}
 			}
 		}

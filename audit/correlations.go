@@ -35,7 +35,7 @@ func setCorrelationComparison(r *ClaimResult, cmp correlation.Comparison) {
 	r.Statistic = Number(cmp.Primary.Stat)
 	r.DF = Number(cmp.Primary.DF)
 	r.P = Number(cmp.Primary.P)
-	r.Scale = "correlation"
+	r.Scale = ScaleCorrelation
 	r.Alternatives = nil
 	// Pooling needs a difference with an SE: the Fisher z based test of the
 	// design (fisher-z, steiger-z or zpf), whose z1 − z2 is near normal.

@@ -6,7 +6,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
-	"reflect"
+	stdreflect "reflect"
 	"slices"
 	"strings"
 	"testing"
@@ -56,7 +56,7 @@ func TestStudiesOfInterleavedAgreesWithHeld(t *testing.T) {
 			byRow := func(a, b Problem) int { return a.Row - b.Row }
 			slices.SortStableFunc(held.Problems, byRow)
 			slices.SortStableFunc(pieces.Problems, byRow)
-			if !reflect.DeepEqual(held.Problems, pieces.Problems) {
+			if !stdreflect.DeepEqual(held.Problems, pieces.Problems) {
 				t.Errorf("%s: problems held whole %v\nin pieces %v", path, held.Problems, pieces.Problems)
 			}
 			if !slices.ContainsFunc(held.Claims, func(c ClaimResult) bool { return c.family > 1 }) {

@@ -38,8 +38,8 @@ func (r *ClaimResult) settle(adjust string) {
 		p, pr := float64(r.P), r.dec.pr
 		if q, ok := r.AdjustedP.By(adjust); ok && p > 0 {
 			f := float64(q) / p
-			r.Notes = append(r.Notes, fmt.Sprintf("The outcome uses the %s-adjusted p = %s, adjusted over the %d claims of the study that have a p (the raw p is %s).",
-				adjustName(adjust), FormatP(float64(q)), r.family, FormatP(p)))
+			r.Notes = append(r.Notes, fmt.Sprintf("The outcome uses the %s-adjusted %s, adjusted over the %d claims of the study that have a p (the raw %s).",
+				adjustName(adjust), PStatement(float64(q)), r.family, PStatement(p)))
 			p = float64(q)
 			pr = infer.Range{Lo: math.Min(1, pr.Lo*f), Hi: math.Min(1, pr.Hi*f)}
 		}

@@ -82,7 +82,7 @@ func (a *auditor) checkPrinted(r *ClaimResult, src *corrSource, key modelKey, b 
 		lo, hi := c.Estimate.RoundingInterval()
 		if hi < b.estLo[k]-1e-12 || lo > b.estHi[k]+1e-12 {
 			msg := fmt.Sprintf("coefficient %s is printed as %s, but the correlation table (%s) gives %s (between %s and %s within its rounding): the table and the coefficient disagree beyond rounding, or the model had covariates the table does not show",
-				c.Label, c.Estimate.Text, src.name, FormatNum(b.est[k]), FormatNum(b.estLo[k]), FormatNum(b.estHi[k]))
+				c.Label, c.Estimate.Text, src.name, r.FormatEstimate(b.est[k]), r.FormatEstimate(b.estLo[k]), r.FormatEstimate(b.estHi[k]))
 			r.Notes = append(r.Notes, capitalize(msg)+".")
 			r.conflict = true
 			a.addRebuiltProblem(c, "estimate", msg)
@@ -92,7 +92,7 @@ func (a *auditor) checkPrinted(r *ClaimResult, src *corrSource, key modelKey, b 
 			a.addRebuiltProblem(c, "estimate", msg)
 		}
 		if pc.rc.SEFrom == "" || math.IsNaN(pc.rc.SE) {
-			r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s: no SE, interval or p was printed; its SE (%s) is the rebuilt model's.", c.Label, FormatNum(b.se[k])))
+			r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s: no SE, interval or p was printed; its SE (%s) is the rebuilt model's.", c.Label, r.FormatEstimate(b.se[k])))
 			continue
 		}
 		agree := "agrees with"
@@ -100,8 +100,8 @@ func (a *auditor) checkPrinted(r *ClaimResult, src *corrSource, key modelKey, b 
 			agree = "does not agree with"
 		}
 		r.Notes = append(r.Notes, fmt.Sprintf("Coefficient %s: the SE from its printed %s (%s, %s to %s within rounding) %s the rebuilt SE %s (%s to %s within the table's rounding); the test uses the rebuilt model.",
-			c.Label, pc.rc.SEFrom, FormatNum(pc.rc.SE), FormatNum(pc.rc.SERange.Lo), FormatNum(pc.rc.SERange.Hi), agree,
-			FormatNum(b.se[k]), FormatNum(b.seLo[k]), FormatNum(b.seHi[k])))
+			c.Label, pc.rc.SEFrom, r.FormatEstimate(pc.rc.SE), r.FormatEstimate(pc.rc.SERange.Lo), r.FormatEstimate(pc.rc.SERange.Hi), agree,
+			r.FormatEstimate(b.se[k]), r.FormatEstimate(b.seLo[k]), r.FormatEstimate(b.seHi[k])))
 	}
 }
 

@@ -112,6 +112,8 @@ type ClaimResult struct {
 	// AdjustedP holds the claim's p adjusted within its study; nil when the
 	// claim has no p.
 	AdjustedP *AdjustedPValues `json:"p_adjusted,omitempty"`
+	// Unreadable is true when the claims row itself could not be read.
+	Unreadable bool `json:"-"`
 	// Topic is the claim's topic; claims sharing one are pooled.
 	Topic string `json:"-"`
 	// ExtraNames and ExtraValues are the claims row's unknown columns,
@@ -134,6 +136,10 @@ type ClaimResult struct {
 	reflected bool
 	// family is the number of claims the multiplicity adjustment ran over.
 	family int
+	// decimals is how many decimals the claim's estimates are shown with
+	// (DisplayDecimals of the coefficients' printed numbers); 0 when the
+	// coefficients were not found.
+	decimals int
 }
 
 // AdjustedPValues are a claim's p adjusted for multiplicity over the claims

@@ -98,7 +98,7 @@ func TestBasisNotes(t *testing.T) {
 	r = auditOne(t, coefSpec{label: "a", measure: "other", group: "g1", est: "25", se: "10"},
 		coefSpec{label: "b", measure: "other", group: "g2", est: "10", se: "10"}, "differ", "significance-split")
 	notes = strings.Join(r.Notes, " ")
-	if !strings.Contains(notes, "a: p = 0.012, significant") || !strings.Contains(notes, "b: p = 0.317, not significant") {
+	if !strings.Contains(notes, "a: p = .012, significant") || !strings.Contains(notes, "b: p = .317, not significant") {
 		t.Errorf("significance-split note: %q", notes)
 	}
 	if r.Outcome != Unsupported {
@@ -120,11 +120,11 @@ func TestSignificanceSplitPrintedP(t *testing.T) {
 		p    extract.Printed
 		want string
 	}{
-		{"p printed as alpha", printed("0.050"), "a: p = 0.050, not significant"},
-		{"p just below alpha", printed("0.049"), "a: p = 0.049, significant"},
-		{"bound below alpha", extract.Printed{Value: 0.001, Text: "<0.001", Decimals: 3, Bound: extract.Below}, "a: p < 0.001, significant"},
-		{"bound at alpha", extract.Printed{Value: 0.05, Text: "<.05", Decimals: 2, Bound: extract.Below}, "a: p < 0.05, significant"},
-		{"bound above alpha", extract.Printed{Value: 0.1, Text: "<0.10", Decimals: 2, Bound: extract.Below}, "a: p < 0.1, not known whether significant"},
+		{"p printed as alpha", printed("0.050"), "a: p = .050, not significant"},
+		{"p just below alpha", printed("0.049"), "a: p = .049, significant"},
+		{"bound below alpha", extract.Printed{Value: 0.001, Text: "<0.001", Decimals: 3, Bound: extract.Below}, "a: p < .001, significant"},
+		{"bound at alpha", extract.Printed{Value: 0.05, Text: "<.05", Decimals: 2, Bound: extract.Below}, "a: p < .05, significant"},
+		{"bound above alpha", extract.Printed{Value: 0.1, Text: "<0.10", Decimals: 2, Bound: extract.Below}, "a: p < .1, not known whether significant"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -134,7 +134,7 @@ func TestSignificanceSplitPrintedP(t *testing.T) {
 			cl := claim("S", "c", 2, "a", "b", "differ", "significance-split")
 			rep := Audit(&extract.Input{Coefficients: []extract.Coefficient{c1, c2}, Claims: []extract.Claim{cl}}, DefaultOptions)
 			notes := strings.Join(rep.Claims[0].Notes, " ")
-			if !strings.Contains(notes, tt.want) || !strings.Contains(notes, "b: p = 0.317, not significant") {
+			if !strings.Contains(notes, tt.want) || !strings.Contains(notes, "b: p = .317, not significant") {
 				t.Errorf("significance-split note lacks %q: %q", tt.want, notes)
 			}
 		})

@@ -182,8 +182,8 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges from %s to %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
-			dc.how.phrase(), FormatP(pr.Lo), FormatP(pr.Hi), FormatAlpha(r.Alpha)))
+		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
+			dc.how.phrase(), PSpan(pr.Lo, pr.Hi), FormatAlpha(r.Alpha)))
 		if r.hasTip {
 			r.TippingCorr = []Number{Number(r.tip.rho)}
 			r.Notes = append(r.Notes, r.tip.note(r))
@@ -241,11 +241,9 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 // and its interval, or the range of p when there is no point p.
 func (r *ClaimResult) testResult(pr infer.Range) string {
 	if r.P.Known() {
-		return fmt.Sprintf("the test of the difference gives %s (difference %s, %s%% CI %s to %s)",
-			PStatement(float64(r.P)), FormatNum(float64(r.Difference)), formatLevel(r.Alpha),
-			FormatNum(float64(r.DifferenceCI[0])), FormatNum(float64(r.DifferenceCI[1])))
+		return fmt.Sprintf("the test of the difference gives %s (%s)", PStatement(float64(r.P)), r.DifferenceText())
 	}
-	return fmt.Sprintf("the difference %s has p from %s to %s", FormatNum(float64(r.Difference)), FormatP(pr.Lo), FormatP(pr.Hi))
+	return fmt.Sprintf("the %s has p %s", r.DifferenceText(), PSpan(pr.Lo, pr.Hi))
 }
 
 // directionWords says which estimate is ahead in direction dir, in the
@@ -264,33 +262,31 @@ func (r *ClaimResult) directionWords(dir int) string {
 // formatNum writes a number with four significant digits, as the notes
 // print estimates.
 func FormatNum(x float64) string {
-	switch {
-	case math.IsNaN(x):
-		return "NA"
-	case math.IsInf(x, 1):
-		return "∞"
-	case math.IsInf(x, -1):
-		return "−∞"
+	if s, ok := nonFinite(x); ok {
+		return s
 	}
 	return strconv.FormatFloat(x, 'g', 4, 64)
 }
 
-// formatP writes a p-value the way reports print them: three decimals, and
-// "< 0.001" below that.
+// FormatP writes a p-value as journals print it: three decimals without
+// the leading zero (".043"), "< .001" below that and "> .999" above
+// (precision.go states the rule and its source).
 func FormatP(p float64) string {
 	switch {
 	case math.IsNaN(p):
 		return "NA"
 	case p < 0.001:
-		return "< 0.001"
+		return "< .001"
+	case p >= 0.9995: // would round to 1.000
+		return "> .999"
 	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
+	return strings.TrimPrefix(strconv.FormatFloat(p, 'f', 3, 64), "0")
 }
 
-// pStatement writes "p = 0.043" or "p < 0.001".
+// PStatement writes "p = .043", "p < .001" or "p > .999".
 func PStatement(p float64) string {
-	if p < 0.001 {
-		return "p " + FormatP(p)
+	if s := FormatP(p); strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
+		return "p " + s
 	}
 	return "p = " + FormatP(p)
 }

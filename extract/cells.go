@@ -198,13 +198,14 @@ func (c *sheetCell) trimmed() string {
 	return trimSpace(s)
 }
 
-// fail records a problem with column i (or with the row when i < 0).
+// fail records a problem with column i (or with the row when i < 0),
+// with the cell as typed.
 func (r *rowReading) fail(i int, err error) {
 	p := r.pos
 	if i >= 0 && i < len(r.cols.names) {
 		p.Column = r.cols.names[i]
 	}
-	r.problems = append(r.problems, &CellError{Position: p, Err: err})
+	r.problems = append(r.problems, &CellError{Position: p, Err: err, Text: r.text(i)})
 }
 
 // failNamed records a problem with a column named by its canonical name,

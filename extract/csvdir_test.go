@@ -33,7 +33,7 @@ func TestReadFolder(t *testing.T) {
 			t.Fatalf("Read(%s) gave %d coefficients, want 7", dir, len(in.Coefficients))
 		}
 		c := in.Coefficients[0]
-		if c.File != coefFile || c.Sheet != "" || c.Row != 2 || c.Measure != MeasureRR ||
+		if c.File != coefFile || c.Sheet != "coefficients.csv" || c.Row != 2 || c.Measure != MeasureRR ||
 			c.Estimate.Value != 0.67 || c.CI.Low.Value != 0.46 || c.CI.High.Value != 0.98 || c.CILevel != 95 ||
 			c.P.Value != 0.03 || c.P.Bound != Exact || len(c.Problems) != 0 {
 			t.Errorf("row 2 = %+v, want torgerson2001 under60 rr 0.67 (0.46, 0.98) p .03", c)

@@ -147,9 +147,9 @@ func folderSheets(dir string) (*inputSheets, error) {
 	sort.Strings(tables)
 	s := &inputSheets{path: dir, close: func() error { return nil },
 		open:  func(name string) (rowSource, error) { return openCSV(filepath.Join(dir, name)) },
-		where: func(name string) Position { return Position{File: filepath.Join(dir, name)} }}
+		where: func(name string) Position { return csvPosition(filepath.Join(dir, name)) }}
 	if found["coefficients"] == "" {
-		s.problems = append(s.problems, &CellError{Position: Position{File: dir},
+		s.problems = append(s.problems, &CellError{Position: Position{File: dir, Sheet: "coefficients.csv"},
 			Err: fmt.Errorf("no coefficients.csv in the folder: %w", ErrMissingSheet)})
 	}
 	s.kinds = kindsOf(found, tables)

@@ -86,7 +86,7 @@ func NewPairedReader(r io.Reader, name string) (*PairedReader, error) {
 			break
 		}
 	}
-	p.cols = newColumns(&p.row, Position{File: name}, pairedKnown)
+	p.cols = newColumns(&p.row, csvPosition(name), pairedKnown)
 	paired := false
 	for k := range p.cols.index {
 		if strings.HasPrefix(k, "first_") || strings.HasPrefix(k, "second_") {
@@ -125,7 +125,7 @@ func (p *PairedReader) Next() (PairedClaim, error) {
 		}
 	}
 	var rr rowReading
-	rr.start(p.cols, &p.row, Position{File: p.name})
+	rr.start(p.cols, &p.row, csvPosition(p.name))
 	pc := PairedClaim{Claim: readClaim(&rr, &p.claim, false)}
 	pc.Claim.Extra = rr.extra()
 	claimProblems := rr.problems
@@ -184,7 +184,7 @@ func readPairedFile(path string) (*Input, error) {
 		in.Coefficients = append(in.Coefficients, pc.First, pc.Second)
 	}
 	if len(in.Claims) == 0 {
-		in.Problems = append(in.Problems, &CellError{Position: Position{File: path},
+		in.Problems = append(in.Problems, &CellError{Position: csvPosition(path),
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})
 	}
 	make(duplicateClaims, len(in.Claims)).checkPaired(in.Claims, in.Coefficients, nil)

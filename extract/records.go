@@ -3,6 +3,7 @@ package extract
 import (
 	"errors"
 	"fmt"
+	"path/filepath"
 )
 
 // Measure values of the coefficients sheet's measure column.
@@ -77,8 +78,16 @@ type Position struct {
 	Column string
 }
 
+// csvPosition is the position of a CSV file: its Sheet is the file's name,
+// so that a problem of a CSV folder or a paired CSV names the file the way
+// a workbook's names its sheet.
+func csvPosition(path string) Position {
+	return Position{File: path, Sheet: filepath.Base(path)}
+}
+
 // String writes the position as "file, sheet "x", row 4, column "se"",
-// leaving out the parts that are empty.
+// leaving out the parts that are empty, and the sheet when it is the
+// file's own name (a CSV).
 func (p Position) String() string {
 	s := p.File
 	add := func(part string) {
@@ -87,7 +96,7 @@ func (p Position) String() string {
 		}
 		s += part
 	}
-	if p.Sheet != "" {
+	if p.Sheet != "" && p.Sheet != filepath.Base(p.File) {
 		add(fmt.Sprintf("sheet %q", p.Sheet))
 	}
 	if p.Row > 0 {
@@ -103,6 +112,10 @@ func (p Position) String() string {
 type CellError struct {
 	Position
 	Err error
+	// Text is the cell as typed (as displayed, for a numeric cell of a
+	// workbook) when the problem is with one cell's content, so that a
+	// report can show the cell as it was; "" otherwise.
+	Text string
 }
 
 // Error implements error.

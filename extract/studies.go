@@ -196,7 +196,7 @@ func openPaired(path string) (*Source, error) {
 		total += n
 	}
 	if total == 0 {
-		s.problems = append(s.problems, &CellError{Position: Position{File: path},
+		s.problems = append(s.problems, &CellError{Position: csvPosition(path),
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})
 	}
 	s.studies = func(yield func(*Study, error) bool) {

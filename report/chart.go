@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"html"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -40,7 +41,7 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 	if err != nil {
 		return nil
 	}
-	toCorrelation := c.Measure == extract.MeasureR && c.Scale == "correlation"
+	toCorrelation := c.Measure == extract.MeasureR && c.Scale == audit.ScaleCorrelation
 	var rows []chartRow
 	for i, s := range []audit.Side{c.First, c.Second} {
 		if !s.Estimate.Known() {
@@ -50,6 +51,9 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 			lo: math.NaN(), hi: math.NaN(), intervalLabel: "95% interval, estimate ± 1.96 SE"}
 		if s.SE.Known() {
 			r.lo, r.hi = r.est-z95*float64(s.SE), r.est+z95*float64(s.SE)
+		}
+		if c.Scale == extract.ScaleLog {
+			r.intervalLabel = "95% interval, exp(log ratio ± 1.96 SE)"
 		}
 		if toCorrelation {
 			r.est, r.lo, r.hi = math.Tanh(r.est), math.Tanh(r.lo), math.Tanh(r.hi)
@@ -80,14 +84,68 @@ func chartRows(c *audit.ClaimResult) []chartRow {
 	return rows
 }
 
+// chartCaption is the legend of a claim's chart: it names only what
+// chartRows draws (a dot per estimate drawn, with its interval when known;
+// the diamond of the difference, with its interval when known), and the
+// dashed line at zero.
+func chartCaption(c *audit.ClaimResult) string {
+	var dots, diamond []chartRow
+	for _, r := range chartRows(c) {
+		if r.difference {
+			diamond = append(diamond, r)
+		} else {
+			dots = append(dots, r)
+		}
+	}
+	if len(dots)+len(diamond) == 0 {
+		return ""
+	}
+	var parts []string
+	if len(dots) > 0 {
+		what, each := "the estimate", "with its "
+		if len(dots) == 2 {
+			what, each = "the two estimates", "each with its "
+		}
+		if c.Scale == extract.ScaleLog {
+			what = strings.Replace(what, "estimate", "ratio", 1)
+		}
+		var with []string
+		for _, r := range dots {
+			if !math.IsNaN(r.lo) && !slices.Contains(with, r.intervalLabel) {
+				with = append(with, r.intervalLabel)
+			}
+		}
+		if len(with) > 0 {
+			what += ", " + each + strings.Join(with, " or ")
+		}
+		parts = append(parts, "Dots: "+what+".")
+	}
+	if len(diamond) > 0 {
+		what := "the difference"
+		if c.Scale == extract.ScaleLog {
+			what = "the ratio of the two ratios"
+		}
+		if !math.IsNaN(diamond[0].lo) {
+			what += " with its " + diamond[0].intervalLabel
+		}
+		parts = append(parts, "Diamond: "+what+".")
+	}
+	zero := "zero"
+	if c.Scale == extract.ScaleLog {
+		zero = "a ratio of 1"
+	}
+	parts = append(parts, "Dashed line: "+zero+", on the "+chartScale(c)+".")
+	return strings.Join(parts, " ")
+}
+
 // chartScale names the axis of a claim's chart.
 func chartScale(c *audit.ClaimResult) string {
 	switch c.Scale {
 	case extract.ScaleLog:
-		return "log scale (0 is a ratio of 1)"
+		return "ratio scale, drawn as logs"
 	case extract.ScaleFisherZ:
 		return "Fisher z scale"
-	case "correlation":
+	case audit.ScaleCorrelation:
 		return "correlation scale"
 	}
 	return "scale as printed"
@@ -141,7 +199,7 @@ func intervalChartSVG(c *audit.ClaimResult) string {
 		v := lo + float64(k)*step
 		xv := x(v)
 		fmt.Fprintf(&b, `<line class="grid" x1="%.1f" y1="%d" x2="%.1f" y2="%d"/>`, xv, chartTop, xv, axisY)
-		fmt.Fprintf(&b, `<text class="tick" x="%.1f" y="%d" text-anchor="middle">%s</text>`, xv, axisY+14, tickLabel(v, step))
+		fmt.Fprintf(&b, `<text class="tick" x="%.1f" y="%d" text-anchor="middle">%s</text>`, xv, axisY+14, tickLabel(c, v, step))
 	}
 	fmt.Fprintf(&b, `<line class="axis" x1="%d" y1="%d" x2="%d" y2="%d"/>`, chartLeft, axisY, chartWidth-chartRight, axisY)
 	fmt.Fprintf(&b, `<text class="axis-label" x="%.1f" y="%d" text-anchor="middle">%s</text>`,
@@ -154,7 +212,7 @@ func intervalChartSVG(c *audit.ClaimResult) string {
 			cls = "difference"
 			fmt.Fprintf(&b, `<line class="separator" x1="8" y1="%.1f" x2="%d" y2="%.1f"/>`, y-chartRowH/2, chartWidth-chartRight, y-chartRowH/2)
 		}
-		fmt.Fprintf(&b, `<g class="%s"><title>%s</title>`, cls, html.EscapeString(rowText(r)))
+		fmt.Fprintf(&b, `<g class="%s"><title>%s</title>`, cls, html.EscapeString(rowText(c, r)))
 		fmt.Fprintf(&b, `<text class="row-label" x="%d" y="%.1f" text-anchor="end" dominant-baseline="middle">%s</text>`,
 			chartLeft-10, y, html.EscapeString(shorten(r.label, chartLabelN)))
 		if !math.IsNaN(r.lo) && !math.IsNaN(r.hi) {
@@ -189,8 +247,13 @@ func niceStep(raw float64) float64 {
 	return 10 * p
 }
 
-// tickLabel writes a tick value with as many decimals as the step needs.
-func tickLabel(v, step float64) string {
+// tickLabel writes a tick value with as many decimals as the step needs;
+// on the log scale of a ratio measure, the ratio exp(v) to two decimals,
+// so that the axis reads as ratios.
+func tickLabel(c *audit.ClaimResult, v, step float64) string {
+	if c.Scale == extract.ScaleLog {
+		return strings.Replace(audit.FormatFixed(math.Exp(v), 2), "-", "−", 1)
+	}
 	dec := 0
 	if step < 1 {
 		dec = int(math.Ceil(-math.Log10(step) - 1e-9))
@@ -202,10 +265,18 @@ func tickLabel(v, step float64) string {
 	return strings.Replace(s, "-", "−", 1)
 }
 
-func rowText(r chartRow) string {
-	s := r.label + " " + audit.FormatNum(r.est)
+// rowText says what a chart row draws, to the claim's decimals: for a
+// ratio measure the ratios themselves (exp of what is drawn).
+func rowText(c *audit.ClaimResult, r chartRow) string {
+	shown := func(x float64) string {
+		if c.Scale == extract.ScaleLog {
+			x = math.Exp(x)
+		}
+		return c.FormatEstimate(x)
+	}
+	s := r.label + " " + shown(r.est)
 	if !math.IsNaN(r.lo) {
-		s += " (" + audit.FormatNum(r.lo) + " to " + audit.FormatNum(r.hi) + ")"
+		s += " (" + shown(r.lo) + " to " + shown(r.hi) + ")"
 	}
 	return s + ", " + r.intervalLabel
 }
@@ -213,7 +284,7 @@ func rowText(r chartRow) string {
 func chartTitle(c *audit.ClaimResult, rows []chartRow) string {
 	parts := make([]string, len(rows))
 	for i, r := range rows {
-		parts[i] = rowText(r)
+		parts[i] = rowText(c, r)
 	}
 	return "Intervals of claim " + c.Claim + " on the " + chartScale(c) + ": " + strings.Join(parts, "; ")
 }

@@ -8,7 +8,6 @@ import (
 	"unicode/utf8"
 
 	"coefaudit/audit"
-	"coefaudit/extract"
 )
 
 // WriteComparison writes the audit of one comparison for the terminal: the
@@ -24,27 +23,24 @@ func WriteComparison(w io.Writer, rep *audit.Report, c audit.Comparison) error {
 	for i, s := range []audit.Side{r.First, r.Second} {
 		fmt.Fprintf(bw, "%-10s %s\n", []string{"First", "Second"}[i]+":", EscapeControls([]audit.Reported{c.First, c.Second}[i].Text))
 		if s.Estimate.Known() {
-			fmt.Fprintf(bw, "%-10s estimate %s, SE %s", "", audit.FormatNum(float64(s.Estimate)), numberOrDash(s.SE))
-			if s.SEFrom != "" {
-				fmt.Fprintf(bw, " (from %s)", s.SEFrom)
+			if s.SE.Known() {
+				fmt.Fprintf(bw, "%-10s estimate %s\n", "", sideProse(r, s))
+			} else {
+				fmt.Fprintf(bw, "%-10s estimate %s, SE not known\n", "", estimateCell(r, s))
 			}
-			if r.Scale != "" && r.Scale != extract.ScaleAsPrinted && r.Scale != "correlation" {
-				fmt.Fprintf(bw, ", on the %s scale", r.Scale)
-			}
-			fmt.Fprintln(bw)
 		}
 	}
 	fmt.Fprintf(bw, "%-10s %s\n", "Design:", designWords(r.Relation))
 	if r.Method != "" {
-		fmt.Fprintf(bw, "%-10s %s: difference %s", "Test:", r.Method, differenceCell(r))
+		fmt.Fprintf(bw, "%-10s %s: %s %s", "Test:", r.Method, r.Shown().Name, differenceInterval(r))
 		if r.Statistic.Known() {
-			fmt.Fprintf(bw, ", statistic %s", audit.FormatNum(float64(r.Statistic)))
+			fmt.Fprintf(bw, ", statistic %s", statisticCell(r.Statistic))
 		}
 		if r.DF.Known() {
-			fmt.Fprintf(bw, ", df %s", audit.FormatNum(float64(r.DF)))
+			fmt.Fprintf(bw, ", df %s", dfCell(r.DF))
 		}
 		if r.P.Known() {
-			fmt.Fprintf(bw, ", p %s", pCell(r.P))
+			fmt.Fprintf(bw, ", %s", audit.PStatement(float64(r.P)))
 		}
 		if pr := pRangeCell(r.PRange); pr != "-" {
 			fmt.Fprintf(bw, ", p range %s", pr)

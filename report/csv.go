@@ -102,13 +102,14 @@ func extraValue(r *audit.ClaimResult, name string) string {
 	return ""
 }
 
-// csvNumber writes a number with ten significant digits; nothing when it
-// is not known.
+// csvNumber writes a number at full precision, the shortest text that
+// reads back as the same float64 (as the JSON does); nothing when it is
+// not known.
 func csvNumber(n audit.Number) string {
 	if !n.Known() {
 		return ""
 	}
-	return strconv.FormatFloat(float64(n), 'g', 10, 64)
+	return strconv.FormatFloat(float64(n), 'g', -1, 64)
 }
 
 // safeText keeps a spreadsheet from evaluating a text cell: a leading =, +,

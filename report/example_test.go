@@ -60,7 +60,7 @@ func ExampleNew() {
 
 	// Output:
 	// row claim method p outcome
-	// 2 1 independent-z 0.003231131067 consistent
+	// 2 1 independent-z 0.003231131067255686 consistent
 }
 
 // Write writes a report held in memory; without the input, the workbook

@@ -2,10 +2,13 @@ package report
 
 import (
 	"fmt"
+	"math"
 	"slices"
+	"strconv"
 	"strings"
 
 	"coefaudit/audit"
+	"coefaudit/extract"
 )
 
 // reportTitle is every report's title.
@@ -27,22 +30,80 @@ func dash(s string) string {
 	return s
 }
 
-func numberOrDash(n audit.Number) string {
-	if !n.Known() {
-		return "–"
-	}
-	return audit.FormatNum(float64(n))
-}
+// The cells below follow the precision rule of audit/precision.go: every
+// report meant for people writes its numbers through them.
 
-// differenceCell is the difference with its interval: "0.23 [0.06, 0.40]".
+// differenceCell is the difference as shown with its interval: "0.230
+// [0.082, 0.378]", a ratio measure's "ratio 0.681 [0.452, 1.028]".
 func differenceCell(c *audit.ClaimResult) string {
 	if !c.Difference.Known() {
 		return "-"
 	}
-	if !c.DifferenceCI[0].Known() {
-		return audit.FormatNum(float64(c.Difference))
+	switch c.Scale {
+	case extract.ScaleLog:
+		return "ratio " + differenceInterval(c)
+	case extract.ScaleFisherZ:
+		return "Fisher z " + differenceInterval(c)
 	}
-	return fmt.Sprintf("%s [%s, %s]", audit.FormatNum(float64(c.Difference)), audit.FormatNum(float64(c.DifferenceCI[0])), audit.FormatNum(float64(c.DifferenceCI[1])))
+	return differenceInterval(c)
+}
+
+// differenceInterval is the shown difference and its interval, unlabelled:
+// "0.681 [0.452, 1.028]".
+func differenceInterval(c *audit.ClaimResult) string {
+	s := c.Shown()
+	if !c.DifferenceCI[0].Known() {
+		return c.FormatEstimate(s.Estimate)
+	}
+	return fmt.Sprintf("%s [%s, %s]", c.FormatEstimate(s.Estimate), c.FormatEstimate(s.Low), c.FormatEstimate(s.High))
+}
+
+// shownScale says what the difference columns hold when it is not the
+// difference as computed: "ratio of the two ratios" for ratio measures
+// (their log-scale difference is in the JSON and CSV).
+func shownScale(c *audit.ClaimResult) string {
+	if c.Scale == extract.ScaleLog {
+		return c.Shown().Name
+	}
+	return c.Scale
+}
+
+// estimateCell is one side's estimate as shown (a correlation as r, a
+// ratio as the ratio).
+func estimateCell(c *audit.ClaimResult, s audit.Side) string {
+	if !s.Estimate.Known() {
+		return "–"
+	}
+	return c.FormatEstimate(c.ShownEstimate(s))
+}
+
+// seCell is one side's SE, with the scale it is on when that is not the
+// scale the estimate is shown on: "0.107 (log)".
+func seCell(c *audit.ClaimResult, s audit.Side) string {
+	if !s.SE.Known() {
+		return "–"
+	}
+	text := c.FormatEstimate(float64(s.SE))
+	if sc := c.SEScale(); sc != "" {
+		text += " (" + sc + ")"
+	}
+	return text
+}
+
+// statisticCell is the test statistic to two decimals.
+func statisticCell(x audit.Number) string {
+	if !x.Known() {
+		return "-"
+	}
+	return audit.FormatStatistic(float64(x))
+}
+
+// dfCell is the df, whole or to one decimal (a Welch df).
+func dfCell(x audit.Number) string {
+	if !x.Known() {
+		return "-"
+	}
+	return strconv.FormatFloat(math.Round(float64(x)*10)/10, 'f', -1, 64)
 }
 
 func pCell(p audit.Number) string {
@@ -63,6 +124,15 @@ func pRangeCell(r [2]audit.Number) string {
 	return lo + "–" + hi
 }
 
+// pOrRange is the claim's p, or the range of p when there is no point p
+// (an unknown covariance): ".043", "< .001–.167".
+func pOrRange(c *audit.ClaimResult) string {
+	if c.P.Known() {
+		return pCell(c.P)
+	}
+	return pRangeCell(c.PRange)
+}
+
 // adjustedP is the claim's p adjusted within its study by method, NaN
 // when there is none.
 func adjustedP(c *audit.ClaimResult, method string) audit.Number {
@@ -70,10 +140,14 @@ func adjustedP(c *audit.ClaimResult, method string) audit.Number {
 	return q
 }
 
-// problemText places a problem: `sheet "claims", row 4, column "p": …`.
+// problemText places a problem: `sheet "claims", row 4, column "p": …`,
+// or `file "claims.csv", row 4, …` for a CSV, whose sheet is its file name.
 func problemText(p audit.Problem) string {
 	var loc []string
-	if p.Sheet != "" {
+	switch {
+	case strings.HasSuffix(strings.ToLower(p.Sheet), ".csv"):
+		loc = append(loc, fmt.Sprintf("file %q", p.Sheet))
+	case p.Sheet != "":
 		loc = append(loc, fmt.Sprintf("sheet %q", p.Sheet))
 	}
 	if p.Row > 0 {

@@ -125,6 +125,9 @@ type htmlLine struct {
 	ID, Study, Claim, Outcome string
 	Row                       int
 	Published, Recomputed     string
+	// Difference is the difference with its interval, P its p (or the
+	// range of p when there is no point p), by the precision rule.
+	Difference, P string
 }
 
 // Study implements Writer: the claims' lines, and the cards of the flagged
@@ -137,7 +140,7 @@ func (h *htmlWriter) Study(res audit.StudyResult) error {
 		c := &res.Claims[i]
 		h.claims++
 		l := htmlLine{Study: c.Study, Claim: c.Claim, Outcome: outcomeOrIncomplete(c.Outcome), Row: c.Row,
-			Published: dash(c.Published), Recomputed: dash(c.Recomputed)}
+			Published: dash(c.Published), Recomputed: dash(c.Recomputed), Difference: differenceCell(c), P: pOrRange(c)}
 		if c.Outcome != audit.Consistent {
 			h.flagged++
 			if h.flagged <= HTMLCards {
@@ -270,7 +273,9 @@ type htmlSide struct {
 	Role, Label, Estimate, SE, SEFrom string
 }
 
-// htmlCard is what a flagged claim's card shows.
+// htmlCard is what a flagged claim's card shows. Sides is empty when
+// neither coefficient has an estimate, Chart when nothing can be drawn,
+// so that a card shows no empty area.
 type htmlCard struct {
 	ID, Study, Claim, Outcome string
 	Row                       int
@@ -279,14 +284,21 @@ type htmlCard struct {
 	Notes                     []string
 	Methods                   string
 	Chart                     template.HTML
+	// ChartCaption says what the chart draws, and nothing it does not.
+	ChartCaption string
+	// Alternatives are the other tests of the same comparison.
+	Alternatives []alternativeRow
 }
 
 func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 	h := htmlCard{ID: id, Study: c.Study, Claim: c.Claim, Outcome: outcomeOrIncomplete(c.Outcome),
-		Row: c.Row, Notes: c.Notes, Methods: strings.TrimSpace(methodsText(c)), Chart: template.HTML(intervalChartSVG(c))}
-	for k, s := range []audit.Side{c.First, c.Second} {
-		h.Sides = append(h.Sides, htmlSide{Role: []string{"First", "Second"}[k], Label: s.Label,
-			Estimate: numberOrDash(s.Estimate), SE: numberOrDash(s.SE), SEFrom: s.SEFrom})
+		Row: c.Row, Notes: c.Notes, Methods: strings.TrimSpace(methodsText(c)), Chart: template.HTML(intervalChartSVG(c)),
+		ChartCaption: chartCaption(c), Alternatives: alternativeRows(c)}
+	if c.First.Estimate.Known() || c.Second.Estimate.Known() {
+		for k, s := range []audit.Side{c.First, c.Second} {
+			h.Sides = append(h.Sides, htmlSide{Role: []string{"First", "Second"}[k], Label: s.Label,
+				Estimate: estimateCell(c, s), SE: seCell(c, s), SEFrom: s.SEFrom})
+		}
 	}
 	add := func(name, value string) {
 		if value != "" && value != "-" {
@@ -298,7 +310,7 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 	add("Basis", c.Basis)
 	add("Relation", c.Relation)
 	add("Method", c.Method)
-	add("Scale", c.Scale)
+	add("Scale", shownScale(c))
 	add("Difference [CI]", differenceCell(c))
 	add("p", pCell(c.P))
 	add("p range", pRangeCell(c.PRange))
@@ -308,21 +320,13 @@ func newHTMLCard(id string, c *audit.ClaimResult) htmlCard {
 	if q := adjustedP(c, audit.AdjustBH); q.Known() {
 		add("p, BH within study", pCell(q))
 	}
-	if c.Statistic.Known() {
-		add("Statistic", audit.FormatNum(float64(c.Statistic)))
-	}
-	if c.DF.Known() {
-		add("df", audit.FormatNum(float64(c.DF)))
-	}
+	add("df", dfCell(c.DF))
 	if c.Alpha > 0 {
 		add("α", audit.FormatAlpha(c.Alpha))
 	}
 	if c.Overlap != nil && c.Overlap.Proportion.Known() {
 		add("CI overlap", fmt.Sprintf("%.2f of the mean margin of error (implies p ≈ %s if independent)",
 			float64(c.Overlap.Proportion), pCell(c.Overlap.ImpliedP)))
-	}
-	for _, a := range c.Alternatives {
-		add("Also: "+a.Method, "p = "+pCell(a.P))
 	}
 	return h
 }

@@ -38,18 +38,34 @@ func chromiumPath(t *testing.T) string {
 // its standard output.
 func chromium(t *testing.T, bin, profile, page string, flags ...string) string {
 	t.Helper()
+	stdout, _ := chromiumLogged(t, bin, profile, page, flags...)
+	return stdout
+}
+
+// chromiumLogged is chromium that also returns what the page wrote to the
+// console: Chromium logs every console message, a script's uncaught
+// exception and a Content-Security-Policy refusal to its standard error as
+// a line with ":CONSOLE" (--enable-logging=stderr).
+func chromiumLogged(t *testing.T, bin, profile, page string, flags ...string) (string, []string) {
+	t.Helper()
 	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
 	defer cancel()
 	args := append([]string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
 		"--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage",
-		"--user-data-dir=" + profile}, flags...)
+		"--enable-logging=stderr", "--v=0", "--user-data-dir=" + profile}, flags...)
 	cmd := exec.CommandContext(ctx, bin, append(args, page)...)
 	var stdout, stderr strings.Builder
 	cmd.Stdout, cmd.Stderr = &stdout, &stderr
 	if err := cmd.Run(); err != nil {
 		t.Fatalf("chromium %s: %v\n%s", strings.Join(flags, " "), err, stderr.String())
 	}
-	return stdout.String()
+	var console []string
+	for _, line := range strings.Split(stderr.String(), "\n") {
+		if strings.Contains(line, ":CONSOLE") {
+			console = append(console, line)
+		}
+	}
+	return stdout.String(), console
 }
 
 // TestWriteHTMLInChromium opens the demo's report in headless Chromium with
@@ -149,8 +165,13 @@ func TestWriteHTMLInChromium(t *testing.T) {
 	t.Run("screenshot", func(t *testing.T) {
 		t.Parallel()
 		shot := filepath.Join(dir, "report.png")
-		chromium(t, bin, filepath.Join(dir, "profile-shot"), pageURL+"#outcome=unsupported,reversed,missed,conflict",
-			"--screenshot="+shot, "--window-size=1200,1600", "--hide-scrollbars")
+		_, console := chromiumLogged(t, bin, filepath.Join(dir, "profile-shot"), pageURL+"#outcome=unsupported,reversed,missed,conflict",
+			"--screenshot="+shot, "--window-size=1200,1600", "--hide-scrollbars", "--virtual-time-budget=3000")
+		// Issue 20: the page opens with no console message: no script
+		// error, no refusal by its Content-Security-Policy.
+		for _, m := range console {
+			t.Errorf("console: %s", m)
+		}
 		fi, err := os.Stat(shot)
 		if err != nil || fi.Size() < 10000 {
 			t.Fatalf("screenshot %s: %v (size %d), want a rendered page", shot, err, sizeOf(fi))
@@ -167,6 +188,23 @@ func TestWriteHTMLInChromium(t *testing.T) {
 			}
 		}
 	})
+}
+
+// TestChromiumConsoleCaught: the console check of the screenshot sees a
+// script's error, so that a clean console there means something.
+func TestChromiumConsoleCaught(t *testing.T) {
+	bin := chromiumPath(t)
+	dir := t.TempDir()
+	path := filepath.Join(dir, "broken.html")
+	page := `<!DOCTYPE html><html><body><p>x</p><script>console.error("broken page"); notDefined();</script></body></html>`
+	if err := os.WriteFile(path, []byte(page), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	_, console := chromiumLogged(t, bin, filepath.Join(dir, "profile"), (&url.URL{Scheme: "file", Path: path}).String(),
+		"--dump-dom", "--virtual-time-budget=1000")
+	if len(console) < 2 || !strings.Contains(strings.Join(console, "\n"), "notDefined") {
+		t.Errorf("console = %q, want the page's error and its uncaught exception", console)
+	}
 }
 
 func sizeOf(fi os.FileInfo) int64 {

@@ -50,6 +50,12 @@ func (m *markdownWriter) Study(res audit.StudyResult) error {
 	for i := range res.Claims {
 		c := &res.Claims[i]
 		fmt.Fprintf(bw, "\n#### Claim %s (%s), row %d: %s\n\n%s\n", mdText(c.Claim), mdText(c.Study), c.Row, c.Outcome, mdText(methodsText(c)))
+		if alts := alternativeRows(c); len(alts) > 0 {
+			bw.WriteString("\nOther tests of the same comparison:\n\n| test | source | statistic | p |\n|---|---|---:|---:|\n")
+			for _, a := range alts {
+				fmt.Fprintf(bw, "| %s | %s | %s | %s |\n", mdText(a.Name), mdText(a.Source), a.Statistic, a.P)
+			}
+		}
 		if len(c.Notes) > 0 {
 			bw.WriteString("\nNotes:\n\n")
 			for _, n := range c.Notes {

@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 
 	"coefaudit/audit"
@@ -20,6 +21,47 @@ var methodDescriptions = map[string]string{
 	"z-with-estimate-corr":           "a z test of the difference between two estimates from one sample, using the sampling correlation of the two estimates that the paper printed",
 	"t-with-estimate-corr":           "a t test of the difference between two coefficients of one model, using the sampling correlation of the two estimates that the paper printed",
 	"admissible-range":               "the range of p over every admissible sampling correlation of the two estimates (−1 to 1), since the paper printed nothing that gives their covariance",
+}
+
+// alternativeMethod is another test of the same comparison of
+// correlations, as a reader is shown it.
+type alternativeMethod struct {
+	Name, Source string
+}
+
+// alternativeMethods name the correlation tests reported beside the
+// primary one (infer/correlation's method identifiers), with their sources.
+var alternativeMethods = map[string]alternativeMethod{
+	"fisher-z":        {"Fisher's z test of two independent correlations", "Fisher 1921"},
+	"zou-ci":          {"Zou's confidence interval for the difference of two correlations (an interval, no test)", "Zou 2007"},
+	"williams-t":      {"Williams' t test of two correlations sharing a variable", "Williams 1959; Steiger 1980"},
+	"steiger-z":       {"Steiger's z test on Fisher's z, the correlations pooled under the null", "Steiger 1980"},
+	"mrr-z":           {"Meng, Rosenthal and Rubin's z test of two correlations sharing a variable", "Meng, Rosenthal & Rubin 1992"},
+	"pearson-filon-z": {"Pearson and Filon's z test of two correlations with no variable in common", "Pearson & Filon 1898"},
+	"zpf":             {"the Pearson–Filon test on Fisher's z (ZPF)", "Dunn & Clark 1969; Raghunathan, Rosenthal & Rubin 1996"},
+}
+
+// alternativeRow is one line of the table of other tests: the method's
+// full name and source, its statistic and p by the precision rule.
+type alternativeRow struct {
+	Name, Source, Statistic, P string
+}
+
+// alternativeRows lists the claim's other tests of the same comparison.
+func alternativeRows(c *audit.ClaimResult) []alternativeRow {
+	var out []alternativeRow
+	for _, a := range c.Alternatives {
+		m, ok := alternativeMethods[a.Method]
+		if !ok {
+			m = alternativeMethod{Name: a.Method}
+		}
+		row := alternativeRow{Name: m.Name, Source: m.Source, Statistic: statisticCell(a.Statistic), P: pCell(a.P)}
+		if !a.P.Known() {
+			row.P = "interval only"
+		}
+		out = append(out, row)
+	}
+	return out
 }
 
 var publishedWords = map[string]string{
@@ -56,35 +98,73 @@ func methodsText(r *audit.ClaimResult) string {
 		fmt.Fprintf(&b, "; basis: %s", r.Basis)
 	}
 	b.WriteString("). ")
+	caveats := caveatNotes(r)
 	if d, ok := methodDescriptions[r.Method]; ok {
 		fmt.Fprintf(&b, "We recomputed it with %s. ", d)
 		if r.First.SE.Known() && r.Second.SE.Known() {
-			fmt.Fprintf(&b, "The estimates were %s (SE %s, from %s) and %s (SE %s, from %s)%s. ",
-				audit.FormatNum(float64(r.First.Estimate)), audit.FormatNum(float64(r.First.SE)), r.First.SEFrom,
-				audit.FormatNum(float64(r.Second.Estimate)), audit.FormatNum(float64(r.Second.SE)), r.Second.SEFrom, onScale(r.Scale))
+			fmt.Fprintf(&b, "The estimates were %s and %s. ", sideProse(r, r.First), sideProse(r, r.Second))
 		}
+		shown := r.Shown()
 		if r.P.Known() {
-			fmt.Fprintf(&b, "The difference was %s", audit.FormatNum(float64(r.Difference)))
+			fmt.Fprintf(&b, "The %s was %s", shown.Name, r.FormatEstimate(shown.Estimate))
 			if r.DifferenceCI[0].Known() {
-				fmt.Fprintf(&b, " (%g%% CI %s to %s)", 100*(1-r.Alpha), audit.FormatNum(float64(r.DifferenceCI[0])), audit.FormatNum(float64(r.DifferenceCI[1])))
+				fmt.Fprintf(&b, " (%s%% CI %s to %s)", r.ConfidenceLevel(), r.FormatEstimate(shown.Low), r.FormatEstimate(shown.High))
 			}
 			fmt.Fprintf(&b, ", %s, %s.", statPhrase(r), audit.PStatement(float64(r.P)))
 		} else if r.Difference.Known() {
-			fmt.Fprintf(&b, "The difference was %s.", audit.FormatNum(float64(r.Difference)))
+			fmt.Fprintf(&b, "The %s was %s.", shown.Name, r.FormatEstimate(shown.Estimate))
 		}
-		if r.PRange[0].Known() && r.PRange[1].Known() {
-			fmt.Fprintf(&b, " Allowing for what was not printed, p lies between %s and %s.", audit.FormatP(float64(r.PRange[0])), audit.FormatP(float64(r.PRange[1])))
+		if span := pRangeSpan(r); span != "" && !slices.ContainsFunc(caveats, func(n string) bool { return strings.Contains(n, span) }) {
+			verb := "ranges"
+			if strings.HasSuffix(span, "throughout") {
+				verb = "stays"
+			}
+			fmt.Fprintf(&b, " Allowing for what was not printed, p %s %s.", verb, span)
 		}
 		b.WriteString(" ")
 	}
-	fmt.Fprintf(&b, "Outcome: %s. %s", r.Outcome, outcomeWords[r.Outcome])
+	fmt.Fprintf(&b, "Outcome: %s. %s", r.Outcome, outcomeSentence(r))
 	if r.Recomputed != "" && r.Recomputed != audit.Undetermined && r.Outcome != audit.Conflict {
 		fmt.Fprintf(&b, " The recomputed verdict is that %s at α = %s.", publishedOr(r.Recomputed), audit.FormatAlpha(r.Alpha))
 	}
-	if caveats := caveatNotes(r); len(caveats) > 0 {
+	if len(caveats) > 0 {
 		b.WriteString(" Caveats: " + strings.Join(caveats, " "))
 	}
 	return b.String()
+}
+
+// outcomeSentence says what the outcome means; an incomplete claim whose
+// row could not be read says so, rather than that too little was printed.
+func outcomeSentence(r *audit.ClaimResult) string {
+	if r.Outcome == audit.Incomplete && r.Unreadable {
+		return "The claims row could not be read, so the claim was not tested."
+	}
+	return outcomeWords[r.Outcome]
+}
+
+// sideProse is one estimate with its SE for the paragraph: "0.67 (SE
+// 0.193 on the log scale, from ci_low, ci_high (normal))".
+func sideProse(r *audit.ClaimResult, s audit.Side) string {
+	se := "SE " + r.FormatEstimate(float64(s.SE))
+	if sc := r.SEScale(); sc != "" {
+		se += " on the " + sc + " scale"
+	}
+	switch {
+	case strings.HasPrefix(s.SEFrom, "rebuilt"):
+		se += ", " + s.SEFrom
+	case s.SEFrom != "":
+		se += ", from " + s.SEFrom
+	}
+	return estimateCell(r, s) + " (" + se + ")"
+}
+
+// pRangeSpan is the range of p over what was not printed, as a sentence
+// continues it ("from .025 to .053"), "" when there is none.
+func pRangeSpan(r *audit.ClaimResult) string {
+	if !r.PRange[0].Known() || !r.PRange[1].Known() {
+		return ""
+	}
+	return audit.PSpan(float64(r.PRange[0]), float64(r.PRange[1]))
 }
 
 func publishedOr(v string) string {
@@ -94,35 +174,24 @@ func publishedOr(v string) string {
 	return fmt.Sprintf("%q", v)
 }
 
-func onScale(scale string) string {
-	switch scale {
-	case "", extract.ScaleAsPrinted:
-		return ""
-	case "correlation":
-		return " (on the Fisher z scale)"
-	}
-	return " (on the " + scale + " scale)"
-}
-
 func statPhrase(r *audit.ClaimResult) string {
 	if !r.Statistic.Known() {
 		return "statistic not defined"
 	}
 	if r.DF.Known() {
-		return fmt.Sprintf("t(%s) = %s", audit.FormatNum(float64(r.DF)), formatStat(float64(r.Statistic)))
+		return fmt.Sprintf("t(%s) = %s", dfCell(r.DF), statisticCell(r.Statistic))
 	}
-	return "z = " + formatStat(float64(r.Statistic))
+	return "z = " + statisticCell(r.Statistic)
 }
 
-func formatStat(x float64) string { return fmt.Sprintf("%.2f", x) }
-
 // caveatNotes picks the notes a reader of the paragraph must not miss:
-// all but the verdict sentence, which the paragraph has said already.
+// all but the verdict sentence, which the paragraph has said already, each
+// once.
 func caveatNotes(r *audit.ClaimResult) []string {
 	verdict, decided := r.VerdictNote()
 	var out []string
 	for i, n := range r.Notes {
-		if decided && i == verdict {
+		if decided && i == verdict || slices.Contains(out, n) {
 			continue
 		}
 		out = append(out, n)

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"fmt"
 	"strings"
 	"testing"
 
@@ -24,7 +25,7 @@ func TestMethodsText(t *testing.T) {
 			Published: extract.PublishedDiffer, Basis: extract.BasisSignificanceSplit, Alpha: 0.05}}}
 	c := audit.Audit(in, audit.DefaultOptions).Claims[0]
 	m := methodsText(&c)
-	for _, want := range []string{"Claim c (S, claims row 2)", "basis: significance-split", "The difference was 15", "p = 0.289",
+	for _, want := range []string{"Claim c (S, claims row 2)", "basis: significance-split", "The difference was 15", "p = .289",
 		"Outcome: unsupported", "Caveats:", "Gelman & Stern"} {
 		if !strings.Contains(m, want) {
 			t.Errorf("methodsText() lacks %q: %q", want, m)
@@ -36,5 +37,37 @@ func TestMethodsText(t *testing.T) {
 	}
 	if strings.Contains(m, c.Notes[verdict]) {
 		t.Errorf("methodsText() repeats the verdict note %q among its caveats", c.Notes[verdict])
+	}
+}
+
+// TestIssue20MethodsTextCaveatsOnce: the methods paragraph used to repeat a
+// note (the range of p, said once by the paragraph and again among the
+// caveats) and to say of a row that could not be read that the paper
+// printed too little. Each caveat now appears once, the range of p once,
+// and an unreadable row says "Row N could not be read: …".
+func TestIssue20MethodsTextCaveatsOnce(t *testing.T) {
+	rep, _ := demoReport(t)
+	unreadable := 0
+	for i := range rep.Claims {
+		c := &rep.Claims[i]
+		m := methodsText(c)
+		for _, n := range c.Notes {
+			if k := strings.Count(m, n); k > 1 {
+				t.Errorf("claim %s: the note %q appears %d times in %q", c.Claim, n, k, m)
+			}
+		}
+		if k := strings.Count(m, "ranges from") + strings.Count(m, "stays below") + strings.Count(m, "stays at"); k > 1 {
+			t.Errorf("claim %s: the range of p is stated %d times: %q", c.Claim, k, m)
+		}
+		if c.Unreadable {
+			unreadable++
+			want := fmt.Sprintf("Row %d could not be read: ", c.Row)
+			if !strings.Contains(m, want) || strings.Contains(m, "Not enough was printed") {
+				t.Errorf("claim %s: methods text %q, want %q and no word of too little printed", c.Claim, m, want)
+			}
+		}
+	}
+	if unreadable == 0 {
+		t.Fatal("the demo has no unreadable claims row; the test needs one")
 	}
 }

@@ -192,14 +192,23 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 		in := x.inputs[c.Index]
 		delete(x.inputs, c.Index)
 		row := claimInputCells(st, c, in, x.extra)
+		var bad []badCell
+		if in != nil {
+			bad = badCells(in.Problems, claimInputColumns)
+			markBad(st, row, bad)
+		}
+		shown := c.Shown()
 		row = append(row, st.outcomeCell(c.Outcome), st.textCell(c.Recomputed), st.textCell(c.Relation),
-			st.textCell(c.Method), st.textCell(c.Scale), st.number(c.Difference, st.decimal),
-			st.number(c.DifferenceCI[0], st.decimal), st.number(c.DifferenceCI[1], st.decimal),
+			st.textCell(c.Method), st.textCell(shownScale(c)), st.estimateNumber(c, shown.Estimate),
+			st.estimateNumber(c, shown.Low), st.estimateNumber(c, shown.High),
 			st.pValue(c.P), st.pValue(c.PRange[0]), st.pValue(c.PRange[1]),
 			st.pValue(adjustedP(c, audit.AdjustHolm)), st.pValue(adjustedP(c, audit.AdjustBH)),
 			st.number(c.Statistic, st.stat), st.number(c.DF, st.general), st.number(overlapProportion(c), st.stat),
 			st.textCell(strings.Join(c.Notes, " | ")), excelize.Cell{StyleID: st.count, Value: c.Row})
 		if err := x.claims.add(row...); err != nil {
+			return fmt.Errorf("xlsx report, sheet %q: %w", "claims", err)
+		}
+		if err := x.claims.commentBad(bad); err != nil {
 			return fmt.Errorf("xlsx report, sheet %q: %w", "claims", err)
 		}
 		methods := strings.TrimSpace(methodsText(c))

@@ -32,6 +32,9 @@ type heldCoefficients struct {
 	rows  int
 	extra []string        // the unknown columns, in first-seen order
 	seen  map[string]bool // their names, lower case, and the sheet's own
+	// bad holds the cells of a row that could not be read, by the row's
+	// place among the held rows; only rows with such cells are in it.
+	bad map[int][]badCell
 }
 
 // heldSheetPosition is the number of cells before a record's pass-through
@@ -57,6 +60,15 @@ func (h *heldCoefficients) add(c *extract.Coefficient) error {
 		}
 		if i < len(c.Extra.Values) {
 			rec = append(rec, n, c.Extra.Values[i])
+		}
+	}
+	if bad := badCells(c.Problems, coefficientInputColumns); len(bad) > 0 {
+		if h.bad == nil {
+			h.bad = map[int][]badCell{}
+		}
+		h.bad[h.rows] = bad
+		for _, b := range bad {
+			rec[b.col] = b.text
 		}
 	}
 	h.rows++
@@ -87,7 +99,7 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 	}
 	r := csv.NewReader(&held.buf)
 	r.FieldsPerRecord = -1
-	for {
+	for k := 0; ; k++ {
 		rec, err := r.Read()
 		if err == io.EOF {
 			break
@@ -99,6 +111,7 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 		for _, cell := range rec[:heldSheetPosition] {
 			row = append(row, st.textCell(cell))
 		}
+		markBad(st, row, held.bad[k])
 		var pairNames, pairValues []string
 		for k := heldSheetPosition + 2; k+1 < len(rec); k += 2 {
 			pairNames, pairValues = append(pairNames, rec[k]), append(pairValues, rec[k+1])
@@ -108,6 +121,9 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 		row = append(row, st.textCell(rowProblems(probs, extract.Position{Sheet: rec[heldSheetPosition], Row: n})),
 			excelize.Cell{StyleID: st.count, Value: n})
 		if err := s.add(row...); err != nil {
+			return err
+		}
+		if err := s.commentBad(held.bad[k]); err != nil {
 			return err
 		}
 	}
@@ -123,9 +139,15 @@ func writeCorrelationsSheet(s *xlsxSheet, st *xlsxStyles, correlations []extract
 		return err
 	}
 	for _, c := range correlations {
-		if err := s.add(st.textCell(c.Study), st.textCell(c.Group), st.textCell(c.VarA), st.textCell(c.VarB),
+		row := []any{st.textCell(c.Study), st.textCell(c.Group), st.textCell(c.VarA), st.textCell(c.VarB),
 			st.textCell(c.R.Text), st.textCell(c.N.Text), st.textCell(c.SD.Text), st.textCell(c.Mean.Text),
-			st.textCell(rowProblems(probs, c.Position)), excelize.Cell{StyleID: st.count, Value: c.Row}); err != nil {
+			st.textCell(rowProblems(probs, c.Position)), excelize.Cell{StyleID: st.count, Value: c.Row}}
+		bad := badCells(c.Problems, names[:8])
+		markBad(st, row, bad)
+		if err := s.add(row...); err != nil {
+			return err
+		}
+		if err := s.commentBad(bad); err != nil {
 			return err
 		}
 	}

@@ -12,15 +12,21 @@ import (
 // xlsxStyles are the workbook's cell styles, made once before any row.
 type xlsxStyles struct {
 	title, label, header, resultHeader, text, wrap, note int
-	decimal, stat, general, p, pTiny, count, share       int
-	outcome                                              map[string]int
+	stat, general, p, pTiny, count, share                int
+	// bad marks an input cell that could not be read, shown as typed.
+	bad int
+	// estimate holds the styles of estimates written with MinDecimals to
+	// MaxDecimals decimals (the precision rule), from MinDecimals.
+	estimate [audit.MaxDecimals - audit.MinDecimals + 1]int
+	outcome  map[string]int
 }
 
 func newXLSXStyles(f *excelize.File) (*xlsxStyles, error) {
 	st := &xlsxStyles{outcome: map[string]int{}}
 	textFmt := 49 // "@": text, so that nothing typed later is read as a formula
-	pFmt, pTinyFmt := "0.0000", "0.0E+00"
-	decFmt := "0.0000"
+	// p as journals print it: ".043", and "< .001" below (audit's
+	// precision rule), while the cell keeps the full value.
+	pFmt, pTinyFmt := xlsxPFormat, xlsxPTinyFormat
 	statFmt := "0.00"
 	shareFmt := "0%"
 	thin := []excelize.Border{{Type: "bottom", Color: "1C2330", Style: 2}}
@@ -38,13 +44,22 @@ func newXLSXStyles(f *excelize.File) (*xlsxStyles, error) {
 		{&st.text, excelize.Style{NumFmt: textFmt, Alignment: top}},
 		{&st.wrap, excelize.Style{NumFmt: textFmt, Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}},
 		{&st.note, excelize.Style{NumFmt: textFmt, Font: &excelize.Font{Italic: true, Color: "5A6270"}}},
-		{&st.decimal, excelize.Style{CustomNumFmt: &decFmt, Alignment: top}},
+		{&st.bad, excelize.Style{NumFmt: textFmt, Alignment: top, Font: &excelize.Font{Bold: true, Color: "9C0006"},
+			Fill:   excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"FFC7CE"}},
+			Border: []excelize.Border{{Type: "left", Color: "9C0006", Style: 1}, {Type: "right", Color: "9C0006", Style: 1}, {Type: "top", Color: "9C0006", Style: 1}, {Type: "bottom", Color: "9C0006", Style: 1}}}},
 		{&st.stat, excelize.Style{CustomNumFmt: &statFmt, Alignment: top}},
 		{&st.general, excelize.Style{NumFmt: 0, Alignment: top}},
 		{&st.p, excelize.Style{CustomNumFmt: &pFmt, Alignment: top}},
 		{&st.pTiny, excelize.Style{CustomNumFmt: &pTinyFmt, Alignment: top}},
 		{&st.count, excelize.Style{NumFmt: 1, Alignment: top}},
 		{&st.share, excelize.Style{CustomNumFmt: &shareFmt, Alignment: top}},
+	}
+	for k := range st.estimate {
+		format := "0." + strings.Repeat("0", audit.MinDecimals+k)
+		defs = append(defs, struct {
+			id    *int
+			style excelize.Style
+		}{&st.estimate[k], excelize.Style{CustomNumFmt: &format, Alignment: top}})
 	}
 	for _, d := range defs {
 		id, err := f.NewStyle(&d.style)
@@ -82,13 +97,26 @@ func (st *xlsxStyles) number(n audit.Number, style int) any {
 	return excelize.Cell{StyleID: style, Value: float64(n)}
 }
 
-// pValue is a p cell: 4 decimals, or two significant digits in scientific
-// notation below 0.0001, where 4 decimals would show 0.0000.
+// xlsxPFormat shows a p cell as journals print p, ".043"; a p below .001
+// is shown as "< .001" by xlsxPTinyFormat. Two styles rather than one
+// conditional format, which not every reader of xlsx files honours.
+const (
+	xlsxPFormat     = "#.000"
+	xlsxPTinyFormat = `"< .001"`
+)
+
+// pValue is a p cell in the journals' style, holding the full value.
 func (st *xlsxStyles) pValue(p audit.Number) any {
-	if p.Known() && p > 0 && p < 1e-4 {
+	if p.Known() && p < 0.001 {
 		return st.number(p, st.pTiny)
 	}
 	return st.number(p, st.p)
+}
+
+// estimateNumber is a number of claim c (an estimate, a difference or an
+// interval's limit) shown to the claim's decimals.
+func (st *xlsxStyles) estimateNumber(c *audit.ClaimResult, x float64) any {
+	return st.number(audit.Number(x), st.estimate[c.EstimateDecimals()-audit.MinDecimals])
 }
 
 // outcomeCell is an outcome word on its fill.

@@ -209,7 +209,7 @@ func TestReadmeCommands(t *testing.T) {
 	if _, _, code := runCLI(t, "demo"); code == exitError {
 		t.Error("the README's demo command fails")
 	}
-	for _, cmd := range []string{"check", "demo", "template", "bootstrap", "pool", "compare"} {
+	for _, cmd := range []string{"check", "demo", "template", "bootstrap", "pool", "compare", "version"} {
 		out, _, code := runCLI(t, cmd, "--help")
 		if code != exitOK || !strings.Contains(out, "Examples:") {
 			t.Errorf("%s --help shows no examples", cmd)

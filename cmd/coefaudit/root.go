@@ -10,6 +10,7 @@ import (
 	"sync/atomic"
 	"syscall"
 
+	"coefaudit/cmd/coefaudit/internal/buildinfo"
 	"coefaudit/cmd/coefaudit/internal/output"
 	"coefaudit/report"
 
@@ -61,12 +62,14 @@ prints a completion script; "coefaudit completion bash --help" says how to
 load it.`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
+		Version:       buildinfo.Current(),
 	}
+	root.SetVersionTemplate("{{.Version}}\n")
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	// A flag cobra cannot parse is a usage error, like one a command rejects.
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return flagError{err} })
-	root.AddCommand(newCheckCmd(nil), newDemoCmd(nil), newTemplateCmd(nil), newCompareCmd(nil), newBootstrapCmd(nil), newPoolCmd(nil))
+	root.AddCommand(newCheckCmd(nil), newDemoCmd(nil), newTemplateCmd(nil), newCompareCmd(nil), newBootstrapCmd(nil), newPoolCmd(nil), newVersionCmd(nil))
 	return root
 }
 

@@ -91,8 +91,7 @@ func templateExampleWorkbook(t *testing.T) string {
 // printed, beside bare standardized coefficients of group "all", must be
 // used (issue 17: it matched nothing, and the note said no table was
 // printed). The whole CLI's report is compared with
-// testdata/template_example.stdout; on a mismatch the output is written to
-// template_example.got-stdout beside it.
+// testdata/template_example.stdout.golden; -update rewrites it.
 func TestTemplateExampleGolden(t *testing.T) {
 	path := templateExampleWorkbook(t)
 	stdout, stderr, code := runCLI(t, "check", path)
@@ -100,11 +99,15 @@ func TestTemplateExampleGolden(t *testing.T) {
 		t.Fatalf("check: %s", stderr)
 	}
 	stdout = strings.ReplaceAll(stdout, filepath.Dir(path), "TMP")
-	golden := filepath.Join("testdata", "template_example.stdout")
+	golden := filepath.Join("testdata", "template_example.stdout.golden")
+	if *update {
+		if err := os.WriteFile(golden, []byte(stdout), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
 	want, err := os.ReadFile(golden)
 	if err != nil || string(want) != stdout {
-		os.WriteFile(filepath.Join("testdata", "template_example.got-stdout"), []byte(stdout), 0o644)
-		t.Errorf("check of the template's example differs from %s (see template_example.got-stdout; %v):\n%s", golden, err, stdout)
+		t.Errorf("check of the template's example differs from %s (%v; go test -run Golden -update rewrites it):\n%s", golden, err, stdout)
 	}
 	if !strings.Contains(stdout, "z-delta-from-correlation-table") {
 		t.Errorf("the table of the template's example was not used:\n%s", stdout)
