@@ -32,6 +32,16 @@ func pooled(study string, row int, measure, scale string, est, se float64, outco
 		First: audit.Side{Label: "vaccinated"}, Second: audit.Side{Label: "unvaccinated"}}
 }
 
+// bounded builds a claim whose two estimates share a sample whose
+// covariance was not printed, as the audit leaves it: a difference and the
+// two SEs, but no SE of the difference.
+func bounded(study string, row int, measure, scale string, diff, se1, se2 float64, topic string) audit.ClaimResult {
+	c := pooled(study, row, measure, scale, math.NaN(), math.NaN(), audit.Indeterminate, topic)
+	c.Method, c.Scale, c.Difference = "admissible-range", scale, audit.Number(diff)
+	c.First.SE, c.Second.SE = audit.Number(se1), audit.Number(se2)
+	return c
+}
+
 // bcgClaims has one claim per trial whose difference is the log risk
 // ratio, ln(a/n1) − ln(c/n2), with variance 1/a − 1/n1 + 1/c − 1/n2 (the
 // usual large-sample variance of a log risk ratio).
@@ -207,7 +217,7 @@ func TestPoolLeftOut(t *testing.T) {
 	incomplete.Notes = []string{"No coefficient labelled \"x\" in study \"X\"."}
 	claims = append(claims,
 		incomplete,
-		pooled("Y", 21, extract.MeasureB, extract.ScaleAsPrinted, 62, 0.3, audit.Indeterminate, topic),
+		bounded("Y", 21, extract.MeasureB, extract.ScaleAsPrinted, 62, 0.3, 0.2, topic),
 		pooled("Z", 22, extract.MeasureB, extract.ScaleAsPrinted, 62, math.NaN(), audit.Unsupported, topic),
 		pooled("W", 23, extract.MeasureB, extract.ScaleAsPrinted, 62, 0, audit.Consistent, topic),
 		pooled("V", 24, extract.MeasureBeta, extract.ScaleAsPrinted, 0.3, 0.1, audit.Consistent, topic),
@@ -220,8 +230,8 @@ func TestPoolLeftOut(t *testing.T) {
 		text []string
 	}{
 		{20, []string{"incomplete", "No coefficient labelled"}},
-		{21, []string{"indeterminate"}},
-		{22, []string{"no standard error", "covariance"}},
+		{21, []string{"covariance of its two estimates was not printed", "--covariance"}},
+		{22, []string{"no standard error"}},
 		{23, []string{"standard error of 0"}},
 		{24, []string{"standardized coefficients (beta)", "regression coefficients (b)"}},
 		{25, []string{"correlations (r) on Fisher's z scale", "regression coefficients (b)"}},
@@ -398,8 +408,7 @@ func TestSlug(t *testing.T) {
 // source; they record this package's output.
 func ExamplePool() {
 	claims := bcgClaims("BCG vaccine")[:3]
-	claims = append(claims, audit.ClaimResult{Study: "trial X", Claim: "c", Row: 9, Topic: "BCG vaccine",
-		Measure: "rr", Outcome: audit.Indeterminate, PoolEstimate: audit.Number(math.NaN()), PoolSE: audit.Number(math.NaN())})
+	claims = append(claims, bounded("trial X", 9, extract.MeasureRR, extract.ScaleLog, -0.5, 0.2, 0.3, "BCG vaccine"))
 	rep, err := audit.Pool(&audit.Report{Claims: claims}, audit.PoolOptions{Method: audit.PoolDL})
 	if err != nil {
 		fmt.Println("error:", err)
@@ -409,11 +418,11 @@ func ExamplePool() {
 	fmt.Printf("%s: %d claims pooled on the %s scale, %s\n", tp.Topic, tp.K, tp.Scale, tp.Tau2Method)
 	fmt.Printf("random effects %.3f [%.3f, %.3f], ratio of ratios %.2f\n", tp.Random.Estimate, tp.Random.CI[0], tp.Random.CI[1],
 		math.Exp(float64(tp.Random.Estimate)))
-	fmt.Printf("left out row %d: %.30s...\n", tp.LeftOut[0].Row, tp.LeftOut[0].Reason)
+	fmt.Printf("left out row %d: %.39s...\n", tp.LeftOut[0].Row, tp.LeftOut[0].Reason)
 	// Output:
 	// BCG vaccine: 3 claims pooled on the log scale, DL
 	// random effects -1.330 [-1.932, -0.729], ratio of ratios 0.26
-	// left out row 9: its outcome is indeterminate: ...
+	// left out row 9: the covariance of its two estimates was...
 }
 
 // BenchmarkPool pools the 13 BCG trials of bcgCounts with REML, including the

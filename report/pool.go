@@ -89,6 +89,9 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			}
 			fmt.Fprintf(bw, "  Heterogeneity: %s\n", poolHeterogeneityText(t, pct))
 		}
+		if s := poolSensitivityText(t, pct); s != "" {
+			fmt.Fprintf(bw, "  %s\n", EscapeControls(s))
+		}
 		if len(t.LeaveOneOut) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  WITHOUT ROW\tSTUDY\tCLAIM\tESTIMATE\t%s CI\tTAU²\tI²\n", pct)
@@ -161,6 +164,9 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 				fmt.Fprintf(bw, "\n%s\n", s)
 			}
 			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", mdText(poolHeterogeneityText(t, pct)))
+		}
+		if s := poolSensitivityText(t, pct); s != "" {
+			fmt.Fprintf(bw, "\n### Sensitivity analysis\n\n%s\n", mdText(s))
 		}
 		if len(t.LeaveOneOut) > 0 {
 			fmt.Fprintf(bw, "\n### Leave one out\n\n| Without row | Study | Claim | Estimate | %s CI | τ² | I² |\n|---:|---|---|---:|---|---:|---:|\n", pct)
@@ -364,6 +370,26 @@ func poolHeterogeneityText(t audit.TopicPool, pct string) string {
 	}
 	return fmt.Sprintf("Q = %s on %d df, p %s; I² = %s (from τ²: %s); %s by %s, %s Q-profile CI %s.",
 		poolNum(h.Q), h.DF, poolPText(h.P), poolPercent(h.I2), poolPercent(h.I2Tau2), tau2, t.Tau2Method, pct, poolCI(h.Tau2CI))
+}
+
+// poolSensitivityText says what the sensitivity analysis of a topic
+// assumed and found, or "" when there is none.
+func poolSensitivityText(t audit.TopicPool, pct string) string {
+	s := t.Sensitivity
+	if s == nil {
+		return ""
+	}
+	var rows []string
+	for _, a := range s.Added {
+		rows = append(rows, fmt.Sprint(a.Row))
+	}
+	head := fmt.Sprintf("Sensitivity analysis, with %s: row(s) %s added, %d claims pooled", s.Assumption, strings.Join(rows, ", "), s.K)
+	if s.Random == nil {
+		return head + "; not pooled: " + s.Error + "."
+	}
+	return fmt.Sprintf("%s; random effects (%s) %s, %s CI %s (Wald), %s (HKSJ); fixed effect %s %s; τ² = %s, I² = %s.", head, s.Tau2Method,
+		poolNum(s.Random.Estimate), pct, poolCI(s.Random.CI), poolCI(s.HKSJ.CI), poolNum(s.Fixed.Estimate), poolCI(s.Fixed.CI),
+		poolNum(s.Tau2), poolPercent(s.I2))
 }
 
 func poolSummary(rep *audit.PoolReport) string {

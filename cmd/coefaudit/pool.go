@@ -23,8 +23,11 @@ type poolOptions struct {
 	method   string
 	level    float64
 	adjust   string
-	stdout   io.Writer
-	files    *output.Files
+	// covariance is how claims with an unknown covariance are pooled.
+	covariance audit.PoolCovariance
+	covText    string
+	stdout     io.Writer
+	files      *output.Files
 }
 
 func (o *poolOptions) validate() error {
@@ -45,6 +48,11 @@ func (o *poolOptions) validate() error {
 	if err := (&reportOptions{format: "table", adjust: o.adjust}).validate(); err != nil {
 		return err
 	}
+	cov, err := audit.ParsePoolCovariance(o.covText)
+	if err != nil {
+		return flagErrorf("--covariance %q: want omit, bound, or a correlation between -1 and 1, e.g. 0.5", o.covText)
+	}
+	o.covariance = cov
 	if o.plots != "" && o.plots != plotsNone {
 		if st, err := os.Stat(o.plots); err != nil || !st.IsDir() {
 			return flagErrorf("--plots %s: not an existing folder (or none)", o.plots)
@@ -85,11 +93,16 @@ Per topic the report gives the fixed-effect (inverse-variance) estimate,
 the random-effects estimate with τ² by REML (or DerSimonian-Laird with
 --method dl) and its Wald and Hartung-Knapp-Sidik-Jonkman intervals,
 Cochran's Q with I², τ² with its Q-profile interval, the prediction
-interval and the estimates with each claim left out. Claims whose outcome
-is incomplete or indeterminate, whose difference has no SE, or whose
-measure or scale differs from most of the topic's claims are listed as left
-out, with the reason. If REML does not converge, the topic is refitted with
-DerSimonian-Laird and the report says so.
+interval and the estimates with each claim left out. A claim is left out,
+with the reason, only when its difference or its SE is not known, or when
+its measure or scale differs from most of the topic's claims; a claim
+indeterminate for the rounding of its printed numbers is pooled. A claim
+whose two estimates share a sample whose covariance was not printed has an
+SE known only within bounds: it is left out of the main result, and
+--covariance 0.5 (any correlation from -1 to 1) or --covariance bound (the
+least favourable bound, correlation -1) pools it in a sensitivity analysis
+shown beside the main result. If REML does not converge, the topic is
+refitted with DerSimonian-Laird and the report says so.
 
 With --out FILE, a forest plot of each pooled topic is written beside the
 report as SVG and PNG: --out results/pool.md gives
@@ -121,6 +134,7 @@ All files are put in place together, once the report is complete.`,
 	cmd.Flags().IntVar(&o.maxPlots, "max-plots", report.DefaultMaxPlotTopics, "draw forest plots for at most this many pooled topics, the first in the report")
 	cmd.Flags().StringVar(&o.method, "method", o.method, "estimator of the between-study variance τ²: reml or dl")
 	cmd.Flags().Float64Var(&o.level, "level", o.level, "confidence level of every interval, in percent")
+	cmd.Flags().StringVar(&o.covText, "covariance", audit.CovarianceOmit, "claims whose two estimates share a sample with no printed covariance: omit, or pool them in a sensitivity analysis at a correlation (e.g. 0.5) or at the least favourable bound (bound)")
 	cmd.Flags().StringVar(&o.adjust, "adjust", audit.DefaultOptions.Adjust, "multiplicity adjustment deciding the claims' outcomes: none, holm or bh")
 	return cmd
 }
@@ -130,7 +144,7 @@ All files are put in place together, once the report is complete.`,
 // together, once all are complete.
 func runPool(o *poolOptions) error {
 	rep, err := report.PoolInput(o.input, report.Options{Audit: audit.Options{Adjust: o.adjust}},
-		audit.PoolOptions{Method: o.method, Level: o.level / 100})
+		audit.PoolOptions{Method: o.method, Level: o.level / 100, Covariance: o.covariance})
 	if err != nil {
 		return finish(o.files, err)
 	}

@@ -313,3 +313,64 @@ func readFile(t *testing.T, path string) string {
 	}
 	return string(b)
 }
+
+// TestIssue17PoolCovarianceFlag: a claim of two coefficients of one model
+// with no printed covariance is left out by default and pooled with
+// --covariance in a sensitivity analysis beside the main result; the main
+// result is the same either way.
+func TestIssue17PoolCovarianceFlag(t *testing.T) {
+	dir := t.TempDir()
+	coef := "study,label,measure,group,model,estimate,se\n" +
+		"A,x,b,g1,m,0.50,0.10\nA,y,b,g2,m,0.20,0.10\n" +
+		"B,x,b,g1,m,0.40,0.12\nB,y,b,g2,m,0.25,0.11\n" +
+		"C,x,b,g1,m,0.45,0.09\nC,y,b,g2,m,0.10,0.10\n" +
+		"D,x,b,all,m,0.60,0.10\nD,y,b,all,m,0.30,0.12\n"
+	claims := "study,claim,first,second,published,basis,topic\n" +
+		"A,c,x,y,first-larger,test,t\nB,c,x,y,first-larger,test,t\nC,c,x,y,first-larger,test,t\nD,c,x,y,first-larger,test,t\n"
+	for name, b := range map[string]string{"coefficients.csv": coef, "claims.csv": claims} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(b), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	type result struct {
+		Topics []struct {
+			K      int `json:"k"`
+			Random struct {
+				Estimate float64 `json:"estimate"`
+			} `json:"random"`
+			LeftOut []struct {
+				Row    int    `json:"row"`
+				Reason string `json:"reason"`
+			} `json:"left_out"`
+			Sensitivity *struct {
+				K     int `json:"k"`
+				Added []struct {
+					Row int     `json:"row"`
+					SE  float64 `json:"se"`
+				} `json:"added"`
+			} `json:"sensitivity"`
+		} `json:"topics"`
+	}
+	run := func(args ...string) result {
+		t.Helper()
+		out, err := executePool(t, append([]string{dir, "--format", "json", "--method", "dl"}, args...)...)
+		if err != nil {
+			t.Fatalf("pool %q: %v", args, err)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	def, cov := run(), run("--covariance", "bound")
+	d, c := def.Topics[0], cov.Topics[0]
+	if d.K != 3 || len(d.LeftOut) != 1 || d.LeftOut[0].Row != 5 || !strings.Contains(d.LeftOut[0].Reason, "--covariance") || d.Sensitivity != nil {
+		t.Fatalf("pool default: K %d, left out %+v, sensitivity %v; want 3, row 5 naming --covariance, none", d.K, d.LeftOut, d.Sensitivity)
+	}
+	if c.K != 3 || c.Random.Estimate != d.Random.Estimate || c.Sensitivity == nil || c.Sensitivity.K != 4 ||
+		len(c.Sensitivity.Added) != 1 || math.Abs(c.Sensitivity.Added[0].SE-0.22) > 1e-12 {
+		t.Errorf("pool --covariance bound: K %d, estimate %v, sensitivity %+v; want 3, %v, 4 claims adding row 5 with SE 0.10 + 0.12",
+			c.K, c.Random.Estimate, c.Sensitivity, d.Random.Estimate)
+	}
+}
