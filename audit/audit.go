@@ -232,6 +232,7 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	r.First = sideOf(c1.Label, rc1, e1)
 	r.Second = sideOf(c2.Label, rc2, e2)
 	r.Scale = rc1.Scale
+	r.EstimateDecimals = int(max(c1.Estimate.Decimals, c2.Estimate.Decimals))
 	for i, err := range []error{e1, e2} {
 		if err != nil {
 			r.Notes = append(r.Notes, []string{c1.Label, c2.Label}[i]+": "+err.Error()+

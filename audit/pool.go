@@ -82,6 +82,11 @@ type TopicPool struct {
 	// Tau2Method is the τ² estimator the random-effects results used
 	// ("REML" or "DL"); empty when nothing was pooled.
 	Tau2Method string `json:"tau2_method"`
+	// Decimals is how many decimals reports meant for people give the
+	// topic's differences and estimates: one more than the most its
+	// claims' estimates were printed with, from 2 to 4. JSON and CSV keep
+	// every digit.
+	Decimals int `json:"-"`
 	// Studies are the claims pooled, in input order.
 	Studies []PoolStudy `json:"studies"`
 	// PooledLines are the pooled estimates.
@@ -355,6 +360,7 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options, pc PoolCovar
 			WeightFixed: nan, WeightRandom: nan})
 	}
 	t.K = len(usable)
+	t.Decimals = poolDecimals(append(append([]ClaimResult(nil), usable...), boundedUsable...))
 	// The sensitivity analysis stands beside the main result however that
 	// ends: pooled, too few claims or failed.
 	defer func() {
@@ -387,14 +393,6 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options, pc PoolCovar
 	}
 	t.fill(fit, mo.Method, usable, studies)
 	return t
-}
-
-// poolOtherKeyReason says why a claim of another measure or scale than the
-// topic's majority is left out.
-func poolOtherKeyReason(k, major poolKey) string {
-	return fmt.Sprintf("it compares %s %s, but most usable claims of this topic compare %s %s; "+
-		"differences of different measures or on different scales cannot be pooled",
-		poolMeasureNoun(k.measure), poolScalePhrase(k.scale), poolMeasureNoun(major.measure), poolScalePhrase(major.scale))
 }
 
 // poolStudies are the claims as meta's studies.
@@ -432,7 +430,7 @@ func fitTopic(studies []meta.Study, mo meta.Options) (topicFit, error) {
 	if f.re, err = meta.FitRandomEffects(studies, mo.Method, mo); err != nil {
 		return f, err
 	}
-	f.notes = append(f.notes, f.re.Warnings...)
+	f.notes = append(f.notes, randomEffectsNotes(f.re)...)
 	if f.tau2CI, err = meta.Tau2QProfile(studies, mo.Level); err != nil {
 		return f, err
 	}
@@ -484,52 +482,4 @@ func (t *TopicPool) fill(f topicFit, method meta.Tau2Method, usable []ClaimResul
 func poolEstimateOf(p meta.Pooled) *PooledEstimate {
 	return &PooledEstimate{Estimate: Number(p.Estimate), SE: Number(p.SE), CI: [2]Number{Number(p.Low), Number(p.High)},
 		Statistic: Number(p.Stat), DF: Number(p.DF), P: Number(p.P)}
-}
-
-// poolUnusableReason says why a claim cannot be pooled whatever the topic's
-// other claims, or returns "".
-func poolUnusableReason(c ClaimResult) string {
-	incomplete := func(r string) string {
-		if c.Outcome != Incomplete {
-			return r
-		}
-		r = "its outcome is incomplete: " + r
-		if len(c.Notes) > 0 {
-			r += " (" + strings.TrimSuffix(c.Notes[0], ".") + ")"
-		}
-		return r
-	}
-	switch {
-	case !c.PoolEstimate.Known():
-		return incomplete("its difference could not be computed on a scale that can be pooled")
-	case !c.PoolSE.Known():
-		return incomplete("its difference has no standard error, so it cannot be weighted")
-	case c.PoolSE <= 0:
-		return "its difference has a standard error of 0, which would give it unlimited weight"
-	case c.PoolScale == "":
-		return "the scale of its difference is not known"
-	}
-	return ""
-}
-
-// poolIndependenceNotes warns about claims of one study pooled together: their
-// differences share a sample or a paper's data, so they are not the
-// independent estimates the model assumes and the pooled SE is too small.
-func poolIndependenceNotes(usable []ClaimResult) []string {
-	rows := map[string][]string{}
-	var order []string
-	for _, c := range usable {
-		if _, ok := rows[c.Study]; !ok {
-			order = append(order, c.Study)
-		}
-		rows[c.Study] = append(rows[c.Study], fmt.Sprint(c.Row))
-	}
-	var notes []string
-	for _, s := range order {
-		if len(rows[s]) > 1 {
-			notes = append(notes, fmt.Sprintf("Rows %s all come from study %s: the pooling treats their differences as independent, which they are not, so the pooled SE is too small.",
-				strings.Join(rows[s], ", "), s))
-		}
-	}
-	return notes
 }

@@ -115,3 +115,38 @@ func TestParsePoolCovariance(t *testing.T) {
 		t.Errorf("Pool(covariance guess) error = %v, want %v", err, audit.ErrPoolCovariance)
 	}
 }
+
+// TestIssue20PoolNotesNameReportedIntervals: three claims that agree more
+// closely than their SEs predict give an HKSJ scale q < 1; the note must
+// say so in terms of the Wald and HKSJ intervals the report gives, and
+// never mention the modified (max(1, q)) interval it does not report,
+// which meta's own warning names.
+func TestIssue20PoolNotesNameReportedIntervals(t *testing.T) {
+	claims := []audit.ClaimResult{
+		pooled("A", 2, extract.MeasureB, extract.ScaleAsPrinted, 0.30, 0.1, audit.Consistent, "t"),
+		pooled("B", 3, extract.MeasureB, extract.ScaleAsPrinted, 0.31, 0.1, audit.Consistent, "t"),
+		pooled("C", 4, extract.MeasureB, extract.ScaleAsPrinted, 0.29, 0.1, audit.Consistent, "t"),
+	}
+	tp := poolOne(t, claims, audit.DefaultPoolOptions)
+	notes := strings.Join(tp.Notes, " ")
+	if !strings.Contains(notes, "HKSJ interval is narrower than the Wald interval") {
+		t.Errorf("Pool(q < 1) notes %q, want one saying the HKSJ interval is the narrower", tp.Notes)
+	}
+	for _, bad := range []string{"max(1, q)", "modified"} {
+		if strings.Contains(notes, bad) {
+			t.Errorf("Pool(q < 1) notes %q mention %q, an interval the report does not give", tp.Notes, bad)
+		}
+	}
+}
+
+// TestIssue20PoolDecimals: a topic's numbers are shown to one decimal more
+// than its estimates were printed with, from 2 to 4 (the rule of issue 20).
+func TestIssue20PoolDecimals(t *testing.T) {
+	for _, tt := range []struct{ printed, want int }{{-1, 2}, {0, 2}, {1, 2}, {2, 3}, {3, 4}, {6, 4}} {
+		claims := kackerClaims("t", 2)
+		claims[3].EstimateDecimals = tt.printed
+		if got := poolOne(t, claims, audit.DefaultPoolOptions).Decimals; got != tt.want {
+			t.Errorf("Pool(estimates printed with %d decimals).Decimals = %d, want %d", tt.printed, got, tt.want)
+		}
+	}
+}

@@ -4,6 +4,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
+	"slices"
+	"strings"
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
@@ -31,10 +34,9 @@ type poolOptions struct {
 }
 
 func (o *poolOptions) validate() error {
-	switch o.format {
-	case "table", "json", "md":
-	default:
-		return flagErrorf("--format %q: want table, json or md", o.format)
+	o.format = strings.ToLower(o.format)
+	if !slices.Contains(report.PoolFormats(), o.format) {
+		return flagErrorf("--format %q: want one of %s", o.format, strings.Join(report.PoolFormats(), ", "))
 	}
 	switch o.method {
 	case audit.PoolREML, audit.PoolDL:
@@ -72,11 +74,23 @@ func (o *poolOptions) writer() func(io.Writer, report.PoolDocument) error {
 	switch o.format {
 	case "json":
 		return report.WritePoolJSON
+	case "csv":
+		return report.WritePoolCSV
 	case "md":
 		return report.WritePoolMarkdown
+	case "html":
+		return report.WritePoolHTML
+	case "xlsx":
+		return report.WritePoolXLSX
 	}
 	return report.WritePoolTable
 }
+
+// plotsBeside reports whether the format's report has its forest plots
+// written beside it unasked: the table and Markdown, which show or embed
+// them. The HTML page holds its plots inline; JSON, CSV and xlsx are for
+// programs, and get plot files only with --plots DIR.
+func (o *poolOptions) plotsBeside() bool { return o.format == "table" || o.format == "md" }
 
 func newPoolCmd(runF func(*poolOptions) error) *cobra.Command {
 	o := &poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level, maxPlots: report.DefaultMaxPlotTopics}
@@ -128,7 +142,7 @@ All files are put in place together, once the report is complete.`,
 			return runPool(o)
 		},
 	}
-	cmd.Flags().StringVarP(&o.format, "format", "f", "table", "output format: table, json or md")
+	cmd.Flags().StringVarP(&o.format, "format", "f", "table", "output format: "+strings.Join(report.PoolFormats(), ", "))
 	cmd.Flags().StringVarP(&o.out, "out", "o", "", "write the report to this file (and the forest plots beside it, if it is a regular file)")
 	cmd.Flags().StringVar(&o.plots, "plots", "", "write the forest plots into this existing folder, or none")
 	cmd.Flags().IntVar(&o.maxPlots, "max-plots", report.DefaultMaxPlotTopics, "draw forest plots for at most this many pooled topics, the first in the report")
@@ -155,7 +169,10 @@ func runPool(o *poolOptions) error {
 		return finish(o.files, flagError{err})
 	}
 	po := report.PoolPlotOptions{Dir: o.plots, MaxTopics: o.maxPlots}
-	if t.Regular() {
+	if o.plots == plotsNone {
+		po.Dir = ""
+	}
+	if t.Regular() && (o.plotsBeside() || po.Dir != "") {
 		po.Out = o.out
 	}
 	var files []report.PoolPlotFile
@@ -163,17 +180,32 @@ func runPool(o *poolOptions) error {
 	if o.plots != plotsNone {
 		files, leftOut = report.PoolPlotFiles(rep, po)
 	}
+	doc := report.PoolDocument{PoolReport: rep, Figures: map[int][]string{}}
 	for _, f := range files {
 		if err := writePlot(o, rep, f); err != nil {
 			return finish(o.files, err)
 		}
 		rep.Plots = append(rep.Plots, f.Path)
+		if f.Format == report.PlotSVG {
+			doc.Figures[f.Topic] = append(doc.Figures[f.Topic], o.figurePath(po, f.Path))
+		}
 	}
-	doc := report.PoolDocument{PoolReport: rep, PlotsNote: o.plotsNote(po, leftOut)}
+	doc.PlotsNote = o.plotsNote(po, leftOut)
 	if err := o.writer()(t, doc); err != nil {
 		return finish(o.files, fmt.Errorf("writing the report: %w", err))
 	}
 	return finish(o.files, t.Close())
+}
+
+// figurePath is a plot's path as the Markdown report links it: relative to
+// the report's folder when the report is a file, as written otherwise.
+func (o *poolOptions) figurePath(po report.PoolPlotOptions, path string) string {
+	if po.Out != "" || (o.out != "" && o.out != "-") {
+		if rel, err := filepath.Rel(filepath.Dir(o.out), path); err == nil {
+			return filepath.ToSlash(rel)
+		}
+	}
+	return filepath.ToSlash(path)
 }
 
 // plotsNote says which forest plots were not written and why, or nothing
@@ -182,6 +214,11 @@ func (o *poolOptions) plotsNote(po report.PoolPlotOptions, leftOut int) string {
 	switch {
 	case o.plots == plotsNone:
 		return "No forest plots were drawn (--plots none)."
+	case o.plots == "" && !o.plotsBeside():
+		if o.format == "html" {
+			return ""
+		}
+		return fmt.Sprintf("No forest plots were written: a %s report gets them only when asked, with --plots DIR.", o.format)
 	case o.out != "" && po.Out == "" && po.Dir == "":
 		where := "standard output"
 		if o.out != "-" {
@@ -203,7 +240,7 @@ func writePlot(o *poolOptions, rep *audit.PoolReport, f report.PoolPlotFile) err
 	if err != nil {
 		return flagError{err}
 	}
-	if err := report.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f.Format); err != nil {
+	if err := report.WritePoolPlot(t, rep.Topics[f.Topic], rep.Level, f); err != nil {
 		return fmt.Errorf("writing %s: %w", f.Path, err)
 	}
 	return t.Close()

@@ -104,6 +104,7 @@ func TestPoolCommandJSON(t *testing.T) {
 		Method             string   `json:"method"`
 		ClaimsWithoutTopic int      `json:"claims_without_topic"`
 		Plots              []string `json:"plots"`
+		PlotsNote          string   `json:"plots_note"`
 		Topics             []struct {
 			Topic  string `json:"topic"`
 			Slug   string `json:"slug"`
@@ -147,18 +148,24 @@ func TestPoolCommandJSON(t *testing.T) {
 			t.Errorf("pool JSON %s = %.12g, want %.12g", c.name, c.got, c.want)
 		}
 	}
-	wantPlots := []string{filepath.Join(outDir, "pool-interlab-comparison.svg"), filepath.Join(outDir, "pool-interlab-comparison.png")}
-	if strings.Join(doc.Plots, " ") != strings.Join(wantPlots, " ") {
-		t.Errorf("pool JSON plots = %q, want %q", doc.Plots, wantPlots)
+	// Issue 20: a JSON report gets no plot files unless asked for them
+	// with --plots; it says so.
+	if len(doc.Plots) != 0 || !strings.Contains(doc.PlotsNote, "--plots DIR") {
+		t.Errorf("pool JSON plots = %q, note %q; want none, and a note naming --plots DIR", doc.Plots, doc.PlotsNote)
+	}
+	if names := dirNames(t, outDir); len(names) != 1 {
+		t.Errorf("output folder holds %q, want the report only", names)
+	}
+	plots := t.TempDir()
+	if _, err := executePool(t, in, "--format", "json", "--out", filepath.Join(outDir, "asked.json"), "--plots", plots); err != nil {
+		t.Fatal(err)
 	}
 	for i, magic := range []string{"<?xml", "\x89PNG"} {
-		b, err := os.ReadFile(wantPlots[i])
+		p := filepath.Join(plots, "asked-interlab-comparison."+[]string{"svg", "png"}[i])
+		b, err := os.ReadFile(p)
 		if err != nil || !bytes.HasPrefix(b, []byte(magic)) {
-			t.Errorf("plot %s: err %v, want a file starting %q", wantPlots[i], err, magic)
+			t.Errorf("plot %s: err %v, want a file starting %q", p, err, magic)
 		}
-	}
-	if names := dirNames(t, outDir); len(names) != 3 {
-		t.Errorf("output folder holds %q, want the report and two plots only", names)
 	}
 	checkUnchanged(t, in, files)
 }
@@ -201,7 +208,7 @@ func TestPoolCommandFlagErrors(t *testing.T) {
 		name string
 		args []string
 	}{
-		{"format", []string{in, "--format", "csv"}},
+		{"format", []string{in, "--format", "pdf"}},
 		{"method", []string{in, "--method", "pm"}},
 		{"level zero", []string{in, "--level", "0"}},
 		{"level 100", []string{in, "--level", "100"}},
@@ -272,7 +279,10 @@ func TestPoolPlotsWhere(t *testing.T) {
 		}, 1 + 2*2, 0, "Forest plots were drawn for the first 2 pooled topics; 1 more was left out"},
 		{"beside a file", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
 			return []string{three, "--format", "md", "--out", filepath.Join(dir, "pool.md")}, nil
-		}, 1 + 3*2, 0, ""},
+		}, 1 + 3*2, 0, "](pool-topic-2.svg)"},
+		{"json beside a file", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			return []string{three, "--format", "json", "--out", filepath.Join(dir, "pool.md")}, nil
+		}, 1, 0, "No forest plots were written: a json report gets them only when asked"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -298,7 +308,7 @@ func TestPoolPlotsWhere(t *testing.T) {
 			if tt.note != "" && !strings.Contains(doc, tt.note) {
 				t.Errorf("pool %q: the report lacks %q:\n%s", args, tt.note, doc)
 			}
-			if tt.note == "" && strings.Contains(doc, "No forest plots") {
+			if (tt.note == "" || strings.HasPrefix(tt.note, "](")) && strings.Contains(doc, "No forest plots") {
 				t.Errorf("pool %q: the report says plots are missing:\n%s", args, doc)
 			}
 		})

@@ -154,8 +154,9 @@ func TestWritePNG(t *testing.T) {
 			if img.Bounds() != want {
 				t.Errorf("WritePNG(%s) image bounds = %v, want %v", tt.name, img.Bounds(), want)
 			}
-			if got := img.Bounds().Dx(); got != 960 {
-				t.Errorf("WritePNG(%s) width = %d px, want 960 (10 in at 96 dpi)", tt.name, got)
+			// Issue 20: print resolution, 300 dpi at the stated 7.5 in.
+			if got := img.Bounds().Dx(); got != 2250 {
+				t.Errorf("WritePNG(%s) width = %d px, want 2250 (7.5 in at 300 dpi)", tt.name, got)
 			}
 		})
 	}
