@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	_ "embed"
+	"encoding/base64"
 	"fmt"
 	"html/template"
 	"io"
@@ -11,13 +12,24 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/report/forestplot"
+
+	"codeberg.org/go-fonts/liberation/liberationsansbold"
+	"codeberg.org/go-fonts/liberation/liberationsansregular"
 )
 
 //go:embed pool.tmpl
 var poolHTMLTemplate string
 
 //go:embed pool.css
-var poolHTMLCSS string
+var poolHTMLStyles string
+
+// poolHTMLCSS is the page's style sheet with the two fonts the forest
+// plots are set in, Liberation Sans regular and bold (SIL Open Font
+// License), as data: a browser without them would set the plots' text in
+// another font, whose other widths make labels and figures overlap.
+var poolHTMLCSS = poolHTMLStyles +
+	"@font-face{font-family:\"Liberation Sans\";font-weight:normal;src:url(data:font/ttf;base64," + base64.StdEncoding.EncodeToString(liberationsansregular.TTF) + ")}\n" +
+	"@font-face{font-family:\"Liberation Sans\";font-weight:bold;src:url(data:font/ttf;base64," + base64.StdEncoding.EncodeToString(liberationsansbold.TTF) + ")}\n"
 
 var poolHTML = template.Must(template.New("pool").Funcs(template.FuncMap{
 	// numeric says which columns of the claims table hold numbers.
@@ -55,8 +67,8 @@ type poolHTMLLine struct{ Name, Estimate, SE, CI, Test, P string }
 // leave-one-out estimates, the claims left out and the notes; then the
 // cautions. Forest plots are drawn for the first DefaultMaxPlotTopics
 // pooled topics. The page loads nothing: its Content-Security-Policy
-// allows no script and no request, only its own style sheet and the
-// plots' style attributes. Everything taken from the input is escaped
+// allows no script and no request, only its own style sheet (with the
+// plots' fonts) and the plots' style attributes. Everything taken from the input is escaped
 // (html/template; the plots' text by the SVG writer). Numbers follow the
 // rule of poolFormat.
 func WritePoolHTML(w io.Writer, doc PoolDocument) error {
@@ -64,7 +76,7 @@ func WritePoolHTML(w io.Writer, doc PoolDocument) error {
 	pct := poolLevelText(rep.Level)
 	page := poolHTMLPage{Source: rep.Source, Summary: poolSummary(rep), Orientation: rep.Orientation, Pct: pct,
 		PlotsNote: doc.PlotsNote, CSS: template.CSS(poolHTMLCSS), Cautions: rep.Cautions, Plots: rep.Plots,
-		CSP: "default-src 'none'; style-src-elem " + cspHash(poolHTMLCSS) + "; style-src-attr 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'"}
+		CSP: "default-src 'none'; style-src-elem '" + cspHash(poolHTMLCSS) + "'; style-src-attr 'unsafe-inline'; font-src data:; img-src data:; base-uri 'none'; form-action 'none'"}
 	drawn := 0
 	for _, t := range rep.Topics {
 		ht, err := poolHTMLTopicOf(t, rep.Level, pct, drawn < DefaultMaxPlotTopics)

@@ -17,7 +17,8 @@ import (
 // its interval and the summary in sentences, then "claims",
 // "leave-one-out", "left out", "notes" and "cautions". Numbers are numeric
 // cells shown with the decimals of the rule of poolFormat (the cell keeps
-// every digit); texts are text cells, never evaluated.
+// every digit), τ² to 4 decimals, p as journals print it (a text); texts
+// are text cells, never evaluated.
 func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 	f := excelize.NewFile()
 	defer func() {
@@ -30,12 +31,16 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 		return fmt.Errorf("xlsx pooling report: %w", err)
 	}
 	dec := map[int]int{}
-	for d := 2; d <= 4; d++ {
+	for d := 2; d <= 5; d++ { // 5 is for τ², weights' percentages are below
 		format := "0." + strings.Repeat("0", d)
+		if d == 5 {
+			format = "0.0%"
+		}
 		if dec[d], err = f.NewStyle(&excelize.Style{CustomNumFmt: &format, Alignment: &excelize.Alignment{Vertical: "top"}}); err != nil {
 			return fmt.Errorf("xlsx pooling report: %w", err)
 		}
 	}
+	tau, share := dec[4], dec[5]
 	pct := poolLevelText(doc.Level)
 	sheets := []struct {
 		name   string
@@ -51,8 +56,8 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 			func(add func(...any) error) error {
 				for _, t := range doc.Topics {
 					if h := t.Heterogeneity; h != nil {
-						if err := add(st.textCell(t.Topic), st.number(h.Q, st.stat), h.DF, st.pValue(h.P), st.number(h.I2, st.share),
-							st.number(h.Tau2, st.general), st.number(h.Tau2CI[0], st.general), st.number(h.Tau2CI[1], st.general),
+						if err := add(st.textCell(t.Topic), st.number(h.Q, st.stat), h.DF, poolXLSXP(st, h.P), st.number(h.I2, st.share),
+							st.number(h.Tau2, tau), st.number(h.Tau2CI[0], tau), st.number(h.Tau2CI[1], tau),
 							st.textCell(t.Tau2Method), st.textCell(strings.Join(poolHeterogeneitySentences(t, pct), " "))); err != nil {
 							return err
 						}
@@ -68,7 +73,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 					for _, s := range t.Studies {
 						if err := add(st.textCell(t.Topic), s.Row, st.textCell(s.Study), st.textCell(s.Claim), st.textCell(s.First), st.textCell(s.Second),
 							st.number(s.Estimate, d), st.number(s.SE, d), st.number(s.CI[0], d), st.number(s.CI[1], d),
-							st.number(s.WeightFixed, st.share), st.number(s.WeightRandom, st.share), st.outcomeCell(s.Outcome)); err != nil {
+							st.number(s.WeightFixed, share), st.number(s.WeightRandom, share), st.outcomeCell(s.Outcome)); err != nil {
 							return err
 						}
 					}
@@ -82,7 +87,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 					d := dec[max(2, min(4, t.Decimals))]
 					for _, l := range t.LeaveOneOut {
 						if err := add(st.textCell(t.Topic), l.Row, st.textCell(l.Study), st.textCell(l.Claim), st.number(l.Estimate, d),
-							st.number(l.CI[0], d), st.number(l.CI[1], d), st.number(l.Tau2, st.general), st.number(l.Q, st.stat), st.number(l.I2, st.share)); err != nil {
+							st.number(l.CI[0], d), st.number(l.CI[1], d), st.number(l.Tau2, tau), st.number(l.Q, st.stat), st.number(l.I2, st.share)); err != nil {
 							return err
 						}
 					}
@@ -171,6 +176,16 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 	return err
 }
 
+// poolXLSXP is a p cell as journals print it, ".043" or "< .001", a text
+// (the JSON and CSV keep the number).
+func poolXLSXP(st *xlsxStyles, p audit.Number) any {
+	if !p.Known() {
+		return nil
+	}
+	s := strings.TrimPrefix(journalP(p), "p = ")
+	return st.textCell(strings.TrimPrefix(s, "p "))
+}
+
 // poolXLSXPooled writes the rows of the pooled sheet.
 func poolXLSXPooled(doc PoolDocument, st *xlsxStyles, dec map[int]int, add func(...any) error) error {
 	for _, t := range doc.Topics {
@@ -180,7 +195,7 @@ func poolXLSXPooled(doc PoolDocument, st *xlsxStyles, dec map[int]int, add func(
 				return nil
 			}
 			return add(st.textCell(t.Topic), st.textCell(what), k, st.number(p.Estimate, d), st.number(p.SE, d), st.number(p.CI[0], d),
-				st.number(p.CI[1], d), st.number(p.Statistic, st.stat), st.number(p.DF, st.general), st.pValue(p.P))
+				st.number(p.CI[1], d), st.number(p.Statistic, st.stat), st.number(p.DF, st.general), poolXLSXP(st, p.P))
 		}
 		for _, l := range poolLines(t) {
 			if err := line(l.name, t.K, l.p); err != nil {

@@ -44,7 +44,7 @@ const (
 	pooledHeight vg.Length = 21
 	axisHeight   vg.Length = 34 // ticks, tick labels and the axis label
 	noteLine     vg.Length = 11.5
-	minPlotWidth vg.Length = 220
+	minPlotWidth vg.Length = 150
 	plotInset    vg.Length = 8 // keeps markers at the range ends inside the area
 	maxNoteLines           = 14
 	// beyondAxis is the magnitude past which a finite value is treated like
