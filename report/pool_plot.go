@@ -19,8 +19,9 @@ const (
 )
 
 // MaxPlotRows is the most claims one forest plot shows. A page of 60 rows
-// is about 17 inches tall at the plot's 7.5-inch width; more would not
-// print, nor be read on a screen (common practice, no source).
+// with its notes is about 20 inches tall at the plot's 7.5-inch width;
+// more would not print, nor be read on a screen (common practice, no
+// source).
 const MaxPlotRows = 60
 
 // MaxPlotPages is the most pages a topic's forest plot runs to. A topic
