@@ -118,17 +118,31 @@ least favourable bound, correlation -1) pools it in a sensitivity analysis
 shown beside the main result. If REML does not converge, the topic is
 refitted with DerSimonian-Laird and the report says so.
 
-With --out FILE, a forest plot of each pooled topic is written beside the
-report as SVG and PNG: --out results/pool.md gives
-results/pool-<topic>.svg and results/pool-<topic>.png. --plots DIR writes
-them into DIR instead; without --out, or when --out is not a regular file
-(-, a device, a FIFO), they are written only there. --plots none writes
-none. At most the first --max-plots pooled topics are drawn (200 by
-default); the report lists the files written and says which were not.
-All files are put in place together, once the report is complete.`,
+--format picks table (the default), json, csv, md, html or xlsx. Numbers
+meant for people (table, md, html, xlsx, plots) give differences and
+intervals to one decimal more than the estimates were printed with (2 to
+4), statistics to 2 decimals and p as journals print it (p = .043,
+p < .001); json and csv keep every digit. The heterogeneity is said in
+sentences, with the HKSJ interval beside the Wald one.
+
+A forest plot shows up to 60 claims; a topic of up to 600 claims is drawn
+in pages of 60, a larger one as one summary page of the 60 claims with the
+largest weights. Plots are 7.5 inches wide, SVG and PNG at 300 dpi. The
+html page holds its plots inline as SVG. With --format table or md and
+--out FILE, the plots are written beside the report (the Markdown embeds
+them by relative path): --out results/pool.md gives
+results/pool-<topic>.svg and .png (pool-<topic>-p1.svg, ... for pages).
+--plots DIR writes them into DIR instead, for any format; json, csv, xlsx
+and html get plot files only then. Without --out, or when --out is not a
+regular file (-, a device, a FIFO), they are written only into --plots
+DIR. --plots none writes none. At most the first --max-plots pooled topics
+are drawn (200 by default); the report lists the files written and says
+which were not. All files are put in place together, once the report is complete.`,
 		Example: `  coefaudit pool review.xlsx
   coefaudit pool review.xlsx --format md --out results/pool.md
   coefaudit pool extracted/ --method dl --level 90 --plots figures/
+  coefaudit pool review.xlsx --format html --out pool.html
+  coefaudit pool review.xlsx --covariance 0.5
   coefaudit pool review.xlsx --format json > pool.json`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
