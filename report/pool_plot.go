@@ -185,7 +185,9 @@ func WritePoolPlot(w io.Writer, t audit.TopicPool, level float64, f PoolPlotFile
 // bars, and the fixed effect and heterogeneity in the notes.
 func PoolPlot(t audit.TopicPool, level float64, page PlotPage) forestplot.Plot {
 	f := poolFormat(t.Decimals)
-	p := forestplot.Plot{Topic: t.Topic, Scale: poolAxisLabel(t.Scale), Level: level, Decimals: t.Decimals}
+	// Weights are proportions of all the topic's claims: a page shows its
+	// claims' share of the whole.
+	p := forestplot.Plot{Topic: t.Topic, Scale: poolAxisLabel(t.Scale), Level: level, Decimals: t.Decimals, WeightTotal: 1}
 	switch {
 	case page.Summary:
 		p.Topic += fmt.Sprintf(" (the %d of %d claims with the largest weights)", len(page.Studies), len(t.Studies))

@@ -122,7 +122,7 @@ func newLayout(p Plot) *layout {
 		l.axisLabel = "difference"
 	}
 	var notes []string
-	l.rows, notes = studyRows(p.Rows)
+	l.rows, notes = studyRows(p.Rows, p.WeightTotal)
 	if p.Pooled != nil {
 		rows, pn := pooledRows(*p.Pooled)
 		l.rows = append(l.rows, rows...)
@@ -164,7 +164,7 @@ func newLayout(p Plot) *layout {
 
 // studyRows turns the input rows into drawable rows and notes on what
 // could not be drawn.
-func studyRows(in []Row) ([]rowLayout, []string) {
+func studyRows(in []Row, total float64) ([]rowLayout, []string) {
 	var notes []string
 	var wmax, wsum float64
 	for _, r := range in {
@@ -172,6 +172,9 @@ func studyRows(in []Row) ([]rowLayout, []string) {
 			wmax = math.Max(wmax, r.Weight)
 			wsum += r.Weight
 		}
+	}
+	if total > 0 && !math.IsInf(total, 1) {
+		wsum = total
 	}
 	out := make([]rowLayout, len(in))
 	for i, r := range in {
@@ -189,7 +192,13 @@ func studyRows(in []Row) ([]rowLayout, []string) {
 		case r.Weight > 0 && !math.IsInf(r.Weight, 1):
 			// Area proportional to weight: side ∝ √weight.
 			rl.side = 4 + 8*vg.Length(math.Sqrt(r.Weight/wmax))
-			rl.weightText = fmt.Sprintf("%.1f%%", 100*r.Weight/wsum)
+			// Below 1% two decimals, so that a claim among thousands does not
+			// read 0.0%.
+			pct := 100 * r.Weight / wsum
+			rl.weightText = fmt.Sprintf("%.1f%%", pct)
+			if pct < 1 {
+				rl.weightText = fmt.Sprintf("%.2f%%", pct)
+			}
 		default:
 			rl.side = 4
 		}

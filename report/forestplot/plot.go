@@ -69,6 +69,10 @@ type Plot struct {
 	// Notes are extra footnote lines (e.g. τ² and I²), printed after the
 	// plot's own notes.
 	Notes []string
+	// WeightTotal is the total the weights are shown as percentages of; 0
+	// means the sum of Rows' weights. A page of a larger plot gives the
+	// total of all its rows.
+	WeightTotal float64
 	// Decimals is how many decimals the figures column shows; 0 chooses
 	// them from the axis span.
 	Decimals int
