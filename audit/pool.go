@@ -29,6 +29,10 @@ type PoolOptions struct {
 	Level float64
 	// REML controls the REML iteration; zero fields take meta's defaults.
 	REML meta.REMLOptions
+	// Covariance says what to do with the claims whose SE of the
+	// difference is only bounded (an unknown covariance); the zero value
+	// leaves them out.
+	Covariance PoolCovariance
 }
 
 // DefaultPoolOptions are the settings used when none are given.
@@ -78,14 +82,15 @@ type TopicPool struct {
 	// Tau2Method is the τ² estimator the random-effects results used
 	// ("REML" or "DL"); empty when nothing was pooled.
 	Tau2Method string `json:"tau2_method"`
+	// Decimals is how many decimals reports meant for people give the
+	// topic's differences and estimates: one more than the most its
+	// claims' estimates were printed with, from 2 to 4. JSON and CSV keep
+	// every digit.
+	Decimals int `json:"-"`
 	// Studies are the claims pooled, in input order.
 	Studies []PoolStudy `json:"studies"`
-	// Fixed is the inverse-variance estimate, Random the random-effects
-	// estimate with its Wald interval, HKSJ the same estimate with the
-	// Hartung–Knapp–Sidik–Jonkman t interval.
-	Fixed  *PooledEstimate `json:"fixed"`
-	Random *PooledEstimate `json:"random"`
-	HKSJ   *PooledEstimate `json:"hksj"`
+	// PooledLines are the pooled estimates.
+	PooledLines
 	// Heterogeneity holds Q, I², H² and τ² with its Q-profile interval.
 	Heterogeneity *PoolHeterogeneity `json:"heterogeneity"`
 	// Prediction is the interval for the true difference in a new study.
@@ -94,6 +99,10 @@ type TopicPool struct {
 	LeaveOneOut []PoolLeaveOneOut `json:"leave_one_out"`
 	// LeftOut lists the topic's claims that were not pooled, and why.
 	LeftOut []PoolLeftOut `json:"left_out"`
+	// Sensitivity is the topic pooled again with the claims whose SE is
+	// only bounded, at PoolOptions.Covariance; nil when it was not asked
+	// for or the topic has no such claim.
+	Sensitivity *PoolSensitivity `json:"sensitivity,omitempty"`
 	// Notes are warnings and remarks on this topic in plain words.
 	Notes []string `json:"notes"`
 	// Error is why the pooling failed, when it did; empty otherwise.
@@ -115,6 +124,17 @@ type PoolStudy struct {
 	CI           [2]Number `json:"ci"`
 	WeightFixed  Number    `json:"weight_fixed"`
 	WeightRandom Number    `json:"weight_random"`
+}
+
+// PooledLines are the three pooled estimates of a set of claims: Fixed is
+// the inverse-variance estimate, Random the random-effects estimate with
+// its Wald interval, HKSJ the same estimate with the
+// Hartung–Knapp–Sidik–Jonkman t interval. All are nil when the claims
+// could not be pooled.
+type PooledLines struct {
+	Fixed  *PooledEstimate `json:"fixed"`
+	Random *PooledEstimate `json:"random"`
+	HKSJ   *PooledEstimate `json:"hksj"`
 }
 
 // PooledEstimate is a pooled difference with its SE and interval, the
@@ -181,10 +201,18 @@ type PoolLeftOut struct {
 // ratios), on Fisher's z scale for correlations (z1 − z2 with z = atanh r,
 // near normal with a variance that does not depend on ρ [1]), and in the
 // coefficients' own units otherwise. A claim is left out, with its reason,
-// when its outcome is incomplete or indeterminate, when its difference or
-// SE is unknown or its SE is 0, and when its measure or scale differs from
-// those of most of the topic's remaining claims (a tie goes to the first
-// in input order). Per topic it reports
+// only when its difference or SE is unknown or its SE is 0, and when its
+// measure or scale differs from those of most of the topic's remaining
+// claims (a tie goes to the first in input order). Its outcome does not
+// matter: a claim indeterminate for the rounding of its printed numbers
+// has a known difference and SE and is pooled, since leaving it out would
+// select studies by how close their p is to α. A claim whose two
+// estimates share a sample whose covariance was not printed has a known
+// difference but an SE known only to lie between |SE1 − SE2| and
+// SE1 + SE2: it is left out of the main result, and opts.Covariance can
+// pool it in a sensitivity analysis beside it (TopicPool.Sensitivity), at
+// a stated correlation ρ of the two estimates (SE² = SE1² + SE2² −
+// 2ρ SE1 SE2) or at the least favourable bound ρ = −1. Per topic it reports
 //
 //	fixed effect      μ̂ = Σ w_i y_i / Σ w_i,  w_i = 1/v_i               [2]
 //	Q = Σ w_i (y_i − μ̂)²,  I² = max(0, (Q − (K−1))/Q)                    [3]
@@ -200,7 +228,8 @@ type PoolLeftOut struct {
 // so; a topic that cannot be fitted at all has Error set. Claims from one
 // study are pooled as if independent, with a note, since they are not.
 //
-// It returns ErrPoolMethod for an unknown Method and an error wrapping
+// It returns ErrPoolMethod for an unknown Method, ErrPoolCovariance for a
+// covariance setting it does not know, and an error wrapping
 // infer.ErrProbability for a Level outside (0, 1).
 //
 // References
@@ -241,6 +270,9 @@ func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
 	if !(level > 0 && level < 1) {
 		return nil, fmt.Errorf("pooling: confidence level %v: %w", opts.Level, infer.ErrProbability)
 	}
+	if err := opts.Covariance.validate(); err != nil {
+		return nil, err
+	}
 	cautions := rep.Cautions
 	if len(cautions) == 0 {
 		cautions = Cautions
@@ -263,7 +295,7 @@ func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
 	slugs := map[string]bool{}
 	mo := meta.Options{Level: level, Method: method, REML: opts.REML}
 	for _, topic := range order {
-		t := poolTopic(topic, byTopic[topic], mo)
+		t := poolTopic(topic, byTopic[topic], mo, opts.Covariance)
 		t.Slug = poolUniqueSlug(Slug(topic), slugs)
 		out.Topics = append(out.Topics, t)
 	}
@@ -273,13 +305,18 @@ func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
 // poolKey is what the claims of a topic must share to be pooled.
 type poolKey struct{ measure, scale string }
 
-func poolTopic(topic string, claims []ClaimResult, mo meta.Options) TopicPool {
-	t := TopicPool{Topic: topic, Studies: []PoolStudy{}, LeaveOneOut: []PoolLeaveOneOut{},
+func poolTopic(topic string, claims []ClaimResult, mo meta.Options, pc PoolCovariance) (t TopicPool) {
+	t = TopicPool{Topic: topic, Studies: []PoolStudy{}, LeaveOneOut: []PoolLeaveOneOut{},
 		LeftOut: []PoolLeftOut{}, Notes: []string{}}
 	reasons := make([]string, len(claims))
 	count := map[poolKey]int{}
 	var keys []poolKey
+	bounded := make([]bool, len(claims))
 	for i, c := range claims {
+		if _, _, _, ok := boundedDifference(c); ok {
+			bounded[i] = true
+			continue
+		}
 		if reasons[i] = poolUnusableReason(c); reasons[i] != "" {
 			continue
 		}
@@ -298,12 +335,18 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options) TopicPool {
 	t.Measure, t.Scale = major.measure, major.scale
 	t.ScaleNote = poolScaleNote(major)
 	z, _ := infer.NormalCriticalValue(mo.Level)
-	var usable []ClaimResult
+	var usable, boundedUsable []ClaimResult
 	for i, c := range claims {
+		if bounded[i] {
+			if (poolKey{c.Measure, c.Scale}) != major {
+				reasons[i] = poolOtherKeyReason(poolKey{c.Measure, c.Scale}, major)
+			} else {
+				reasons[i] = boundedReason(pc)
+				boundedUsable = append(boundedUsable, c)
+			}
+		}
 		if reasons[i] == "" && (poolKey{c.Measure, c.PoolScale}) != major {
-			reasons[i] = fmt.Sprintf("it compares %s %s, but most usable claims of this topic compare %s %s; "+
-				"differences of different measures or on different scales cannot be pooled",
-				poolMeasureNoun(c.Measure), poolScalePhrase(c.PoolScale), poolMeasureNoun(major.measure), poolScalePhrase(major.scale))
+			reasons[i] = poolOtherKeyReason(poolKey{c.Measure, c.PoolScale}, major)
 		}
 		if reasons[i] != "" {
 			t.LeftOut = append(t.LeftOut, PoolLeftOut{Study: c.Study, Claim: c.Claim, Row: c.Row, Reason: reasons[i]})
@@ -317,15 +360,21 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options) TopicPool {
 			WeightFixed: nan, WeightRandom: nan})
 	}
 	t.K = len(usable)
+	t.Decimals = poolDecimals(append(append([]ClaimResult(nil), usable...), boundedUsable...))
+	// The sensitivity analysis stands beside the main result however that
+	// ends: pooled, too few claims or failed.
+	defer func() {
+		if pc.pools() && len(boundedUsable) > 0 {
+			t.Sensitivity = sensitivity(pc, poolStudies(usable), boundedUsable, z, mo)
+		}
+	}()
 	if t.K < 2 {
 		t.Notes = append(t.Notes, fmt.Sprintf("Only %d claim(s) of this topic can be pooled; pooling needs at least 2, so no pooled result is given.", t.K))
 		return t
 	}
 	t.Notes = append(t.Notes, poolIndependenceNotes(usable)...)
-	studies := make([]meta.Study, len(usable))
-	for i, c := range usable {
-		studies[i] = meta.StudyFromStandardError(fmt.Sprintf("%s, %s (row %d)", c.Study, c.Claim, c.Row),
-			float64(c.PoolEstimate), float64(c.PoolSE))
+	studies := poolStudies(usable)
+	for _, c := range usable {
 		if c.Outcome == Conflict {
 			t.Notes = append(t.Notes, fmt.Sprintf("Row %d (%s, %s): its printed numbers contradict each other; its difference is pooled as computed, so check it.", c.Row, c.Study, c.Claim))
 		}
@@ -344,6 +393,16 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options) TopicPool {
 	}
 	t.fill(fit, mo.Method, usable, studies)
 	return t
+}
+
+// poolStudies are the claims as meta's studies.
+func poolStudies(claims []ClaimResult) []meta.Study {
+	studies := make([]meta.Study, len(claims))
+	for i, c := range claims {
+		studies[i] = meta.StudyFromStandardError(fmt.Sprintf("%s, %s (row %d)", c.Study, c.Claim, c.Row),
+			float64(c.PoolEstimate), float64(c.PoolSE))
+	}
+	return studies
 }
 
 // topicFit is one topic's meta-analysis with a single τ² estimator.
@@ -371,7 +430,7 @@ func fitTopic(studies []meta.Study, mo meta.Options) (topicFit, error) {
 	if f.re, err = meta.FitRandomEffects(studies, mo.Method, mo); err != nil {
 		return f, err
 	}
-	f.notes = append(f.notes, f.re.Warnings...)
+	f.notes = append(f.notes, randomEffectsNotes(f.re)...)
 	if f.tau2CI, err = meta.Tau2QProfile(studies, mo.Level); err != nil {
 		return f, err
 	}
@@ -423,53 +482,4 @@ func (t *TopicPool) fill(f topicFit, method meta.Tau2Method, usable []ClaimResul
 func poolEstimateOf(p meta.Pooled) *PooledEstimate {
 	return &PooledEstimate{Estimate: Number(p.Estimate), SE: Number(p.SE), CI: [2]Number{Number(p.Low), Number(p.High)},
 		Statistic: Number(p.Stat), DF: Number(p.DF), P: Number(p.P)}
-}
-
-// poolUnusableReason says why a claim cannot be pooled whatever the topic's
-// other claims, or returns "".
-func poolUnusableReason(c ClaimResult) string {
-	switch c.Outcome {
-	case Incomplete:
-		r := "its outcome is incomplete: not enough was printed to compute and test its difference"
-		if len(c.Notes) > 0 {
-			r += " (" + strings.TrimSuffix(c.Notes[0], ".") + ")"
-		}
-		return r
-	case Indeterminate:
-		return "its outcome is indeterminate: the verdict flips within what was not reported " +
-			"(an unknown covariance or the rounding of the printed numbers), so its difference is not known well enough to pool"
-	}
-	switch {
-	case !c.PoolEstimate.Known():
-		return "its difference could not be computed on a scale that can be pooled"
-	case !c.PoolSE.Known():
-		return "its difference has no standard error (for example, the covariance of the two estimates was not reported), so it cannot be weighted"
-	case c.PoolSE <= 0:
-		return "its difference has a standard error of 0, which would give it unlimited weight"
-	case c.PoolScale == "":
-		return "the scale of its difference is not known"
-	}
-	return ""
-}
-
-// poolIndependenceNotes warns about claims of one study pooled together: their
-// differences share a sample or a paper's data, so they are not the
-// independent estimates the model assumes and the pooled SE is too small.
-func poolIndependenceNotes(usable []ClaimResult) []string {
-	rows := map[string][]string{}
-	var order []string
-	for _, c := range usable {
-		if _, ok := rows[c.Study]; !ok {
-			order = append(order, c.Study)
-		}
-		rows[c.Study] = append(rows[c.Study], fmt.Sprint(c.Row))
-	}
-	var notes []string
-	for _, s := range order {
-		if len(rows[s]) > 1 {
-			notes = append(notes, fmt.Sprintf("Rows %s all come from study %s: the pooling treats their differences as independent, which they are not, so the pooled SE is too small.",
-				strings.Join(rows[s], ", "), s))
-		}
-	}
-	return notes
 }

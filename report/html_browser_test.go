@@ -172,21 +172,7 @@ func TestWriteHTMLInChromium(t *testing.T) {
 		for _, m := range console {
 			t.Errorf("console: %s", m)
 		}
-		fi, err := os.Stat(shot)
-		if err != nil || fi.Size() < 10000 {
-			t.Fatalf("screenshot %s: %v (size %d), want a rendered page", shot, err, sizeOf(fi))
-		}
-		t.Logf("screenshot of the report: %s", shot)
-		// COEFAUDIT_SCREENSHOT_DIR keeps a copy for a person to look at.
-		if keep := os.Getenv("COEFAUDIT_SCREENSHOT_DIR"); keep != "" {
-			b, err := os.ReadFile(shot)
-			if err == nil {
-				err = os.WriteFile(filepath.Join(keep, "report.png"), b, 0o644)
-			}
-			if err != nil {
-				t.Errorf("keeping the screenshot in %s: %v", keep, err)
-			}
-		}
+		checkScreenshot(t, shot, "report.png")
 	})
 }
 

@@ -5,15 +5,11 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"math"
-	"path/filepath"
+	"net/url"
 	"strconv"
-	"strings"
 	"text/tabwriter"
 
 	"coefaudit/audit"
-	"coefaudit/extract"
-	"coefaudit/report/forestplot"
 )
 
 // PoolInput reads and audits the input at path (Collect) and pools the
@@ -35,6 +31,10 @@ type PoolDocument struct {
 	// on the topics drawn, a report with no folder beside it); empty when
 	// every plot asked for was written.
 	PlotsNote string `json:"plots_note,omitempty"`
+	// Figures are, by topic index, the forest-plot files (one per page)
+	// the Markdown report shows, as slash-separated paths relative to the
+	// report's folder.
+	Figures map[int][]string `json:"-"`
 }
 
 // WritePoolJSON writes the pooling report as JSON: the PoolReport fields
@@ -50,15 +50,18 @@ func WritePoolJSON(w io.Writer, doc PoolDocument) error {
 }
 
 // WritePoolTable writes the pooling report for the terminal: a block per
-// topic with its claims, the pooled lines, heterogeneity, leave-one-out
-// estimates, the claims left out and notes; then the plots written, the
-// note on those not written, and the cautions.
+// topic with its claims, the pooled lines (the HKSJ interval beside the
+// Wald one), the heterogeneity in sentences, the sensitivity analysis, the
+// leave-one-out estimates, the claims left out and notes; then the plots
+// written, the note on those not written, and the cautions. Numbers follow
+// the rule of poolFormat.
 func WritePoolTable(w io.Writer, doc PoolDocument) error {
 	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s\n%s\n", EscapeControls(poolSummary(rep)), rep.Orientation)
 	pct := poolLevelText(rep.Level)
 	for _, t := range rep.Topics {
+		f := poolFormat(t.Decimals)
 		fmt.Fprintf(bw, "\nTOPIC %s  (%d pooled, %d left out)\n  %s\n", EscapeControls(t.Topic), t.K, len(t.LeftOut), t.ScaleNote)
 		if len(t.Studies) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
@@ -66,7 +69,7 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			for _, s := range t.Studies {
 				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s − %s\t%s\t%s\t%s\t%s\t%s\n", s.Row, EscapeControls(s.Study), EscapeControls(s.Claim),
 					EscapeControls(s.First), EscapeControls(s.Second),
-					poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI), poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
+					f.num(s.Estimate), f.num(s.SE), f.ci(s.CI), percent(s.WeightFixed, 1), percent(s.WeightRandom, 1))
 			}
 			if err := tw.Flush(); err != nil {
 				return err
@@ -76,10 +79,10 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  POOLED\tESTIMATE\tSE\t%s CI\tTEST\tP\n", pct)
 			for _, l := range poolLines(t) {
-				fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\n", l.name, poolNum(l.p.Estimate), poolNum(l.p.SE), poolCI(l.p.CI), poolStat(l.p), pCell(l.p.P))
+				fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\n", l.name, f.num(l.p.Estimate), f.num(l.p.SE), f.ci(l.p.CI), poolTest(l.p), poolP(l.p.P))
 			}
 			if t.Prediction != nil {
-				fmt.Fprintf(tw, "  Prediction interval\t\t\t%s\tt df %s\t\n", poolCI(t.Prediction.CI), poolNum(t.Prediction.DF))
+				fmt.Fprintf(tw, "  Prediction interval\t\t\t%s\tt df %s\t\n", f.ci(t.Prediction.CI), strconv.FormatFloat(float64(t.Prediction.DF), 'f', -1, 64))
 			}
 			if err := tw.Flush(); err != nil {
 				return err
@@ -87,14 +90,20 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 			if s := poolRatioLine(t); s != "" {
 				fmt.Fprintf(bw, "  %s\n", s)
 			}
-			fmt.Fprintf(bw, "  Heterogeneity: %s\n", poolHeterogeneityText(t, pct))
+			fmt.Fprintln(bw, "  Heterogeneity")
+			for _, s := range poolHeterogeneitySentences(t, pct) {
+				fmt.Fprintf(bw, "    %s\n", s)
+			}
+		}
+		if s := poolSensitivityText(t, pct); s != "" {
+			fmt.Fprintf(bw, "  Sensitivity analysis\n    %s\n", EscapeControls(s))
 		}
 		if len(t.LeaveOneOut) > 0 {
 			tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 			fmt.Fprintf(tw, "  WITHOUT ROW\tSTUDY\tCLAIM\tESTIMATE\t%s CI\tTAU²\tI²\n", pct)
 			for _, l := range t.LeaveOneOut {
 				fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Row, EscapeControls(l.Study), EscapeControls(l.Claim),
-					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
+					f.num(l.Estimate), f.ci(l.CI), sig2(l.Tau2), percent(l.I2, 0))
 			}
 			if err := tw.Flush(); err != nil {
 				return err
@@ -130,43 +139,57 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 }
 
 // WritePoolMarkdown writes the pooling report as Markdown: a heading per
-// topic with a table of its claims, the pooled results, the heterogeneity,
-// the leave-one-out estimates, the claims left out and notes; then the
-// plots written, the note on those not written, and the cautions.
+// topic with a table of its claims, the pooled results (the HKSJ interval
+// beside the Wald one), its forest plot embedded by a path relative to the
+// report (PoolDocument.Figures), the heterogeneity in sentences, the
+// sensitivity analysis, the leave-one-out estimates, the claims left out
+// and notes; then the plots written, the note on those not written, and
+// the cautions. Numbers follow the rule of poolFormat.
 func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 	rep := doc.PoolReport
 	bw := bufio.NewWriter(w)
 	pct := poolLevelText(rep.Level)
 	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", mdText(poolSummary(rep)), mdText(rep.Orientation))
-	for _, t := range rep.Topics {
+	for i, t := range rep.Topics {
+		f := poolFormat(t.Decimals)
 		fmt.Fprintf(bw, "\n## %s\n\n%s\n", mdText(t.Topic), mdText(t.ScaleNote))
 		if len(t.Studies) > 0 {
 			fmt.Fprintf(bw, "\n| Row | Study | Claim | First − second | Difference | SE | %s CI | Weight (fixed) | Weight (random) |\n", pct)
 			fmt.Fprintln(bw, "|---:|---|---|---|---:|---:|---|---:|---:|")
 			for _, s := range t.Studies {
 				fmt.Fprintf(bw, "| %d | %s | %s | %s − %s | %s | %s | %s | %s | %s |\n", s.Row, mdText(s.Study), mdText(s.Claim),
-					mdText(s.First), mdText(s.Second), poolNum(s.Estimate), poolNum(s.SE), poolCI(s.CI),
-					poolPercent(s.WeightFixed), poolPercent(s.WeightRandom))
+					mdText(s.First), mdText(s.Second), f.num(s.Estimate), f.num(s.SE), f.ci(s.CI),
+					percent(s.WeightFixed, 1), percent(s.WeightRandom, 1))
 			}
 		}
 		if t.Random != nil {
-			fmt.Fprintf(bw, "\n### Pooled results\n\n| Model | Estimate | SE | %s CI | Test | p |\n|---|---:|---:|---|---|---:|\n", pct)
+			fmt.Fprintf(bw, "\n### Pooled results\n\n| Model | Estimate | SE | %s CI | Test | p |\n|---|---:|---:|---|---|---|\n", pct)
 			for _, l := range poolLines(t) {
-				fmt.Fprintf(bw, "| %s | %s | %s | %s | %s | %s |\n", l.name, poolNum(l.p.Estimate), poolNum(l.p.SE), poolCI(l.p.CI), poolStat(l.p), pCell(l.p.P))
+				fmt.Fprintf(bw, "| %s | %s | %s | %s | %s | %s |\n", l.name, f.num(l.p.Estimate), f.num(l.p.SE), f.ci(l.p.CI), poolTest(l.p), poolP(l.p.P))
 			}
 			if t.Prediction != nil {
-				fmt.Fprintf(bw, "| Prediction interval |  |  | %s | t df %s |  |\n", poolCI(t.Prediction.CI), poolNum(t.Prediction.DF))
+				fmt.Fprintf(bw, "| Prediction interval |  |  | %s | t df %s |  |\n", f.ci(t.Prediction.CI), strconv.FormatFloat(float64(t.Prediction.DF), 'f', -1, 64))
 			}
 			if s := poolRatioLine(t); s != "" {
 				fmt.Fprintf(bw, "\n%s\n", s)
 			}
-			fmt.Fprintf(bw, "\n### Heterogeneity\n\n%s\n", mdText(poolHeterogeneityText(t, pct)))
+			for _, fig := range doc.Figures[i] {
+				fmt.Fprintf(bw, "\n![Forest plot of %s](%s)\n", mdText(t.Topic), mdLinkPath(fig))
+			}
+			fmt.Fprintln(bw, "\n### Heterogeneity")
+			fmt.Fprintln(bw)
+			for _, s := range poolHeterogeneitySentences(t, pct) {
+				fmt.Fprintf(bw, "%s\n", mdText(s))
+			}
+		}
+		if s := poolSensitivityText(t, pct); s != "" {
+			fmt.Fprintf(bw, "\n### Sensitivity analysis\n\n%s\n", mdText(s))
 		}
 		if len(t.LeaveOneOut) > 0 {
 			fmt.Fprintf(bw, "\n### Leave one out\n\n| Without row | Study | Claim | Estimate | %s CI | τ² | I² |\n|---:|---|---|---:|---|---:|---:|\n", pct)
 			for _, l := range t.LeaveOneOut {
 				fmt.Fprintf(bw, "| %d | %s | %s | %s | %s | %s | %s |\n", l.Row, mdText(l.Study), mdText(l.Claim),
-					poolNum(l.Estimate), poolCI(l.CI), poolNum(l.Tau2), poolPercent(l.I2))
+					f.num(l.Estimate), f.ci(l.CI), sig2(l.Tau2), percent(l.I2, 0))
 			}
 		}
 		if len(t.LeftOut) > 0 {
@@ -205,129 +228,11 @@ func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
 	return bw.Flush()
 }
 
-// Plot formats for PoolPlotFile.Format.
-const (
-	PlotSVG = "svg"
-	PlotPNG = "png"
-)
-
-// PoolPlotFile is one forest-plot file to write: topic Topic (an index into
-// PoolReport.Topics) drawn as Format at Path.
-type PoolPlotFile struct {
-	Topic  int
-	Format string
-	Path   string
-}
-
-// DefaultMaxPlotTopics is how many pooled topics get forest plots unless
-// the caller asks for more. Each topic is an SVG and a PNG (1,000 topics
-// took 18 s and 92 MB), so that an input of thousands of topics does not
-// fill a folder by accident (common practice, no source).
-const DefaultMaxPlotTopics = 200
-
-// PoolPlotOptions say where PoolPlotFiles puts the forest plots, and how
-// many.
-type PoolPlotOptions struct {
-	// Out is the report's file: the plots go beside it and take its name
-	// without the extension as a prefix. Leave it empty when the report is
-	// not a regular file (standard output, a device, a FIFO), which has no
-	// folder of its own for them.
-	Out string
-	// Dir, when set, is the folder of the plots, in place of Out's.
-	Dir string
-	// MaxTopics is how many pooled topics are drawn, the first in the
-	// report's order; DefaultMaxPlotTopics when 0.
-	MaxTopics int
-}
-
-// PoolPlotFiles names an SVG and a PNG forest plot for each of the first
-// o.MaxTopics pooled topics, and returns how many pooled topics were left
-// out for that limit. Out results/pool.md gives results/pool-<slug>.svg
-// and .png; Dir replaces Out's folder. With neither set no plots are
-// named, so plots are written only when asked for.
-func PoolPlotFiles(rep *audit.PoolReport, o PoolPlotOptions) (files []PoolPlotFile, leftOut int) {
-	if o.Out == "" && o.Dir == "" {
-		return nil, 0
-	}
-	if o.MaxTopics <= 0 {
-		o.MaxTopics = DefaultMaxPlotTopics
-	}
-	prefix, dir := "pool", o.Dir
-	if o.Out != "" {
-		base := filepath.Base(o.Out)
-		if p := strings.TrimSuffix(base, filepath.Ext(base)); p != "" {
-			prefix = p
-		}
-		if dir == "" {
-			dir = filepath.Dir(o.Out)
-		}
-	}
-	drawn := 0
-	for i, t := range rep.Topics {
-		if t.Random == nil {
-			continue
-		}
-		if drawn == o.MaxTopics {
-			leftOut++
-			continue
-		}
-		drawn++
-		for _, f := range []string{PlotSVG, PlotPNG} {
-			files = append(files, PoolPlotFile{Topic: i, Format: f, Path: filepath.Join(dir, prefix+"-"+t.Slug+"."+f)})
-		}
-	}
-	return files, leftOut
-}
-
-// WritePoolPlot draws topic t as a forest plot (PoolPlot) in format
-// PlotSVG or PlotPNG.
-func WritePoolPlot(w io.Writer, t audit.TopicPool, level float64, format string) error {
-	p := PoolPlot(t, level)
-	switch format {
-	case PlotSVG:
-		return forestplot.WriteSVG(w, p)
-	case PlotPNG:
-		return forestplot.WritePNG(w, p)
-	}
-	return fmt.Errorf("forest plot of %q: unknown format %q (want %s or %s)", t.Topic, format, PlotSVG, PlotPNG)
-}
-
-// PoolPlot returns the forest plot of a topic: one row per pooled claim
-// with its interval and random-effects weight, the random-effects estimate
-// as the diamond with its Wald interval and the prediction interval, and
-// the HKSJ interval, τ², I² and Q in the notes.
-func PoolPlot(t audit.TopicPool, level float64) forestplot.Plot {
-	p := forestplot.Plot{Topic: t.Topic, Scale: poolAxisLabel(t.Scale), Level: level}
-	for _, s := range t.Studies {
-		p.Rows = append(p.Rows, forestplot.Row{Label: fmt.Sprintf("%s, %s", s.Study, s.Claim),
-			Estimate: float64(s.Estimate), Low: float64(s.CI[0]), High: float64(s.CI[1]), Weight: float64(s.WeightRandom)})
-	}
-	if t.Random == nil {
-		p.Notes = append(p.Notes, fmt.Sprintf("Not pooled: %d claim(s) usable, 2 needed.", t.K))
-		return p
-	}
-	p.Pooled = &forestplot.Pooled{Label: fmt.Sprintf("Random effects (%s)", t.Tau2Method),
-		Estimate: float64(t.Random.Estimate), Low: float64(t.Random.CI[0]), High: float64(t.Random.CI[1])}
-	if t.Prediction != nil {
-		p.Pooled.PredLow, p.Pooled.PredHigh, p.Pooled.HasPrediction = float64(t.Prediction.CI[0]), float64(t.Prediction.CI[1]), true
-	}
-	p.Notes = append(p.Notes, "Differences are first − second as entered.",
-		fmt.Sprintf("HKSJ interval %s; fixed effect %s %s.", poolCI(t.HKSJ.CI), poolNum(t.Fixed.Estimate), poolCI(t.Fixed.CI)),
-		poolHeterogeneityText(t, poolLevelText(level)))
-	if len(t.LeftOut) > 0 {
-		p.Notes = append(p.Notes, fmt.Sprintf("%d claim(s) of this topic left out; see the report.", len(t.LeftOut)))
-	}
-	return p
-}
-
-func poolAxisLabel(scale string) string {
-	switch scale {
-	case extract.ScaleLog:
-		return "difference first − second (log scale: log of the ratio of ratios)"
-	case extract.ScaleFisherZ:
-		return "difference first − second (Fisher z scale: z1 − z2, not r1 − r2)"
-	}
-	return "difference first − second (coefficients' own units)"
+// mdLinkPath escapes a relative path for a Markdown link target: each
+// segment percent-encoded as a URL path, so that spaces and parentheses
+// cannot end the link.
+func mdLinkPath(p string) string {
+	return (&url.URL{Path: p}).EscapedPath()
 }
 
 type poolLine struct {
@@ -338,32 +243,9 @@ type poolLine struct {
 func poolLines(t audit.TopicPool) []poolLine {
 	return []poolLine{
 		{"Fixed effect (inverse variance)", t.Fixed},
-		{fmt.Sprintf("Random effects (%s), Wald", t.Tau2Method), t.Random},
-		{fmt.Sprintf("Random effects (%s), HKSJ", t.Tau2Method), t.HKSJ},
+		{fmt.Sprintf("Random effects (%s), Wald interval", t.Tau2Method), t.Random},
+		{fmt.Sprintf("Random effects (%s), HKSJ interval", t.Tau2Method), t.HKSJ},
 	}
-}
-
-// poolRatioLine gives the pooled ratio of ratios for a topic on the log scale.
-func poolRatioLine(t audit.TopicPool) string {
-	if t.Scale != extract.ScaleLog || t.Random == nil {
-		return ""
-	}
-	e := func(n audit.Number) audit.Number { return audit.Number(math.Exp(float64(n))) }
-	return fmt.Sprintf("Ratio of ratios, exp(random-effects estimate): %s %s (HKSJ %s).", poolNum(e(t.Random.Estimate)),
-		poolCI([2]audit.Number{e(t.Random.CI[0]), e(t.Random.CI[1])}), poolCI([2]audit.Number{e(t.HKSJ.CI[0]), e(t.HKSJ.CI[1])}))
-}
-
-func poolHeterogeneityText(t audit.TopicPool, pct string) string {
-	h := t.Heterogeneity
-	if h == nil {
-		return ""
-	}
-	tau2 := "τ² = " + poolNum(h.Tau2)
-	if h.Tau2SE.Known() {
-		tau2 += " (SE " + poolNum(h.Tau2SE) + ")"
-	}
-	return fmt.Sprintf("Q = %s on %d df, p %s; I² = %s (from τ²: %s); %s by %s, %s Q-profile CI %s.",
-		poolNum(h.Q), h.DF, poolPText(h.P), poolPercent(h.I2), poolPercent(h.I2Tau2), tau2, t.Tau2Method, pct, poolCI(h.Tau2CI))
 }
 
 func poolSummary(rep *audit.PoolReport) string {
@@ -385,45 +267,3 @@ func poolSummary(rep *audit.PoolReport) string {
 }
 
 func poolLevelText(level float64) string { return strconv.FormatFloat(100*level, 'f', -1, 64) + "%" }
-
-func poolNum(n audit.Number) string {
-	if !n.Known() {
-		return "-"
-	}
-	return audit.FormatNum(float64(n))
-}
-
-func poolCI(ci [2]audit.Number) string {
-	if !ci[0].Known() && !ci[1].Known() {
-		return "-"
-	}
-	return "[" + poolNum(ci[0]) + ", " + poolNum(ci[1]) + "]"
-}
-
-func poolPercent(n audit.Number) string {
-	if !n.Known() {
-		return "-"
-	}
-	return strconv.FormatFloat(100*float64(n), 'f', 1, 64) + "%"
-}
-
-func poolStat(p *audit.PooledEstimate) string {
-	if !p.Statistic.Known() {
-		return "-"
-	}
-	if !p.DF.Known() {
-		return "z = " + audit.FormatNum(float64(p.Statistic))
-	}
-	return fmt.Sprintf("t(%s) = %s", audit.FormatNum(float64(p.DF)), audit.FormatNum(float64(p.Statistic)))
-}
-
-// poolPText writes "= 0.012" or "< 0.001".
-func poolPText(p audit.Number) string {
-	if !p.Known() {
-		return "unknown"
-	}
-	if p < 0.001 {
-		return audit.FormatP(float64(p))
-	}
-	return "= " + audit.FormatP(float64(p))
-}

@@ -195,7 +195,7 @@ func TestWritePoolText(t *testing.T) {
 			return WritePoolTable(b, PoolDocument{PoolReport: r})
 		},
 			[]string{"TOPIC BCG | vaccine", "first − second", "Random effects (DL), HKSJ", "t(2) =", "Prediction interval",
-				"Ratio of ratios", "Heterogeneity: Q =", "WITHOUT ROW", "row 30 (X, c): its outcome is incomplete",
+				"Ratio of ratios", "Between-study variance τ² =", "Cochran's Q =", "WITHOUT ROW", "row 30 (X, c): its outcome is incomplete",
 				"TOPIC lonely", "Only 1 claim(s)", "results/pool-bcg-vaccine.svg", "1 claim(s) have no topic"}},
 		{"markdown", func(b *bytes.Buffer, r *audit.PoolReport) error {
 			return WritePoolMarkdown(b, PoolDocument{PoolReport: r})
@@ -232,7 +232,7 @@ func TestWritePoolPlot(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.format, func(t *testing.T) {
 			var buf bytes.Buffer
-			if err := WritePoolPlot(&buf, rep.Topics[0], rep.Level, tt.format); err != nil {
+			if err := WritePoolPlot(&buf, rep.Topics[0], rep.Level, PoolPlotFile{Format: tt.format}); err != nil {
 				t.Fatal(err)
 			}
 			if !bytes.HasPrefix(buf.Bytes(), []byte(tt.magic)) {
@@ -240,11 +240,11 @@ func TestWritePoolPlot(t *testing.T) {
 			}
 		})
 	}
-	if err := WritePoolPlot(&bytes.Buffer{}, rep.Topics[0], rep.Level, "pdf"); err == nil {
+	if err := WritePoolPlot(&bytes.Buffer{}, rep.Topics[0], rep.Level, PoolPlotFile{Format: "pdf"}); err == nil {
 		t.Error("WritePoolPlot(pdf) error = nil, want an error")
 	}
-	p := PoolPlot(rep.Topics[0], rep.Level)
-	if len(p.Rows) != 3 || p.Pooled == nil || !p.Pooled.HasPrediction || !strings.Contains(p.Scale, "log") {
+	p := PoolPlot(rep.Topics[0], rep.Level, PlotPages(rep.Topics[0])[0])
+	if len(p.Rows) != 3 || p.Pooled == nil || !p.Pooled.HasPrediction || !p.Pooled.HasHKSJ || !strings.Contains(p.Scale, "log") {
 		t.Errorf("PoolPlot() rows %d, pooled %v, scale %q", len(p.Rows), p.Pooled, p.Scale)
 	}
 }

@@ -104,6 +104,7 @@ func TestPoolCommandJSON(t *testing.T) {
 		Method             string   `json:"method"`
 		ClaimsWithoutTopic int      `json:"claims_without_topic"`
 		Plots              []string `json:"plots"`
+		PlotsNote          string   `json:"plots_note"`
 		Topics             []struct {
 			Topic  string `json:"topic"`
 			Slug   string `json:"slug"`
@@ -147,18 +148,24 @@ func TestPoolCommandJSON(t *testing.T) {
 			t.Errorf("pool JSON %s = %.12g, want %.12g", c.name, c.got, c.want)
 		}
 	}
-	wantPlots := []string{filepath.Join(outDir, "pool-interlab-comparison.svg"), filepath.Join(outDir, "pool-interlab-comparison.png")}
-	if strings.Join(doc.Plots, " ") != strings.Join(wantPlots, " ") {
-		t.Errorf("pool JSON plots = %q, want %q", doc.Plots, wantPlots)
+	// Issue 20: a JSON report gets no plot files unless asked for them
+	// with --plots; it says so.
+	if len(doc.Plots) != 0 || !strings.Contains(doc.PlotsNote, "--plots DIR") {
+		t.Errorf("pool JSON plots = %q, note %q; want none, and a note naming --plots DIR", doc.Plots, doc.PlotsNote)
+	}
+	if names := dirNames(t, outDir); len(names) != 1 {
+		t.Errorf("output folder holds %q, want the report only", names)
+	}
+	plots := t.TempDir()
+	if _, err := executePool(t, in, "--format", "json", "--out", filepath.Join(outDir, "asked.json"), "--plots", plots); err != nil {
+		t.Fatal(err)
 	}
 	for i, magic := range []string{"<?xml", "\x89PNG"} {
-		b, err := os.ReadFile(wantPlots[i])
+		p := filepath.Join(plots, "asked-interlab-comparison."+[]string{"svg", "png"}[i])
+		b, err := os.ReadFile(p)
 		if err != nil || !bytes.HasPrefix(b, []byte(magic)) {
-			t.Errorf("plot %s: err %v, want a file starting %q", wantPlots[i], err, magic)
+			t.Errorf("plot %s: err %v, want a file starting %q", p, err, magic)
 		}
-	}
-	if names := dirNames(t, outDir); len(names) != 3 {
-		t.Errorf("output folder holds %q, want the report and two plots only", names)
 	}
 	checkUnchanged(t, in, files)
 }
@@ -201,7 +208,7 @@ func TestPoolCommandFlagErrors(t *testing.T) {
 		name string
 		args []string
 	}{
-		{"format", []string{in, "--format", "csv"}},
+		{"format", []string{in, "--format", "pdf"}},
 		{"method", []string{in, "--method", "pm"}},
 		{"level zero", []string{in, "--level", "0"}},
 		{"level 100", []string{in, "--level", "100"}},
@@ -272,7 +279,10 @@ func TestPoolPlotsWhere(t *testing.T) {
 		}, 1 + 2*2, 0, "Forest plots were drawn for the first 2 pooled topics; 1 more was left out"},
 		{"beside a file", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
 			return []string{three, "--format", "md", "--out", filepath.Join(dir, "pool.md")}, nil
-		}, 1 + 3*2, 0, ""},
+		}, 1 + 3*2, 0, "](pool-topic-2.svg)"},
+		{"json beside a file", func(t *testing.T, dir, _ string) ([]string, <-chan string) {
+			return []string{three, "--format", "json", "--out", filepath.Join(dir, "pool.md")}, nil
+		}, 1, 0, "No forest plots were written: a json report gets them only when asked"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -298,7 +308,7 @@ func TestPoolPlotsWhere(t *testing.T) {
 			if tt.note != "" && !strings.Contains(doc, tt.note) {
 				t.Errorf("pool %q: the report lacks %q:\n%s", args, tt.note, doc)
 			}
-			if tt.note == "" && strings.Contains(doc, "No forest plots") {
+			if (tt.note == "" || strings.HasPrefix(tt.note, "](")) && strings.Contains(doc, "No forest plots") {
 				t.Errorf("pool %q: the report says plots are missing:\n%s", args, doc)
 			}
 		})
@@ -312,4 +322,65 @@ func readFile(t *testing.T, path string) string {
 		t.Fatal(err)
 	}
 	return string(b)
+}
+
+// TestIssue17PoolCovarianceFlag: a claim of two coefficients of one model
+// with no printed covariance is left out by default and pooled with
+// --covariance in a sensitivity analysis beside the main result; the main
+// result is the same either way.
+func TestIssue17PoolCovarianceFlag(t *testing.T) {
+	dir := t.TempDir()
+	coef := "study,label,measure,group,model,estimate,se\n" +
+		"A,x,b,g1,m,0.50,0.10\nA,y,b,g2,m,0.20,0.10\n" +
+		"B,x,b,g1,m,0.40,0.12\nB,y,b,g2,m,0.25,0.11\n" +
+		"C,x,b,g1,m,0.45,0.09\nC,y,b,g2,m,0.10,0.10\n" +
+		"D,x,b,all,m,0.60,0.10\nD,y,b,all,m,0.30,0.12\n"
+	claims := "study,claim,first,second,published,basis,topic\n" +
+		"A,c,x,y,first-larger,test,t\nB,c,x,y,first-larger,test,t\nC,c,x,y,first-larger,test,t\nD,c,x,y,first-larger,test,t\n"
+	for name, b := range map[string]string{"coefficients.csv": coef, "claims.csv": claims} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(b), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	type result struct {
+		Topics []struct {
+			K      int `json:"k"`
+			Random struct {
+				Estimate float64 `json:"estimate"`
+			} `json:"random"`
+			LeftOut []struct {
+				Row    int    `json:"row"`
+				Reason string `json:"reason"`
+			} `json:"left_out"`
+			Sensitivity *struct {
+				K     int `json:"k"`
+				Added []struct {
+					Row int     `json:"row"`
+					SE  float64 `json:"se"`
+				} `json:"added"`
+			} `json:"sensitivity"`
+		} `json:"topics"`
+	}
+	run := func(args ...string) result {
+		t.Helper()
+		out, err := executePool(t, append([]string{dir, "--format", "json", "--method", "dl"}, args...)...)
+		if err != nil {
+			t.Fatalf("pool %q: %v", args, err)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	def, cov := run(), run("--covariance", "bound")
+	d, c := def.Topics[0], cov.Topics[0]
+	if d.K != 3 || len(d.LeftOut) != 1 || d.LeftOut[0].Row != 5 || !strings.Contains(d.LeftOut[0].Reason, "--covariance") || d.Sensitivity != nil {
+		t.Fatalf("pool default: K %d, left out %+v, sensitivity %v; want 3, row 5 naming --covariance, none", d.K, d.LeftOut, d.Sensitivity)
+	}
+	if c.K != 3 || c.Random.Estimate != d.Random.Estimate || c.Sensitivity == nil || c.Sensitivity.K != 4 ||
+		len(c.Sensitivity.Added) != 1 || math.Abs(c.Sensitivity.Added[0].SE-0.22) > 1e-12 {
+		t.Errorf("pool --covariance bound: K %d, estimate %v, sensitivity %+v; want 3, %v, 4 claims adding row 5 with SE 0.10 + 0.12",
+			c.K, c.Random.Estimate, c.Sensitivity, d.Random.Estimate)
+	}
 }

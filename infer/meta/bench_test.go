@@ -23,3 +23,18 @@ func BenchmarkTau2REML(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkLeaveOneOut is the leave-one-out analysis of a topic of 10,000
+// invented studies with τ² = 0.02, by REML and by DerSimonian–Laird.
+func BenchmarkLeaveOneOut(b *testing.B) {
+	studies := randomStudies(10000, 0.02, 5)
+	for _, method := range []meta.Tau2Method{meta.RestrictedMaximumLikelihood, meta.DerSimonianLaird} {
+		b.Run(method.String(), func(b *testing.B) {
+			for b.Loop() {
+				if _, err := meta.LeaveOneOut(studies, meta.Options{Method: method}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

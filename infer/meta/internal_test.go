@@ -1,6 +1,7 @@
 package meta
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -23,11 +24,11 @@ func TestREMLBracketingAgreesWithScoring(t *testing.T) {
 	o := DefaultREMLOptions()
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			fs, err := remlFisherScoring(tt.studies, tau2DL(tt.studies), o)
+			fs, err := remlFisherScoring(direct(tt.studies), tau2DL(tt.studies), o)
 			if err != nil {
 				t.Fatalf("remlFisherScoring(%s) error: %v", tt.name, err)
 			}
-			br, err := remlBracketing(tt.studies, o)
+			br, err := remlBracketing(dataOf(tt.studies), o)
 			if err != nil {
 				t.Fatalf("remlBracketing(%s) error: %v", tt.name, err)
 			}
@@ -46,12 +47,12 @@ func TestREMLBracketingAgreesWithScoring(t *testing.T) {
 func TestREMLScoringFromPoorStart(t *testing.T) {
 	studies := []Study{{"a", -1, 0.01}, {"b", 2, 0.02}, {"c", 0.5, 0.05}}
 	o := DefaultREMLOptions()
-	ref, err := remlFisherScoring(studies, tau2DL(studies), o)
+	ref, err := remlFisherScoring(direct(studies), tau2DL(studies), o)
 	if err != nil {
 		t.Fatalf("remlFisherScoring(DL start) error: %v", err)
 	}
 	for _, start := range []float64{0, 1e-8, 100, 1e6} {
-		got, err := remlFisherScoring(studies, start, o)
+		got, err := remlFisherScoring(direct(studies), start, o)
 		if err != nil {
 			t.Fatalf("remlFisherScoring(start %v) error: %v", start, err)
 		}
@@ -80,5 +81,70 @@ func TestBracketRoot(t *testing.T) {
 				t.Errorf("bracketRoot(%s) = %v (converged %v), want %v", tt.name, r.x, r.converged, tt.want)
 			}
 		})
+	}
+}
+
+// direct evaluates the restricted likelihood of studies by direct sums.
+func direct(studies []Study) func(float64) remlPoint {
+	d := dataOf(studies)
+	return func(t float64) remlPoint { return remlTerms(d, t) }
+}
+
+// TestREMLReachesRoot: Tau2REML must return the root of the score, not a
+// point where step halving stalled. Before remlPolish, Kacker's data
+// without lab 8 stopped at 0.3147711404, 6.6e-9 above the root found here
+// by bracketing to 1e-15 (0.3147711338), and a warm start stopped 7.6e-9
+// below it. Data: Kacker RN (2004), Metrologia 41(3):132–136 (citation
+// from memory), y and v as given in statsmodels' results_meta.py
+// (SECONDARY).
+func TestREMLReachesRoot(t *testing.T) {
+	y := []float64{61.0, 61.4, 62.21, 62.3, 62.34, 62.6, 62.7, 62.84, 65.9}
+	v := []float64{0.2025, 1.2100, 0.0900, 0.2025, 0.3844, 0.5625, 0.0676, 0.0225, 1.8225}
+	var all []Study
+	for i := range y {
+		all = append(all, Study{Label: fmt.Sprint(i + 1), Effect: y[i], Variance: v[i]})
+	}
+	for skip := range all {
+		d := dataOf(all).without(skip)
+		score := func(x float64) float64 { return remlTerms(d, x).score }
+		if score(0) <= 0 {
+			continue
+		}
+		root := bracketRoot(score, 0, 100, score(0), score(100), 1e-15, 2000)
+		for _, start := range []float64{d.tau2DL(), 0.5 * root.x, 2 * root.x} {
+			fit, err := tau2REML(d, start, DefaultREMLOptions())
+			if err != nil {
+				t.Fatalf("tau2REML(without %d, start %v) error: %v", skip, start, err)
+			}
+			if math.Abs(fit.Tau2-root.x) > 1e-12*math.Max(1, root.x) {
+				t.Errorf("tau2REML(without %d, start %v) = %.15g, want the root %.15g", skip, start, fit.Tau2, root.x)
+			}
+		}
+	}
+}
+
+// TestNearTermsMatchDirect: the series about τ²₀ must give the terms of
+// the direct sums wherever it is used, here on invented data.
+func TestNearTermsMatchDirect(t *testing.T) {
+	var all []Study
+	for i := range 30 {
+		all = append(all, Study{Effect: 0.2 + 0.05*float64(i%7) - 0.03*float64(i%3), Variance: 0.01 + 0.003*float64(i)})
+	}
+	d := dataOf(all)
+	const tau0 = 0.02
+	n := newNearTerms(d, tau0, 0.25)
+	for _, skip := range []int{0, 13, 29} {
+		for _, delta := range []float64{0, 1e-6, -3e-5, 0.9 * n.reach, -0.9 * n.reach} {
+			got, want := n.at(skip, tau0+delta), remlTerms(d.without(skip), tau0+delta)
+			for _, c := range []struct {
+				name      string
+				got, want float64
+			}{{"ll", got.ll, want.ll}, {"score", got.score, want.score}, {"info", got.info, want.info},
+				{"mu", got.mu, want.mu}, {"sw", got.sw, want.sw}} {
+				if math.Abs(c.got-c.want) > 1e-11*math.Max(1, math.Abs(c.want)) {
+					t.Errorf("nearTerms.at(%d, τ²₀%+g).%s = %.15g, want %.15g", skip, delta, c.name, c.got, c.want)
+				}
+			}
+		}
 	}
 }

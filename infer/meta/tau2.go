@@ -49,15 +49,65 @@ func Tau2DerSimonianLaird(studies []Study) (float64, error) {
 	return tau2DL(studies), nil
 }
 
-func tau2DL(studies []Study) float64 {
-	var sw, sw2 float64
-	for _, s := range studies {
-		w := 1 / s.Variance
-		sw += w
-		sw2 += w * w
+func tau2DL(studies []Study) float64 { return dataOf(studies).tau2DL() }
+
+// data is the effects and variances of a set of studies as two slices,
+// with the study at index skip left out when skip ≥ 0: the loops of the
+// REML fit run over it many times, and leave-one-out shares one copy of
+// it among all its fits instead of copying the other studies k times.
+type data struct {
+	y, v []float64
+	skip int
+}
+
+func dataOf(studies []Study) data {
+	d := data{y: make([]float64, len(studies)), v: make([]float64, len(studies)), skip: -1}
+	for i, s := range studies {
+		d.y[i], d.v[i] = s.Effect, s.Variance
 	}
-	q := generalizedQ(studies, 0)
-	t := (q - float64(len(studies)-1)) / (sw - sw2/sw)
+	return d
+}
+
+// without returns the same data with study i left out.
+func (d data) without(i int) data { return data{y: d.y, v: d.v, skip: i} }
+
+// k is the number of studies in d.
+func (d data) k() int {
+	if d.skip >= 0 {
+		return len(d.y) - 1
+	}
+	return len(d.y)
+}
+
+// weightedMean returns Σ w_i y_i / Σ w_i and Σ w_i for w_i = 1/(v_i + τ²).
+func (d data) weightedMean(tau2 float64) (mean, sumW float64) {
+	var sumWY float64
+	for j, v := range d.v {
+		if j != d.skip {
+			w := 1 / (v + tau2)
+			sumW += w
+			sumWY += w * d.y[j]
+		}
+	}
+	return sumWY / sumW, sumW
+}
+
+// tau2DL is the DerSimonian–Laird estimate of d.
+func (d data) tau2DL() float64 {
+	mu, sw := d.weightedMean(0)
+	var sw2, q float64
+	for j, v := range d.v {
+		if j != d.skip {
+			sw2 += 1 / (v * v)
+		}
+	}
+	for j, v := range d.v {
+		if j != d.skip {
+			e := d.y[j] - mu
+			q += e * e / v
+		}
+	}
+	t := (q - float64(d.k()-1)) / (sw - sw2/sw)
 	return math.Max(0, t)
 }
 
@@ -107,6 +157,9 @@ type REMLFit struct {
 	// UsedFallback reports that Fisher scoring failed and the root of the
 	// score was bracketed instead.
 	UsedFallback bool
+	// mu and sw are the weighted mean and Σ w_i at Tau2, kept so that
+	// leave-one-out need not run over the studies once more for them.
+	mu, sw float64
 }
 
 // Tau2REML returns the restricted maximum-likelihood estimate of τ², the
@@ -143,12 +196,18 @@ func Tau2REML(studies []Study, opts REMLOptions) (REMLFit, error) {
 	if err := validate(studies, 2); err != nil {
 		return REMLFit{}, fmt.Errorf("REML tau2: %w", err)
 	}
-	o := opts.resolved()
-	fit, err := remlFisherScoring(studies, tau2DL(studies), o)
+	d := dataOf(studies)
+	return tau2REML(d, d.tau2DL(), opts.resolved())
+}
+
+// tau2REML runs Fisher scoring from start and, if it fails, the
+// bracketing fallback.
+func tau2REML(d data, start float64, o REMLOptions) (REMLFit, error) {
+	fit, err := remlFisherScoring(func(t float64) remlPoint { return remlTerms(d, t) }, start, o)
 	if err == nil {
 		return fit, nil
 	}
-	fb, fbErr := remlBracketing(studies, o)
+	fb, fbErr := remlBracketing(d, o)
 	if fbErr != nil {
 		return REMLFit{}, fmt.Errorf("REML tau2 (Fisher scoring: %v): %w", err, fbErr)
 	}
@@ -156,73 +215,110 @@ func Tau2REML(studies []Study, opts REMLOptions) (REMLFit, error) {
 	return fb, nil
 }
 
-// remlTerms evaluates ℓ_R, its score U and the expected information I.
-func remlTerms(studies []Study, tau2 float64) (ll, score, info float64) {
-	mu, sw := weightedMean(studies, tau2)
+// remlPoint is ℓ_R, its score U and the expected information I at one τ²,
+// with the weighted mean μ̂ and Σ w_i there.
+type remlPoint struct {
+	tau2, ll, score, info, mu, sw float64
+}
+
+// remlTerms evaluates ℓ_R, U and I at tau2.
+func remlTerms(d data, tau2 float64) remlPoint {
+	mu, sw := d.weightedMean(tau2)
 	var logV, sw2, sw3, rss, wr2 float64
-	for _, s := range studies {
-		v := s.Variance + tau2
+	for j, v := range d.v {
+		if j == d.skip {
+			continue
+		}
+		v += tau2
 		w := 1 / v
-		d := s.Effect - mu
+		e := d.y[j] - mu
 		logV += math.Log(v)
 		sw2 += w * w
 		sw3 += w * w * w
-		rss += w * d * d
-		wr2 += w * w * d * d
+		rss += w * e * e
+		wr2 += w * w * e * e
 	}
-	ll = -0.5 * (logV + math.Log(sw) + rss)
-	score = 0.5 * (wr2 - sw + sw2/sw)
-	info = 0.5 * (sw2 - 2*sw3/sw + sw2*sw2/(sw*sw))
-	return ll, score, info
+	return remlPoint{tau2: tau2, mu: mu, sw: sw,
+		ll:    -0.5 * (logV + math.Log(sw) + rss),
+		score: 0.5 * (wr2 - sw + sw2/sw),
+		info:  0.5 * (sw2 - 2*sw3/sw + sw2*sw2/(sw*sw))}
 }
 
-func remlFisherScoring(studies []Study, start float64, o REMLOptions) (REMLFit, error) {
-	tau2 := start
-	ll, score, info := remlTerms(studies, tau2)
+// remlFisherScoring runs Fisher scoring from start, evaluating ℓ_R, U and
+// I with terms.
+func remlFisherScoring(terms func(tau2 float64) remlPoint, start float64, o REMLOptions) (REMLFit, error) {
+	p := terms(start)
 	change := math.Inf(1)
 	for it := 1; it <= o.MaxIterations; it++ {
-		if tau2 == 0 && score <= 0 {
-			return remlFit(studies, 0, it-1, false), nil
+		if p.tau2 == 0 && p.score <= 0 {
+			return remlFit(p, it-1, false), nil
 		}
-		step := score / info
-		next := math.Max(0, tau2+step)
-		nll, nscore, ninfo := remlTerms(studies, next)
+		step := p.score / p.info
+		n := terms(math.Max(0, p.tau2+step))
 		// Step halving: scoring can overshoot where ℓ_R is far from
 		// quadratic, typically for large τ².
-		for h := 0; h < 50 && !(nll >= ll) && next != tau2; h++ {
+		for h := 0; h < 50 && !(n.ll >= p.ll) && n.tau2 != p.tau2; h++ {
 			step /= 2
-			next = math.Max(0, tau2+step)
-			nll, nscore, ninfo = remlTerms(studies, next)
+			n = terms(math.Max(0, p.tau2+step))
 		}
-		if math.IsNaN(nll) || math.IsNaN(next) {
-			return REMLFit{Iterations: it}, &ConvergenceError{Method: "REML Fisher scoring", Iterations: it, Last: next, Change: math.NaN()}
+		if math.IsNaN(n.ll) || math.IsNaN(n.tau2) {
+			return REMLFit{Iterations: it}, &ConvergenceError{Method: "REML Fisher scoring", Iterations: it, Last: n.tau2, Change: math.NaN()}
 		}
-		change = math.Abs(next - tau2)
-		tau2, ll, score, info = next, nll, nscore, ninfo
-		if change <= o.Tolerance*math.Max(1, tau2) {
-			return remlFit(studies, tau2, it, false), nil
+		change = math.Abs(n.tau2 - p.tau2)
+		p = n
+		if change <= o.Tolerance*math.Max(1, p.tau2) {
+			return remlFit(remlPolish(terms, p), it, false), nil
 		}
 	}
 	return REMLFit{Iterations: o.MaxIterations}, &ConvergenceError{
-		Method: "REML Fisher scoring", Iterations: o.MaxIterations, Last: tau2, Change: change}
+		Method: "REML Fisher scoring", Iterations: o.MaxIterations, Last: p.tau2, Change: change}
+}
+
+// remlPolish takes a converged Fisher-scoring point to the root of the
+// score U. Near the maximum a step changes ℓ_R by less than its rounding,
+// so the step-halving test of Fisher scoring halves good steps until they
+// fall below the tolerance, and scoring stops some 1e-8 short of the root
+// (Kacker's data without lab 8: 7e-9 short), at a point that depends on
+// the start. Steps on U itself do not have that problem: a Fisher step,
+// then secant steps through the last two points, are taken while they
+// shrink |U| and keep τ² > 0.
+func remlPolish(terms func(float64) remlPoint, p remlPoint) remlPoint {
+	var prev remlPoint
+	for i := range 8 {
+		if p.tau2 == 0 || p.score == 0 {
+			break
+		}
+		t := p.tau2 + p.score/p.info
+		if i > 0 && prev.score != p.score {
+			t = p.tau2 - p.score*(p.tau2-prev.tau2)/(p.score-prev.score)
+		}
+		if !(t > 0) {
+			break
+		}
+		n := terms(t)
+		if !(math.Abs(n.score) < math.Abs(p.score)) {
+			break
+		}
+		prev, p = p, n
+	}
+	return p
 }
 
 // remlBracketing finds the root of the REML score by bracketing, the
 // fallback when Fisher scoring fails.
-func remlBracketing(studies []Study, o REMLOptions) (REMLFit, error) {
-	score := func(t float64) float64 {
-		_, u, _ := remlTerms(studies, t)
-		return u
-	}
+func remlBracketing(d data, o REMLOptions) (REMLFit, error) {
+	score := func(t float64) float64 { return remlTerms(d, t).score }
 	u0 := score(0)
 	if u0 <= 0 {
-		return remlFit(studies, 0, 0, true), nil
+		return remlFit(remlTerms(d, 0), 0, true), nil
 	}
 	var sumV float64
-	for _, s := range studies {
-		sumV += s.Variance
+	for j, v := range d.v {
+		if j != d.skip {
+			sumV += v
+		}
 	}
-	hi, uhi, ok := expandUpper(score, math.Max(tau2DL(studies), sumV/float64(len(studies))))
+	hi, uhi, ok := expandUpper(score, math.Max(d.tau2DL(), sumV/float64(d.k())))
 	if !ok {
 		return REMLFit{}, &ConvergenceError{Method: "REML bracketing", Iterations: 0, Last: hi, Change: math.Inf(1)}
 	}
@@ -230,17 +326,18 @@ func remlBracketing(studies []Study, o REMLOptions) (REMLFit, error) {
 	if !r.converged {
 		return REMLFit{}, &ConvergenceError{Method: "REML bracketing", Iterations: r.iterations, Last: r.x, Change: r.width}
 	}
-	return remlFit(studies, r.x, r.iterations, true), nil
+	return remlFit(remlTerms(d, r.x), r.iterations, true), nil
 }
 
-func remlFit(studies []Study, tau2 float64, iterations int, fallback bool) REMLFit {
-	ll, _, info := remlTerms(studies, tau2)
+func remlFit(p remlPoint, iterations int, fallback bool) REMLFit {
 	return REMLFit{
-		Tau2:          tau2,
-		SE:            1 / math.Sqrt(info),
-		LogLikelihood: ll,
+		Tau2:          p.tau2,
+		SE:            1 / math.Sqrt(p.info),
+		LogLikelihood: p.ll,
 		Iterations:    iterations,
-		AtBoundary:    tau2 == 0,
+		AtBoundary:    p.tau2 == 0,
 		UsedFallback:  fallback,
+		mu:            p.mu,
+		sw:            p.sw,
 	}
 }

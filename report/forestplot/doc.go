@@ -19,7 +19,9 @@
 //
 // Both formats share one layout, drawn through gonum/plot's vector-graphics
 // layer (vg) with the compiled-in Liberation Sans fonts, so no network or
-// system fonts are needed. PNG is rendered at 96 dots per inch. SVG text
-// names the font family "Liberation Sans" without embedding it unless
-// Plot.EmbedFonts is set; viewers without that font substitute their own.
+// system fonts are needed. PNG is rendered at 300 dots per inch, print
+// resolution at the plot's width of 7.5 inches, where no text is smaller
+// than 8 points. SVG text names the font family "Liberation Sans" without
+// embedding it unless Plot.EmbedFonts is set; viewers without that font
+// substitute their own.
 package forestplot

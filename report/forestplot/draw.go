@@ -119,15 +119,15 @@ func (l *layout) drawRowGraphic(c vg.Canvas, r rowLayout) {
 		fillPolygon(c, pooledColor, vg.Point{X: x0, Y: y}, vg.Point{X: xe, Y: y + h},
 			vg.Point{X: x1, Y: y}, vg.Point{X: xe, Y: y - h})
 		drawCuts(c, r, x0, x1, y, pooledColor)
-	case predictionRow:
-		strokeLine(c, x0, y, x1, y, 3, predColor, nil)
+	case barRowKind:
+		strokeLine(c, x0, y, x1, y, 3, r.barColor, nil)
 		if !r.clipLow {
-			strokeLine(c, x0, y-4.5, x0, y+4.5, 1.5, predColor, nil)
+			strokeLine(c, x0, y-4.5, x0, y+4.5, 1.5, r.barColor, nil)
 		}
 		if !r.clipHigh {
-			strokeLine(c, x1, y-4.5, x1, y+4.5, 1.5, predColor, nil)
+			strokeLine(c, x1, y-4.5, x1, y+4.5, 1.5, r.barColor, nil)
 		}
-		drawCuts(c, r, x0, x1, y, predColor)
+		drawCuts(c, r, x0, x1, y, r.barColor)
 	}
 }
 
@@ -142,16 +142,17 @@ func drawCuts(c vg.Canvas, r rowLayout, x0, x1, y vg.Length, clr color.Color) {
 }
 
 func (l *layout) drawRowText(c vg.Canvas, r rowLayout) {
-	f, clr := bodyFace, inkColor
+	f := bodyFace
+	var clr color.Color = inkColor
 	if r.kind == pooledRow {
 		f = pooledFace
 	}
 	label := f
-	if r.kind == predictionRow {
-		label, clr = bodyFace, predColor
+	if r.kind == barRowKind {
+		label, clr = bodyFace, r.barColor
 	}
 	drawText(c, label, l.labelX, r.centre, r.label, alignLeft, clr)
-	if r.kind == predictionRow {
+	if r.kind == barRowKind {
 		clr = inkColor
 	}
 	estClr := clr
@@ -159,7 +160,7 @@ func (l *layout) drawRowText(c vg.Canvas, r rowLayout) {
 		estClr = softColor
 	}
 	drawText(c, f, l.estRight, r.centre, r.estText, alignRight, estClr)
-	if r.drawn || r.kind == predictionRow {
+	if r.drawn || r.kind == barRowKind {
 		drawText(c, f, l.lowRight, r.centre, r.lowText, alignRight, clr)
 		drawText(c, f, l.highRight, r.centre, r.highText, alignRight, clr)
 	}

@@ -28,5 +28,5 @@ func ExampleWriteSVG() {
 	w, h := forestplot.Size(p)
 	fmt.Printf("%.0f x %.0f points, %v\n", w.Points(), h.Points(), bytes.HasPrefix(svg.Bytes(), []byte("<?xml")))
 	// Output:
-	// 720 x 258 points, true
+	// 540 x 269 points, true
 }

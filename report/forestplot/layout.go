@@ -2,6 +2,7 @@ package forestplot
 
 import (
 	"fmt"
+	"image/color"
 	"math"
 	"strconv"
 	"strings"
@@ -43,7 +44,7 @@ const (
 	pooledHeight vg.Length = 21
 	axisHeight   vg.Length = 34 // ticks, tick labels and the axis label
 	noteLine     vg.Length = 11.5
-	minPlotWidth vg.Length = 220
+	minPlotWidth vg.Length = 150
 	plotInset    vg.Length = 8 // keeps markers at the range ends inside the area
 	maxNoteLines           = 14
 	// beyondAxis is the magnitude past which a finite value is treated like
@@ -65,6 +66,7 @@ type rowLayout struct {
 	centre            vg.Length // y of the row's centre line
 	shaded            bool
 	kind              rowKind
+	barColor          color.Color // of a bar row
 }
 
 type rowKind int
@@ -72,7 +74,7 @@ type rowKind int
 const (
 	studyRow rowKind = iota
 	pooledRow
-	predictionRow
+	barRowKind
 )
 
 // layout is the measured, positioned content of a plot; Size and the
@@ -120,7 +122,7 @@ func newLayout(p Plot) *layout {
 		l.axisLabel = "difference"
 	}
 	var notes []string
-	l.rows, notes = studyRows(p.Rows)
+	l.rows, notes = studyRows(p.Rows, p.WeightTotal)
 	if p.Pooled != nil {
 		rows, pn := pooledRows(*p.Pooled)
 		l.rows = append(l.rows, rows...)
@@ -133,7 +135,7 @@ func newLayout(p Plot) *layout {
 		notes = append(notes, "No studies to show.")
 	}
 	l.setAxis()
-	l.formatNumbers()
+	l.formatNumbers(p.Decimals)
 	l.setColumns()
 	l.title = fitText(cleanText(p.Topic), titleFace, l.width-2*margin)
 	if l.title == "" {
@@ -162,7 +164,7 @@ func newLayout(p Plot) *layout {
 
 // studyRows turns the input rows into drawable rows and notes on what
 // could not be drawn.
-func studyRows(in []Row) ([]rowLayout, []string) {
+func studyRows(in []Row, total float64) ([]rowLayout, []string) {
 	var notes []string
 	var wmax, wsum float64
 	for _, r := range in {
@@ -170,6 +172,9 @@ func studyRows(in []Row) ([]rowLayout, []string) {
 			wmax = math.Max(wmax, r.Weight)
 			wsum += r.Weight
 		}
+	}
+	if total > 0 && !math.IsInf(total, 1) {
+		wsum = total
 	}
 	out := make([]rowLayout, len(in))
 	for i, r := range in {
@@ -187,7 +192,13 @@ func studyRows(in []Row) ([]rowLayout, []string) {
 		case r.Weight > 0 && !math.IsInf(r.Weight, 1):
 			// Area proportional to weight: side ∝ √weight.
 			rl.side = 4 + 8*vg.Length(math.Sqrt(r.Weight/wmax))
-			rl.weightText = fmt.Sprintf("%.1f%%", 100*r.Weight/wsum)
+			// Below 1% two decimals, so that a claim among thousands does not
+			// read 0.0%.
+			pct := 100 * r.Weight / wsum
+			rl.weightText = fmt.Sprintf("%.1f%%", pct)
+			if pct < 1 {
+				rl.weightText = fmt.Sprintf("%.2f%%", pct)
+			}
 		default:
 			rl.side = 4
 		}
@@ -196,7 +207,8 @@ func studyRows(in []Row) ([]rowLayout, []string) {
 	return out, notes
 }
 
-// pooledRows returns the diamond row and, if asked for, the prediction row.
+// pooledRows returns the diamond row and, if asked for, the HKSJ and
+// prediction bars.
 func pooledRows(p Pooled) ([]rowLayout, []string) {
 	label := cleanText(p.Label)
 	if label == "" {
@@ -205,21 +217,30 @@ func pooledRows(p Pooled) ([]rowLayout, []string) {
 	d, notes := intervalRow(label, p.Estimate, p.Low, p.High)
 	d.kind = pooledRow
 	rows := []rowLayout{d}
+	if p.HasHKSJ {
+		r, n := barRow("HKSJ interval", p.HKSJLow, p.HKSJHigh, pooledColor)
+		rows, notes = append(rows, r), append(notes, n...)
+	}
 	if p.HasPrediction {
-		pr := rowLayout{label: "Prediction interval", kind: predictionRow, est: math.NaN()}
-		notes = append(notes, classifyBounds(&pr, p.PredLow, p.PredHigh)...)
-		// The bar has no point of its own: it is drawn when both ends are
-		// known, even if one is cut at the axis.
-		pr.drawn = (pr.hasLow || pr.clipLow) && (pr.hasHigh || pr.clipHigh)
-		switch {
-		case !pr.drawn:
-			notes = append(notes, "Prediction interval: a bound is missing; not drawn.")
-		case pr.clipLow || pr.clipHigh:
-			notes = append(notes, "Prediction interval: it runs beyond the axis (an infinite or extreme bound); the arrow marks where it is cut.")
-		}
-		rows = append(rows, pr)
+		r, n := barRow("Prediction interval", p.PredLow, p.PredHigh, predColor)
+		rows, notes = append(rows, r), append(notes, n...)
 	}
 	return rows, notes
+}
+
+// barRow is an interval drawn as a bar with no point of its own: it is
+// drawn when both ends are known, even if one is cut at the axis.
+func barRow(label string, low, high float64, clr color.Color) (rowLayout, []string) {
+	r := rowLayout{label: label, kind: barRowKind, est: math.NaN(), barColor: clr}
+	notes := classifyBounds(&r, low, high)
+	r.drawn = (r.hasLow || r.clipLow) && (r.hasHigh || r.clipHigh)
+	switch {
+	case !r.drawn:
+		notes = append(notes, label+": a bound is missing; not drawn.")
+	case r.clipLow || r.clipHigh:
+		notes = append(notes, label+": it runs beyond the axis (an infinite or extreme bound); the arrow marks where it is cut.")
+	}
+	return r, notes
 }
 
 // intervalRow classifies an estimate and its bounds for drawing.
@@ -303,14 +324,17 @@ func niceStep(raw float64) float64 {
 	}
 }
 
-// formatNumbers writes the figures of every row with decimals suited to
-// the axis span: two for a span of about 1 to 10, one more per decade less.
-func (l *layout) formatNumbers() {
-	span := l.xmax - l.xmin
-	decimals := min(6, max(0, 2-int(math.Floor(math.Log10(span)))))
+// formatNumbers writes the figures of every row with the decimals asked
+// for or, for 0, with decimals suited to the axis span: two for a span of
+// about 1 to 10, one more per decade less.
+func (l *layout) formatNumbers(decimals int) {
+	if decimals <= 0 {
+		span := l.xmax - l.xmin
+		decimals = min(6, max(0, 2-int(math.Floor(math.Log10(span)))))
+	}
 	for i := range l.rows {
 		r := &l.rows[i]
-		if r.kind != predictionRow {
+		if r.kind != barRowKind {
 			r.estText = boundText(r.est, decimals)
 			if !r.drawn {
 				r.estText = "not drawn"
@@ -374,7 +398,7 @@ func (l *layout) setRowsVertically() {
 			n++
 		case pooledRow:
 			extra += pooledGap + pooledHeight
-		case predictionRow:
+		case barRowKind:
 			extra += rowHeight
 		}
 	}
@@ -398,7 +422,7 @@ func (l *layout) setRowsVertically() {
 			top -= pooledGap
 			r.centre = top - pooledHeight/2
 			top -= pooledHeight
-		case predictionRow:
+		case barRowKind:
 			r.centre = top - rowHeight/2
 			top -= rowHeight
 		}
@@ -413,9 +437,12 @@ func (l *layout) captionText(p Plot, level float64) string {
 	pct := strconv.FormatFloat(100*level, 'f', -1, 64) + "%"
 	parts := []string{"Squares: study estimates, area proportional to weight; lines: " + pct + " confidence intervals."}
 	if p.Pooled != nil {
-		parts = append(parts, "Diamond: pooled random-effects estimate, its width the "+pct+" confidence interval (dotted line at the estimate).")
+		parts = append(parts, "Diamond: pooled random-effects estimate, its width the "+pct+" Wald confidence interval (dotted line at the estimate).")
+		if p.Pooled.HasHKSJ {
+			parts = append(parts, "Teal bar: the same estimate's "+pct+" Hartung–Knapp–Sidik–Jonkman (HKSJ) interval.")
+		}
 		if p.Pooled.HasPrediction {
-			parts = append(parts, "Bar below it: "+pct+" prediction interval for the effect in a new study.")
+			parts = append(parts, "Amber bar: "+pct+" prediction interval for the effect in a new study.")
 		}
 	}
 	parts = append(parts, "Dashed line: no difference (0).")

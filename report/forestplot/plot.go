@@ -10,11 +10,18 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 )
 
-// DPI is the resolution of PNG output in dots per inch.
-const DPI = 96
+// DPI is the resolution of PNG output in dots per inch: print
+// resolution, so that a PNG printed at Width is as sharp as the SVG.
+const DPI = 300
 
-// Width is the width of every plot. Heights grow with the number of rows.
-const Width = 10 * vg.Inch
+// Width is the width of every plot, the size it is meant to be printed at
+// (the text width of a journal page, with margins). Heights grow with the
+// number of rows. Every text is set in points at this size, none below
+// MinTextPoints.
+const Width = 7.5 * vg.Inch
+
+// MinTextPoints is the smallest type size used, in points at Width.
+const MinTextPoints = 8
 
 // Row is one study.
 type Row struct {
@@ -38,6 +45,11 @@ type Pooled struct {
 	// HasPrediction is true.
 	PredLow, PredHigh float64
 	HasPrediction     bool
+	// HKSJLow and HKSJHigh bound the Hartung–Knapp–Sidik–Jonkman interval
+	// of the same estimate, drawn as a bar beside the diamond's Wald
+	// interval when HasHKSJ is true.
+	HKSJLow, HKSJHigh float64
+	HasHKSJ           bool
 }
 
 // Plot is everything one forest plot shows.
@@ -57,6 +69,13 @@ type Plot struct {
 	// Notes are extra footnote lines (e.g. τ² and I²), printed after the
 	// plot's own notes.
 	Notes []string
+	// WeightTotal is the total the weights are shown as percentages of; 0
+	// means the sum of Rows' weights. A page of a larger plot gives the
+	// total of all its rows.
+	WeightTotal float64
+	// Decimals is how many decimals the figures column shows; 0 chooses
+	// them from the axis span.
+	Decimals int
 	// EmbedFonts embeds the fonts in SVG output so that it renders the same
 	// everywhere, at the cost of about 0.4 MB per font used. PNG ignores it.
 	EmbedFonts bool

@@ -154,8 +154,9 @@ func TestWritePNG(t *testing.T) {
 			if img.Bounds() != want {
 				t.Errorf("WritePNG(%s) image bounds = %v, want %v", tt.name, img.Bounds(), want)
 			}
-			if got := img.Bounds().Dx(); got != 960 {
-				t.Errorf("WritePNG(%s) width = %d px, want 960 (10 in at 96 dpi)", tt.name, got)
+			// Issue 20: print resolution, 300 dpi at the stated 7.5 in.
+			if got := img.Bounds().Dx(); got != 2250 {
+				t.Errorf("WritePNG(%s) width = %d px, want 2250 (7.5 in at 300 dpi)", tt.name, got)
 			}
 		})
 	}
@@ -277,5 +278,25 @@ func TestWriteErrors(t *testing.T) {
 	}
 	if err := forestplot.WritePNG(failingWriter{}, p); !errors.Is(err, errDiskFull) {
 		t.Errorf("WritePNG(failing writer) error = %v, want %v", err, errDiskFull)
+	}
+}
+
+// TestIssue20WeightTotal: a page of a larger plot shows each row's weight
+// as a share of all rows, not of the page's; below 1% with two decimals.
+func TestIssue20WeightTotal(t *testing.T) {
+	rows := []forestplot.Row{{Label: "a", Estimate: 0.1, Low: 0, High: 0.2, Weight: 0.25}, {Label: "b", Estimate: 0.2, Low: 0.1, High: 0.3, Weight: 0.004}}
+	for _, tt := range []struct {
+		total float64
+		want  []string
+	}{{0, []string{"98.4%", "1.6%"}}, {1, []string{"25.0%", "0.40%"}}} {
+		var buf bytes.Buffer
+		if err := forestplot.WriteSVG(&buf, forestplot.Plot{Rows: rows, WeightTotal: tt.total}); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range tt.want {
+			if !strings.Contains(buf.String(), ">"+w+"<") {
+				t.Errorf("WriteSVG(WeightTotal %v) lacks the weight %s", tt.total, w)
+			}
+		}
 	}
 }
