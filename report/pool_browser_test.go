@@ -13,7 +13,6 @@ import (
 	"golang.org/x/net/html"
 )
 
-
 // TestIssue20PoolHTMLInChromium opens the demo's pooling page in headless
 // Chromium: no console message (a script error or a refused style would
 // show there), the pooled results, the heterogeneity sentences and the
