@@ -1,0 +1,160 @@
+package article
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"coefaudit/extract"
+)
+
+// Failure is a file that could not be read as an article, with why.
+type Failure struct {
+	File string `json:"file"`
+	Err  error  `json:"-"`
+	// Message is Err's text, for the JSON output.
+	Message string `json:"error"`
+}
+
+// Result is everything an import read: each article's findings in the
+// order the files were given, and the files that could not be read.
+type Result struct {
+	Articles []*Found   `json:"articles"`
+	Failed   []*Failure `json:"failed"`
+}
+
+// Files lists the article files of the paths given: a file as it is, a
+// folder's regular files (not its subfolders, nor hidden files) in name
+// order. "-" stands for standard input.
+func Files(paths []string) ([]string, error) {
+	var out []string
+	for _, p := range paths {
+		if p == "-" {
+			out = append(out, p)
+			continue
+		}
+		fi, err := os.Stat(p)
+		if err != nil {
+			return nil, err
+		}
+		if !fi.IsDir() {
+			out = append(out, p)
+			continue
+		}
+		entries, err := os.ReadDir(p)
+		if err != nil {
+			return nil, err
+		}
+		var names []string
+		for _, e := range entries {
+			if e.Type().IsRegular() && !strings.HasPrefix(e.Name(), ".") {
+				names = append(names, filepath.Join(p, e.Name()))
+			}
+		}
+		sort.Strings(names)
+		out = append(out, names...)
+	}
+	return out, nil
+}
+
+// Import reads every file (see Files) and recognises what it printed. A
+// file that is not an article or is beyond the limits is a Failure naming
+// it, and the others go on; progress, when not nil, is called after each
+// file with the files done and their total. stdin is read for "-".
+func Import(files []string, stdin io.Reader, progress func(done, total int)) *Result {
+	res := &Result{}
+	for i, file := range files {
+		f, err := ReadFile(file, stdin)
+		if err != nil {
+			res.Failed = append(res.Failed, &Failure{File: file, Err: err, Message: err.Error()})
+		} else {
+			res.Articles = append(res.Articles, f)
+		}
+		if progress != nil {
+			progress(i+1, len(files))
+		}
+	}
+	return res
+}
+
+// ReadFile reads one article, its format chosen by its content (a zip
+// archive is DOCX; XML whose root is <article> is JATS; a document that
+// starts with an HTML tag is HTML; other text is text) and recognises its
+// tables and sentences. "-" reads stdin as text.
+func ReadFile(file string, stdin io.Reader) (*Found, error) {
+	a, err := readArticle(file, stdin)
+	if err != nil {
+		return nil, err
+	}
+	return Recognise(a), nil
+}
+
+// Recognise reads the tables and sentences of an article read by one of
+// the readers.
+func Recognise(a *Article) *Found {
+	f := &Found{File: a.File, Format: a.Format, Study: a.Study}
+	readTables(a, f)
+	readSentences(a, f)
+	readClaims(a, f)
+	return f
+}
+
+func readArticle(file string, stdin io.Reader) (*Article, error) {
+	if file == "-" {
+		return ReadText(stdin, "standard input")
+	}
+	fi, err := os.Stat(file)
+	if err != nil {
+		return nil, err
+	}
+	if fi.Size() > MaxArticleBytes {
+		return nil, fmt.Errorf("%s is %d MiB; articles over %d MiB are not read: %w", file, fi.Size()>>20, MaxArticleBytes>>20, extract.ErrInputTooLarge)
+	}
+	fh, err := os.Open(file)
+	if err != nil {
+		return nil, err
+	}
+	defer fh.Close()
+	head := make([]byte, 1024)
+	n, _ := io.ReadFull(fh, head)
+	head = head[:n]
+	if bytes.HasPrefix(head, []byte("PK\x03\x04")) {
+		fh.Close()
+		return ReadDOCX(file)
+	}
+	if _, err := fh.Seek(0, io.SeekStart); err != nil {
+		return nil, err
+	}
+	switch formatOf(head, file) {
+	case FormatJATS:
+		return ReadJATS(fh, file)
+	case FormatHTML:
+		return ReadHTML(fh, file)
+	case FormatText:
+		return ReadText(fh, file)
+	}
+	return nil, fmt.Errorf("%s is not an article (JATS XML, HTML, DOCX or text): %w", file, ErrNotArticle)
+}
+
+// formatOf decides a format by the first bytes of a file, and its name
+// where they do not tell.
+func formatOf(head []byte, file string) string {
+	if bytes.IndexByte(head, 0) >= 0 {
+		return ""
+	}
+	s := strings.ToLower(strings.TrimSpace(strings.TrimPrefix(string(head), "\ufeff")))
+	ext := strings.ToLower(filepath.Ext(file))
+	switch {
+	case strings.HasPrefix(s, "<!doctype html") || strings.HasPrefix(s, "<html") || ext == ".html" || ext == ".htm":
+		return FormatHTML
+	case strings.HasPrefix(s, "<?xml") || strings.HasPrefix(s, "<!doctype article") || strings.HasPrefix(s, "<article") || ext == ".xml" || ext == ".nxml":
+		return FormatJATS
+	case strings.HasPrefix(s, "<") && strings.Contains(s, "<table"):
+		return FormatHTML
+	}
+	return FormatText
+}
