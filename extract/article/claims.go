@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"regexp"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"coefaudit/extract"
 )
@@ -22,9 +24,9 @@ type comparison struct {
 
 // comparisons are the phrases read as candidate claims, most specific first.
 var comparisons = []comparison{
-	{re: regexp.MustCompile(`(?i)\bconfidence intervals? (did not|do not|didn't) overlap|\bnon-?overlapping (confidence )?intervals`), published: extract.PublishedDiffer, basis: extract.BasisOverlap},
-	{re: regexp.MustCompile(`(?i)\bconfidence intervals? overlapp?(ed)?\b|\bintervals overlap`), published: extract.PublishedNoDifference, basis: extract.BasisOverlap},
-	{re: regexp.MustCompile(`(?i)\bsignificant (for|in|among) [^,.;]+ but not (for|in|among)\b`), published: extract.PublishedDiffer, basis: extract.BasisSignificanceSplit},
+	{re: regexp.MustCompile(`(?i)\b(confidence )?intervals?\b[^;]{0,60}\b(did not|do not|didn't) overlap|\bnon-?overlapping (confidence )?intervals`), published: extract.PublishedDiffer, basis: extract.BasisOverlap},
+	{re: regexp.MustCompile(`(?i)\b(confidence )?intervals?\b[^;]{0,60}\boverlapp?(ed)?\b`), published: extract.PublishedNoDifference, basis: extract.BasisOverlap},
+	{re: regexp.MustCompile(`(?i)\bsignificant (for|in|among) [^;]{1,100}?\bbut not (for|in|among)\b`), published: extract.PublishedDiffer, basis: extract.BasisSignificanceSplit},
 	{re: regexp.MustCompile(`(?i)\b(did not|do not|does not|didn't) differ|\bno (significant )?difference|\bdid not differ significantly|\bsimilar in (size|magnitude|strength)`), published: extract.PublishedNoDifference},
 	{re: regexp.MustCompile(`(?i)\b(weaker|smaller|less strongly|lower)\b[^.;]{0,60}\bthan\b|\bless strongly (associated|related)`), published: extract.PublishedSecondLarger, swap: true,
 		note: "\"weaker\" or \"smaller\" may compare magnitudes: read as second-larger"},
@@ -132,17 +134,28 @@ func matchPair(f *Found, s, place string) (string, string, bool) {
 	return hits[0].label, hits[1].label, true
 }
 
-// wordIndex finds w in s as whole words, -1 when absent.
+// wordIndex finds w in s as whole words (not inside a longer word), -1
+// when absent.
 func wordIndex(s, w string) int {
 	if w == "" {
 		return -1
 	}
-	re, err := regexp.Compile(`\b` + regexp.QuoteMeta(w) + `\b`)
-	if err != nil {
-		return -1
-	}
-	if loc := re.FindStringIndex(s); loc != nil {
-		return loc[0]
+	for from := 0; from < len(s); {
+		i := strings.Index(s[from:], w)
+		if i < 0 {
+			return -1
+		}
+		i += from
+		before, _ := utf8.DecodeLastRuneInString(s[:i])
+		after, _ := utf8.DecodeRuneInString(s[i+len(w):])
+		if !isWordRune(before) && !isWordRune(after) {
+			return i
+		}
+		from = i + 1
 	}
 	return -1
+}
+
+func isWordRune(r rune) bool {
+	return r != utf8.RuneError && (unicode.IsLetter(r) || unicode.IsDigit(r))
 }

@@ -136,20 +136,18 @@ func uniqueLabel(f *Found, predictor, table, model, group string) string {
 		base += ", " + group
 	}
 	base += ")"
+	if f.labels == nil {
+		f.labels = map[string]int{}
+	}
 	label := base
-	for k := 2; labelTaken(f, label); k++ {
+	// labels counts the uses of each base, so that a table whose columns
+	// repeat one heading costs one look-up per label, not a search.
+	for k := f.labels[base] + 1; f.labels[label] > 0; k++ {
 		label = base + " #" + strconv.Itoa(k)
 	}
+	f.labels[base]++
+	f.labels[label]++
 	return label
-}
-
-func labelTaken(f *Found, label string) bool {
-	for i := range f.Coefficients {
-		if f.Coefficients[i].Label == label {
-			return true
-		}
-	}
-	return false
 }
 
 // estimateAndParen splits "0.41*** (0.12)" into the estimate and the

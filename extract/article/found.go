@@ -17,6 +17,8 @@ type Found struct {
 	// ToConfirm lists every guess, every number not read and every table
 	// not read as a results table, with its place and the reason.
 	ToConfirm []Confirm `json:"to_confirm"`
+
+	labels map[string]int // the labels given, by uniqueLabel
 }
 
 // CoefficientRow is one row of the coefficients sheet as the article

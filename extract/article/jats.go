@@ -79,6 +79,9 @@ func readJATS(r io.Reader, file string) (*Article, error) {
 		}
 		if err != nil {
 			line, _ := dec.InputPos()
+			if strings.Contains(err.Error(), "invalid character entity") {
+				return nil, fmt.Errorf("line %d: %v; entities a document defines for itself are never expanded", line, err)
+			}
 			return nil, fmt.Errorf("line %d: %v", line, err)
 		}
 		switch el := tok.(type) {

@@ -122,6 +122,9 @@ func readArticle(file string, stdin io.Reader) (*Article, error) {
 	head := make([]byte, 1024)
 	n, _ := io.ReadFull(fh, head)
 	head = head[:n]
+	if bytes.HasPrefix(head, []byte("%PDF")) {
+		return nil, fmt.Errorf("%s is a PDF, which is not read: use the article's JATS XML or HTML, or paste its text: %w", file, ErrNotArticle)
+	}
 	if bytes.HasPrefix(head, []byte("PK\x03\x04")) {
 		fh.Close()
 		return ReadDOCX(file)

@@ -125,6 +125,11 @@ func writeSheet(f *excelize.File, s extract.TextSheet, text, bold int) error {
 		return err
 	}
 	table := strings.HasPrefix(s.Name, extract.TablePrefix)
+	if !table {
+		if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
+			return err
+		}
+	}
 	for r, row := range s.Rows {
 		style := text
 		if r == 0 && !table {
@@ -136,11 +141,6 @@ func writeSheet(f *excelize.File, s extract.TextSheet, text, bold int) error {
 		}
 		cell, _ := excelize.CoordinatesToCellName(1, r+1)
 		if err := sw.SetRow(cell, cells); err != nil {
-			return err
-		}
-	}
-	if !table {
-		if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
 			return err
 		}
 	}

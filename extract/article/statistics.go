@@ -66,7 +66,8 @@ func ParseReported(s string) (out []Reported, orphans []string) {
 					m[k] = s[ix[2*k]:ix[2*k+1]]
 				}
 			}
-			toks = append(toks, token{kind: kind, start: ix[2], end: ix[1], m: m})
+			start := ix[0] + len(m[0]) - len(strings.TrimLeft(m[0], " \t([,;:"))
+			toks = append(toks, token{kind: kind, start: start, end: ix[1], m: m})
 		}
 	}
 	add("estimate", estimateReport)
@@ -113,12 +114,12 @@ func pText(op, v string) string {
 }
 
 // nameStop ends the words that name an estimate: a clause's start.
-var nameStop = regexp.MustCompile(`(?i)(?:[,;:]|\band\b|\bwhile\b|\bwhereas\b|\bbut\b|\bthan\b|\bwith\b)\s*`)
+var nameStop = regexp.MustCompile(`(?i)(?:[,;:]|\band\b|\bwhile\b|\bwhereas\b|\bbut\b|\bthan\b)\s*`)
 
 // nameBefore returns the last few words before an estimate's
 // parenthesis: what the sentence says it is of.
 func nameBefore(s string) string {
-	s = strings.TrimRight(s, " ([")
+	s = strings.TrimRight(s, " ([,;:")
 	if i := strings.LastIndexAny(s, "([)]"); i >= 0 {
 		s = s[i+1:]
 	}
@@ -126,8 +127,8 @@ func nameBefore(s string) string {
 		s = s[locs[len(locs)-1][1]:]
 	}
 	words := strings.Fields(s)
-	if len(words) > 6 {
-		words = words[len(words)-6:]
+	if len(words) > 8 {
+		words = words[len(words)-8:]
 	}
 	return strings.Trim(strings.Join(words, " "), " .,;:")
 }
