@@ -67,11 +67,13 @@ func Files(paths []string) ([]string, error) {
 // file with the files done and their total. stdin is read for "-".
 func Import(files []string, stdin io.Reader, progress func(done, total int)) *Result {
 	res := &Result{}
+	studies := map[string]int{}
 	for i, file := range files {
 		f, err := ReadFile(file, stdin)
 		if err != nil {
 			res.Failed = append(res.Failed, &Failure{File: file, Err: err, Message: err.Error()})
 		} else {
+			distinctStudy(f, studies)
 			res.Articles = append(res.Articles, f)
 		}
 		if progress != nil {
@@ -79,6 +81,38 @@ func Import(files []string, stdin io.Reader, progress func(done, total int)) *Re
 		}
 	}
 	return res
+}
+
+// distinctStudy renames an article's study when an earlier article of the
+// import has its key ("Ashby 2025" twice: the second is "Ashby 2025b"), as
+// reference lists tell apart one author's papers of one year, so that two
+// articles never merge into one study.
+func distinctStudy(f *Found, seen map[string]int) {
+	key := strings.ToLower(f.Study)
+	seen[key]++
+	n := seen[key]
+	if n == 1 {
+		return
+	}
+	name := fmt.Sprintf("%s (%d)", f.Study, n)
+	if n <= 26 {
+		name = f.Study + string(rune('a'+n-1))
+	}
+	seen[strings.ToLower(name)]++
+	orig := f.Study
+	f.Study = name
+	for i := range f.Coefficients {
+		f.Coefficients[i].Study = name
+	}
+	for i := range f.Claims {
+		f.Claims[i].Study = name
+	}
+	for i := range f.Tables {
+		if len(f.Tables[i].Rows) > 0 && len(f.Tables[i].Rows[0]) > 1 && f.Tables[i].Rows[0][0] == "study" {
+			f.Tables[i].Rows[0][1] = name
+		}
+	}
+	f.confirm("", fmt.Sprintf("an earlier article of the import has the study key %q: this one is %q", orig, name), f.File)
 }
 
 // ReadFile reads one article, its format chosen by its content (a zip
