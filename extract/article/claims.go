@@ -44,6 +44,7 @@ var testWords = regexp.MustCompile(`(?i)\b(test of (the )?difference|difference 
 // row; otherwise it is listed to confirm, never guessed.
 func readClaims(a *Article, f *Found) {
 	n := 0
+	var names []named
 	for _, para := range a.Paragraphs {
 		for k, s := range Sentences(para.Text) {
 			place := fmt.Sprintf("%s, sentence %d", para.Place, k+1)
@@ -58,7 +59,10 @@ func readClaims(a *Article, f *Found) {
 					basis = extract.BasisTest
 				}
 			}
-			first, second, ok := matchPair(f, s, place)
+			if names == nil {
+				names = namesOf(f)
+			}
+			first, second, ok := matchPair(names, s, place)
 			if !ok {
 				f.confirm(place, fmt.Sprintf("a sentence comparing two effects (%s, basis %s) whose two coefficients could not be matched: add the claim by hand", cmp.published, basis), s)
 				continue
@@ -78,8 +82,19 @@ func readClaims(a *Article, f *Found) {
 	}
 }
 
+// comparisonWords are words one of which every comparison phrase holds.
+var comparisonWords = []string{"than", "differ", "overlap", "significant", "similar", "strongly", "stronger"}
+
 // comparisonOf finds the first comparison phrase in a sentence.
 func comparisonOf(s string) (comparison, bool) {
+	lower := strings.ToLower(s)
+	any := false
+	for _, w := range comparisonWords {
+		any = any || strings.Contains(lower, w)
+	}
+	if !any {
+		return comparison{}, false
+	}
 	for _, c := range comparisons {
 		if c.re.MatchString(s) {
 			return c, true
@@ -88,15 +103,34 @@ func comparisonOf(s string) (comparison, bool) {
 	return comparison{}, false
 }
 
+// named is a coefficient as matchPair looks for it: its label and place,
+// its predictor and group in lower case.
+type named struct {
+	label, source, predictor, group string
+	fromSentence                    bool
+}
+
+// namesOf lists the article's coefficients for matchPair, once.
+func namesOf(f *Found) []named {
+	out := make([]named, len(f.Coefficients))
+	for i := range f.Coefficients {
+		c := &f.Coefficients[i]
+		out[i] = named{label: c.Label, source: c.Source, predictor: strings.ToLower(c.Predictor), group: strings.ToLower(c.Group),
+			fromSentence: strings.Contains(c.Source, "sentence")}
+	}
+	return out
+}
+
 // matchPair finds the two coefficients a sentence compares: the two results
 // the sentence reports itself, else the only two coefficients of the
-// article whose predictor (or, between groups, group) the sentence names,
-// in the order it names them.
-func matchPair(f *Found, s, place string) (string, string, bool) {
+// article's tables whose predictor (and, between groups, group) the
+// sentence names, in the order it names them.
+func matchPair(names []named, s, place string) (string, string, bool) {
 	var own []string
-	for i := range f.Coefficients {
-		if strings.HasPrefix(f.Coefficients[i].Source, place) {
-			own = append(own, f.Coefficients[i].Label)
+	for i := range names {
+		if names[i].fromSentence && strings.HasPrefix(names[i].source, place) &&
+			(len(names[i].source) == len(place) || names[i].source[len(place)] == ',') {
+			own = append(own, names[i].label)
 		}
 	}
 	if len(own) == 2 {
@@ -111,18 +145,21 @@ func matchPair(f *Found, s, place string) (string, string, bool) {
 	}
 	var hits []hit
 	lower := strings.ToLower(s)
-	for i := range f.Coefficients {
-		c := &f.Coefficients[i]
-		if c.Predictor == "" || strings.Contains(c.Source, "sentence") {
+	for i := range names {
+		c := &names[i]
+		if c.predictor == "" || c.fromSentence {
 			continue
 		}
-		at := wordIndex(lower, strings.ToLower(c.Predictor))
-		if c.Group != "" && at >= 0 {
+		at := wordIndex(lower, c.predictor)
+		if c.group != "" && at >= 0 {
 			// Between samples, the sentence must name the group too.
-			at = wordIndex(lower, strings.ToLower(c.Group))
+			at = wordIndex(lower, c.group)
 		}
 		if at >= 0 {
-			hits = append(hits, hit{c.Label, at})
+			if len(hits) == 2 {
+				return "", "", false
+			}
+			hits = append(hits, hit{c.label, at})
 		}
 	}
 	if len(hits) != 2 || hits[0].at == hits[1].at {

@@ -6,8 +6,10 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
 	"coefaudit/extract"
 )
@@ -66,19 +68,43 @@ func Files(paths []string) ([]string, error) {
 // it, and the others go on; progress, when not nil, is called after each
 // file with the files done and their total. stdin is read for "-".
 func Import(files []string, stdin io.Reader, progress func(done, total int)) *Result {
+	found := make([]*Found, len(files))
+	errs := make([]error, len(files))
+	// The files are read by as many workers as there are cores, each
+	// file on its own; the results keep the order of the files.
+	next := make(chan int)
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	done := 0
+	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				found[i], errs[i] = ReadFile(files[i], stdin)
+				mu.Lock()
+				done++
+				if progress != nil {
+					progress(done, len(files))
+				}
+				mu.Unlock()
+			}
+		}()
+	}
+	for i := range files {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
 	res := &Result{}
 	studies := map[string]int{}
 	for i, file := range files {
-		f, err := ReadFile(file, stdin)
-		if err != nil {
-			res.Failed = append(res.Failed, &Failure{File: file, Err: err, Message: err.Error()})
-		} else {
-			distinctStudy(f, studies)
-			res.Articles = append(res.Articles, f)
+		if errs[i] != nil {
+			res.Failed = append(res.Failed, &Failure{File: file, Err: errs[i], Message: errs[i].Error()})
+			continue
 		}
-		if progress != nil {
-			progress(i+1, len(files))
-		}
+		distinctStudy(found[i], studies)
+		res.Articles = append(res.Articles, found[i])
 	}
 	return res
 }

@@ -57,6 +57,11 @@ type token struct {
 // CI, t or z and p after it, before the next estimate, are its own. A t, z
 // or p before any estimate is returned in orphans, as printed.
 func ParseReported(s string) (out []Reported, orphans []string) {
+	if !strings.ContainsAny(s, "=<>≤≥") {
+		// Every statistic is printed with a relation: no regular
+		// expression need run over the sentence.
+		return nil, nil
+	}
 	var toks []token
 	add := func(kind string, re *regexp.Regexp) {
 		for _, ix := range re.FindAllStringSubmatchIndex(s, -1) {
