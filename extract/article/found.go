@@ -17,6 +17,8 @@ type Found struct {
 	// ToConfirm lists every guess, every number not read and every table
 	// not read as a results table, with its place and the reason.
 	ToConfirm []Confirm `json:"to_confirm"`
+	// ConfirmCount is len(ToConfirm) where Open has dropped the lines.
+	ConfirmCount int `json:"-"`
 
 	labels map[string]int // the labels given, by uniqueLabel
 }

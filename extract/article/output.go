@@ -49,14 +49,39 @@ const Caution = "The numbers of these articles were read automatically from thei
 // input naming it, and the claims rows carrying their source, sentence and
 // "read: automatically" through to the report.
 func Source(res *Result) (*extract.Source, error) {
-	in, err := extract.ReadTextSheets("articles", res.Sheets())
-	if err != nil {
-		return nil, err
+	in := &extract.Input{Source: "articles"}
+	for _, f := range res.Articles {
+		if err := addArticle(in, f); err != nil {
+			return nil, err
+		}
 	}
 	for _, f := range res.Failed {
-		in.Problems = append(in.Problems, &extract.CellError{Position: extract.Position{File: f.File}, Err: f.Err})
+		addFailure(in, f.File, f.Err)
 	}
 	return extract.FromInput(in), nil
+}
+
+// addArticle reads one article's sheets into in, placed at its file, its
+// claims numbered after those before it.
+func addArticle(in *extract.Input, f *Found) error {
+	one, err := extract.ReadTextSheets(f.File, (&Result{Articles: []*Found{f}}).Sheets())
+	if err != nil {
+		return err
+	}
+	for i := range one.Claims {
+		one.Claims[i].Index += len(in.Claims)
+	}
+	in.Coefficients = append(in.Coefficients, one.Coefficients...)
+	in.Claims = append(in.Claims, one.Claims...)
+	in.Correlations = append(in.Correlations, one.Correlations...)
+	in.Tables = append(in.Tables, one.Tables...)
+	in.Problems = append(in.Problems, one.Problems...)
+	return nil
+}
+
+// addFailure adds a file not read as a problem of the input naming it.
+func addFailure(in *extract.Input, file string, err error) {
+	in.Problems = append(in.Problems, &extract.CellError{Position: extract.Position{File: file}, Err: err})
 }
 
 // IsArticleInput reports whether check should read path as articles
@@ -90,23 +115,43 @@ func IsArticleInput(path string) bool {
 	return false
 }
 
-// Open lists the article files of paths (Files), imports them (Import) and
-// makes their studies (Source).
+// Open lists the article files of paths (Files), imports them and makes
+// their studies as Source does, one article at a time: what an article
+// found is dropped once its rows are read, so that memory holds the rows
+// of the input contract, not every number's places and lines to confirm.
+// The Result returned names each article read (File, Format, Study, and
+// how many lines it has to confirm in ToConfirm's place: ConfirmCount)
+// and each file not read.
 func Open(paths []string, stdin io.Reader, progress func(done, total int)) (*extract.Source, *Result, error) {
 	files, err := Files(paths)
 	if err != nil {
 		return nil, nil, err
 	}
-	res := Import(files, stdin, progress)
-	src, err := Source(res)
-	return src, res, err
+	in := &extract.Input{Source: "articles"}
+	res := &Result{}
+	importEach(files, stdin, progress, func(file string, f *Found, ferr error) {
+		if ferr != nil {
+			res.Failed = append(res.Failed, &Failure{File: file, Err: ferr, Message: ferr.Error()})
+			addFailure(in, file, ferr)
+			return
+		}
+		if err == nil {
+			err = addArticle(in, f)
+		}
+		res.Articles = append(res.Articles, &Found{File: f.File, Format: f.Format, Study: f.Study, ConfirmCount: len(f.ToConfirm)})
+	})
+	if err != nil {
+		return nil, nil, err
+	}
+	return extract.FromInput(in), res, nil
 }
 
-// ToConfirmCount is the number of lines of the to confirm sheet.
+// ToConfirmCount is the number of lines to confirm: each article's and
+// a line for each file not read.
 func (r *Result) ToConfirmCount() int {
 	n := len(r.Failed)
 	for _, f := range r.Articles {
-		n += len(f.ToConfirm)
+		n += max(len(f.ToConfirm), f.ConfirmCount)
 	}
 	return n
 }

@@ -68,45 +68,69 @@ func Files(paths []string) ([]string, error) {
 // it, and the others go on; progress, when not nil, is called after each
 // file with the files done and their total. stdin is read for "-".
 func Import(files []string, stdin io.Reader, progress func(done, total int)) *Result {
-	found := make([]*Found, len(files))
-	errs := make([]error, len(files))
-	// The files are read by as many workers as there are cores, each
-	// file on its own; the results keep the order of the files.
+	res := &Result{}
+	importEach(files, stdin, progress, func(file string, f *Found, err error) {
+		if err != nil {
+			res.Failed = append(res.Failed, &Failure{File: file, Err: err, Message: err.Error()})
+			return
+		}
+		res.Articles = append(res.Articles, f)
+	})
+	return res
+}
+
+// importEach reads the files by as many workers as there are cores, each
+// file on its own, and hands each result to each in the order of the
+// files, its study made distinct from those before it (distinctStudy).
+// Only the results that came before their turn are held.
+func importEach(files []string, stdin io.Reader, progress func(done, total int), each func(file string, f *Found, err error)) {
+	type result struct {
+		i   int
+		f   *Found
+		err error
+	}
 	next := make(chan int)
+	results := make(chan result)
 	var wg sync.WaitGroup
-	var mu sync.Mutex
-	done := 0
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				found[i], errs[i] = ReadFile(files[i], stdin)
-				mu.Lock()
-				done++
-				if progress != nil {
-					progress(done, len(files))
-				}
-				mu.Unlock()
+				f, err := ReadFile(files[i], stdin)
+				results <- result{i, f, err}
 			}
 		}()
 	}
-	for i := range files {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
-	res := &Result{}
-	studies := map[string]int{}
-	for i, file := range files {
-		if errs[i] != nil {
-			res.Failed = append(res.Failed, &Failure{File: file, Err: errs[i], Message: errs[i].Error()})
-			continue
+	go func() {
+		for i := range files {
+			next <- i
 		}
-		distinctStudy(found[i], studies)
-		res.Articles = append(res.Articles, found[i])
+		close(next)
+		wg.Wait()
+		close(results)
+	}()
+	studies := map[string]int{}
+	pending := map[int]result{}
+	turn := 0
+	for r := range results {
+		pending[r.i] = r
+		for {
+			r, ok := pending[turn]
+			if !ok {
+				break
+			}
+			delete(pending, turn)
+			if r.err == nil {
+				distinctStudy(r.f, studies)
+			}
+			each(files[turn], r.f, r.err)
+			turn++
+			if progress != nil {
+				progress(turn, len(files))
+			}
+		}
 	}
-	return res
 }
 
 // distinctStudy renames an article's study when an earlier article of the
