@@ -109,6 +109,8 @@ func (rr *regressionReader) measure(s slot, where string) string {
 // starsToP sets p from the estimate's stars and the footnote that defines
 // them: "0.21**" under "**p < .01" has p < .01, an estimate without a star
 // p ≥ the largest threshold. Stars no footnote defines are to be confirmed.
+// Where a footnote says bold marks p below a bound, a bold estimate has p
+// below it and one in plain type p at or above it.
 func (rr *regressionReader) starsToP(c *CoefficientRow, est string, bold bool, src string) {
 	stars := strings.Count(est[len(strings.TrimRight(est, "*")):], "*")
 	switch {
@@ -122,6 +124,10 @@ func (rr *regressionReader) starsToP(c *CoefficientRow, est string, bold bool, s
 		}
 	case stars > 0:
 		rr.f.confirm(src, "stars but no footnote defining them: p not set", est)
+	case rr.ctx.boldP != "" && bold:
+		c.P, c.Places["p"] = rr.ctx.boldP, src+", in bold under "+rr.ctx.boldFoot
+	case rr.ctx.boldP != "":
+		c.P, c.Places["p"] = rr.ctx.boldNot, src+", not in bold under "+rr.ctx.boldFoot
 	}
 }
 

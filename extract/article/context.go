@@ -17,6 +17,9 @@ var (
 		regexp.MustCompile(`(?i)\bregressions?\s+of\s+([^.,;:()]+?)\s+on\b`),
 		regexp.MustCompile(`(?i)\b(?:dependent variable|outcome)\s*(?:is|was|=|:)\s*([^.,;:()]+)`),
 	}
+	// boldFootnote matches "Bold estimates are significant at p < .05" and
+	// "p < .05 in bold".
+	boldFootnote      = regexp.MustCompile(`(?i)\bbold\b[^.;]*?\bp\s*([<≤])\s*(0?\.\d+)|\bp\s*([<≤])\s*(0?\.\d+)[^.;]*?\bbold\b`)
 	standardizedWords = regexp.MustCompile(`(?i)\bstandardi[sz]ed\s+(regression\s+)?(coefficients?|estimates?|betas?)`)
 )
 
@@ -65,6 +68,13 @@ func contextOf(a *Article, t *Table, name string, f *Found) tableContext {
 			}
 		}
 		ctx.standardized = ctx.standardized || standardizedWords.MatchString(s)
+		if m := boldFootnote.FindStringSubmatch(s); m != nil && ctx.boldP == "" {
+			op, v := m[1], m[2]
+			if op == "" {
+				op, v = m[3], m[4]
+			}
+			ctx.boldP, ctx.boldNot, ctx.boldFoot = op+" "+v, "≥ "+v, where(i)+fmt.Sprintf(" (%q)", s)
+		}
 	}
 	return ctx
 }

@@ -111,6 +111,18 @@ var layouts = []layout{
 		},
 	},
 	{
+		name: "significance marked in bold, as the footnote says",
+		table: ttable{label: "Table 9", caption: "Hazard ratios of leaving the programme (N = 530)",
+			head: [][]tcell{cells("", "HR", "95% CI")},
+			body: [][]tcell{{{text: "Evening shifts", span: 1}, {text: "1.45", span: 1, bold: true}, {text: "1.13–1.86", span: 1}},
+				cells("Weekend shifts", "1.12", "0.90–1.39")},
+			foot: []string{"Note. Estimates in bold are significant at p < .05."}},
+		want: []want{
+			{predictor: "Evening shifts", model: "Table 9", measure: "hr", estimate: "1.45", ci: "1.13–1.86", level: "95", p: "< .05", n: "530", column: "HR"},
+			{predictor: "Weekend shifts", model: "Table 9", measure: "hr", estimate: "1.12", ci: "0.90–1.39", level: "95", p: "≥ .05", n: "530", column: "HR"},
+		},
+	},
+	{
 		name:    "a sample description",
 		table:   ttable{label: "Table 1", caption: "Characteristics of the sample", head: [][]tcell{cells("Characteristic", "n", "%")}, body: [][]tcell{cells("Girls", "210", "51.0"), cells("Boys", "202", "49.0")}},
 		nothing: "not read as a results table",

@@ -26,9 +26,12 @@ type tableContext struct {
 	largest      string         // the largest star threshold, "≥ .05" for no star
 	largestStars int            // the stars of the largest threshold
 	starsFoot    map[int]string // where each count of stars is defined
-	n, nPlace    string
-	outcome      string
-	standardized bool
+	// boldP is the p bound of a bold estimate where a footnote says bold
+	// marks significance, boldNot that of one in plain type.
+	boldP, boldNot, boldFoot string
+	n, nPlace                string
+	outcome                  string
+	standardized             bool
 }
 
 // readTables reads every table of an article into f: correlation tables,
