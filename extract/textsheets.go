@@ -4,6 +4,7 @@ import (
 	"archive/zip"
 	"fmt"
 	"io"
+	"iter"
 	"strings"
 )
 
@@ -92,4 +93,39 @@ const MaxXMLDepth = maxXMLDepth
 func OpenArchive(path string) (*zip.ReadCloser, error) {
 	zr, _, err := checkArchive(path)
 	return zr, err
+}
+
+// FromInputs makes one Source of inputs read one after another (the
+// articles of an import, each read into an Input of its own), so that
+// memory holds one input at a time, not all of them. Each input's studies
+// come as FromInput gives them, its claims numbered after those of the
+// inputs before it; its problems join the Source's as it is read, so that
+// Problems is complete once the studies have been read. claimColumns are
+// the claims rows' unknown columns, which must be known before the first
+// input is read. An error of inputs ends the studies.
+func FromInputs(path string, claimColumns []string, inputs iter.Seq2[*Input, error]) *Source {
+	s := &Source{Path: path, ClaimColumns: claimColumns}
+	s.studies = func(yield func(*Study, error) bool) {
+		offset := 0
+		for in, err := range inputs {
+			if err != nil {
+				yield(nil, err)
+				return
+			}
+			s.problems = append(s.problems, in.Problems...)
+			for st, err := range FromInput(in).Studies() {
+				if st != nil {
+					// FromInput numbers an input's claims from 0.
+					for i := range st.Claims {
+						st.Claims[i].Index += offset
+					}
+				}
+				if !yield(st, err) {
+					return
+				}
+			}
+			offset += len(in.Claims)
+		}
+	}
+	return s
 }

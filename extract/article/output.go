@@ -2,10 +2,12 @@ package article
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"coefaudit/extract"
@@ -61,21 +63,24 @@ func Source(res *Result) (*extract.Source, error) {
 	return extract.FromInput(in), nil
 }
 
-// addArticle reads one article's sheets into in, placed at its file, its
-// claims numbered after those before it.
+// addArticle reads one article's sheets into in, placed at its file.
 func addArticle(in *extract.Input, f *Found) error {
 	one, err := extract.ReadTextSheets(f.File, (&Result{Articles: []*Found{f}}).Sheets())
 	if err != nil {
 		return err
 	}
-	for i := range one.Claims {
-		one.Claims[i].Index += len(in.Claims)
-	}
 	in.Coefficients = append(in.Coefficients, one.Coefficients...)
 	in.Claims = append(in.Claims, one.Claims...)
 	in.Correlations = append(in.Correlations, one.Correlations...)
 	in.Tables = append(in.Tables, one.Tables...)
-	in.Problems = append(in.Problems, one.Problems...)
+	for _, p := range one.Problems {
+		// An article without a claim leaves its claims sheet a header:
+		// that is what was printed, not a problem of the input.
+		if len(f.Claims) == 0 && p.Sheet == "claims" && p.Row == 0 && errors.Is(p, extract.ErrMissingValue) {
+			continue
+		}
+		in.Problems = append(in.Problems, p)
+	}
 	return nil
 }
 
@@ -115,35 +120,37 @@ func IsArticleInput(path string) bool {
 	return false
 }
 
-// Open lists the article files of paths (Files), imports them and makes
-// their studies as Source does, one article at a time: what an article
-// found is dropped once its rows are read, so that memory holds the rows
-// of the input contract, not every number's places and lines to confirm.
-// The Result returned names each article read (File, Format, Study, and
-// how many lines it has to confirm in ToConfirm's place: ConfirmCount)
-// and each file not read.
+// Open lists the article files of paths (Files) and returns their
+// studies as Source makes them, but read one article at a time as the
+// studies are ranged over (extract.FromInputs): an article's numbers are
+// held only until its studies have been audited, and what it found beyond
+// its rows (the places, the lines to confirm) is dropped once its rows are
+// read, so that memory stays flat over a folder of any number of
+// articles. The Result names each article read (File, Format, Study and
+// ConfirmCount) and each file not read; like the Source's problems, it is
+// complete once the studies have been read.
 func Open(paths []string, stdin io.Reader, progress func(done, total int)) (*extract.Source, *Result, error) {
 	files, err := Files(paths)
 	if err != nil {
 		return nil, nil, err
 	}
-	in := &extract.Input{Source: "articles"}
 	res := &Result{}
-	importEach(files, stdin, progress, func(file string, f *Found, ferr error) {
-		if ferr != nil {
-			res.Failed = append(res.Failed, &Failure{File: file, Err: ferr, Message: ferr.Error()})
-			addFailure(in, file, ferr)
-			return
-		}
-		if err == nil {
-			err = addArticle(in, f)
-		}
-		res.Articles = append(res.Articles, &Found{File: f.File, Format: f.Format, Study: f.Study, ConfirmCount: len(f.ToConfirm)})
-	})
-	if err != nil {
-		return nil, nil, err
+	inputs := func(yield func(*extract.Input, error) bool) {
+		importEach(files, stdin, progress, func(file string, f *Found, ferr error) bool {
+			in := &extract.Input{Source: file}
+			if ferr != nil {
+				res.Failed = append(res.Failed, &Failure{File: file, Err: ferr, Message: ferr.Error()})
+				addFailure(in, file, ferr)
+				return yield(in, nil)
+			}
+			res.Articles = append(res.Articles, &Found{File: f.File, Format: f.Format, Study: f.Study, ConfirmCount: len(f.ToConfirm)})
+			if err := addArticle(in, f); err != nil {
+				return yield(nil, err)
+			}
+			return yield(in, nil)
+		})
 	}
-	return extract.FromInput(in), res, nil
+	return extract.FromInputs("articles", slices.Clone(claimHeader[6:]), inputs), res, nil
 }
 
 // ToConfirmCount is the number of lines to confirm: each article's and

@@ -69,12 +69,13 @@ func Files(paths []string) ([]string, error) {
 // file with the files done and their total. stdin is read for "-".
 func Import(files []string, stdin io.Reader, progress func(done, total int)) *Result {
 	res := &Result{}
-	importEach(files, stdin, progress, func(file string, f *Found, err error) {
+	importEach(files, stdin, progress, func(file string, f *Found, err error) bool {
 		if err != nil {
 			res.Failed = append(res.Failed, &Failure{File: file, Err: err, Message: err.Error()})
-			return
+			return true
 		}
 		res.Articles = append(res.Articles, f)
+		return true
 	})
 	return res
 }
@@ -82,8 +83,10 @@ func Import(files []string, stdin io.Reader, progress func(done, total int)) *Re
 // importEach reads the files by as many workers as there are cores, each
 // file on its own, and hands each result to each in the order of the
 // files, its study made distinct from those before it (distinctStudy).
-// Only the results that came before their turn are held.
-func importEach(files []string, stdin io.Reader, progress func(done, total int), each func(file string, f *Found, err error)) {
+// Only the results that came before their turn are held. When each
+// returns false no file is started any more and importEach returns once
+// the workers have stopped.
+func importEach(files []string, stdin io.Reader, progress func(done, total int), each func(file string, f *Found, err error) bool) {
 	type result struct {
 		i   int
 		f   *Found
@@ -91,6 +94,7 @@ func importEach(files []string, stdin io.Reader, progress func(done, total int),
 	}
 	next := make(chan int)
 	results := make(chan result)
+	stop := make(chan struct{})
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Add(1)
@@ -103,8 +107,13 @@ func importEach(files []string, stdin io.Reader, progress func(done, total int),
 		}()
 	}
 	go func() {
+	feed:
 		for i := range files {
-			next <- i
+			select {
+			case next <- i:
+			case <-stop:
+				break feed
+			}
 		}
 		close(next)
 		wg.Wait()
@@ -113,7 +122,11 @@ func importEach(files []string, stdin io.Reader, progress func(done, total int),
 	studies := map[string]int{}
 	pending := map[int]result{}
 	turn := 0
+	stopped := false
 	for r := range results {
+		if stopped {
+			continue // drained, so that the workers end
+		}
 		pending[r.i] = r
 		for {
 			r, ok := pending[turn]
@@ -124,7 +137,11 @@ func importEach(files []string, stdin io.Reader, progress func(done, total int),
 			if r.err == nil {
 				distinctStudy(r.f, studies)
 			}
-			each(files[turn], r.f, r.err)
+			if !each(files[turn], r.f, r.err) {
+				stopped = true
+				close(stop)
+				break
+			}
 			turn++
 			if progress != nil {
 				progress(turn, len(files))
