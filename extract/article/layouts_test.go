@@ -24,6 +24,9 @@ type layout struct {
 	// nothing is the start of the to confirm reason for a table that is
 	// not a results table ("" for one that is).
 	nothing string
+	// unread are the columns whose numbers are not read, each of which
+	// must have a line to confirm.
+	unread []string
 }
 
 var layouts = []layout{
@@ -77,6 +80,7 @@ var layouts = []layout{
 			body: [][]tcell{cells("Daily outdoor play", "0.62", "0.45–0.85", "8.90", "0.003"),
 				cells("Club sport", "1.07", "1.07–1.86", "4.12", "0.04"),
 				cells("Age group", "Ref.", "", "", "")}},
+		unread: []string{"Wald"},
 		want: []want{
 			{predictor: "Daily outdoor play", model: "Table 5", measure: "or", estimate: "0.62", ci: "0.45–0.85", level: "95", p: "0.003", n: "1,204", column: "Odds ratio"},
 			// Printed as is, though the estimate lies on its own limit: the
@@ -161,6 +165,15 @@ func checkLayout(t *testing.T, l layout, f *Found, tl *tally) {
 			t.Errorf("%s: no line saying the table was not read; to confirm: %+v", l.table.label, f.ToConfirm)
 		}
 		return
+	}
+	for _, col := range l.unread {
+		said := false
+		for _, c := range f.ToConfirm {
+			said = said || c.Place == fmt.Sprintf("%s, column %q", l.table.label, col)
+		}
+		if !said {
+			t.Errorf("%s: column %q not read, with no line saying so", l.table.label, col)
+		}
 	}
 	byKey := map[string]CoefficientRow{}
 	for _, c := range rows {

@@ -184,6 +184,7 @@ func readRegressionTable(a *Article, t *Table, name string, f *Found) bool {
 	ctx := contextOf(a, t, name, f)
 	rr := regressionReader{a: a, t: t, name: name, f: f, ctx: ctx, cols: cols, slots: slots}
 	rr.modelNames()
+	rr.unreadColumns()
 	rr.nRows(h)
 	for i := h; i < len(t.Rows); i++ {
 		i = rr.row(i)
@@ -364,5 +365,27 @@ func (rr *regressionReader) nRow(r Row, place string) {
 		if v := cell(r, rr.slots[k].est); v != "" && !isDash(v) {
 			rr.slots[k].n, rr.slots[k].nPlace = v, fmt.Sprintf("%s, column %q", place, rr.cols[rr.slots[k].est].head)
 		}
+	}
+}
+
+// unreadColumns lists the columns whose numbers are not read: a Wald
+// statistic, a column the header does not name as anything read, and a
+// column before the first estimate column.
+func (rr *regressionReader) unreadColumns() {
+	used := map[int]bool{}
+	for _, s := range rr.slots {
+		for _, j := range []int{s.est, s.se, s.stat, s.p, s.ci, s.lo, s.hi} {
+			used[j] = true
+		}
+	}
+	for j := 1; j < len(rr.cols); j++ {
+		if used[j] || rr.cols[j].head == "" {
+			continue
+		}
+		reason := "a column not read: its header names nothing the reader takes (B, SE, β, t, p, CI, OR, HR, RR)"
+		if rr.cols[j].role == roleWald {
+			reason = "a Wald column, not read: its statistic is the square of z, which the p column or the CI gives"
+		}
+		rr.f.confirm(fmt.Sprintf("%s, column %q", rr.name, rr.cols[j].head), reason, "")
 	}
 }
