@@ -55,7 +55,10 @@ func Run(studies iter.Seq2[*extract.Study, error], opts Options, emit func(Study
 				break
 			}
 			batch = append(batch, st)
-			if claims += len(st.Claims); claims >= batchClaims && !send() {
+			// A study without claims counts as one, so that a source of
+			// such studies (articles whose claims were not matched) is
+			// still handed out in batches rather than held whole.
+			if claims += max(len(st.Claims), 1); claims >= batchClaims && !send() {
 				return
 			}
 		}

@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"testing"
 
 	"coefaudit/extract"
@@ -123,5 +124,34 @@ func TestRunStopsOnErrors(t *testing.T) {
 	sum, err = Run(studies, DefaultOptions, func(r StudyResult) error { emitted += len(r.Claims); return nil })
 	if !errors.Is(err, bad) || emitted != 2 || sum.Claims != 2 {
 		t.Errorf("studies failing after 2: error %v, %d claims emitted, %d summed; want the error after both claims", err, emitted, sum.Claims)
+	}
+}
+
+// TestRunBatchesStudiesWithoutClaims: studies without claims (articles
+// whose claims were not matched) are audited as they come, not held until
+// the source ends. Before the fix the whole source was one batch.
+func TestRunBatchesStudiesWithoutClaims(t *testing.T) {
+	const n = 20 * batchClaims
+	var emitted atomic.Int64 // emit runs in Run's goroutine, the source in its own
+	atEnd := int64(-1)
+	studies := func(yield func(*extract.Study, error) bool) {
+		for i := range n {
+			st := &extract.Study{Name: "s" + strconv.Itoa(i),
+				Coefficients: []extract.Coefficient{{Study: "s" + strconv.Itoa(i), Label: "a"}}}
+			if !yield(st, nil) {
+				return
+			}
+		}
+		atEnd = emitted.Load()
+	}
+	_, err := Run(studies, DefaultOptions, func(StudyResult) error {
+		emitted.Add(1)
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if atEnd <= 0 || atEnd >= n {
+		t.Errorf("%d of %d studies were emitted when the source ended; want the first batches out before", atEnd, n)
 	}
 }

@@ -2,7 +2,6 @@ package extract
 
 import (
 	"errors"
-	"io"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -103,26 +102,9 @@ func writeWorkbook(t testing.TB, dir, file string, sheets ...xsheet) string {
 	return path
 }
 
-// fakeSource is a rowSource over fixed text rows, for the sheet readers.
-type fakeSource struct {
-	rows [][]string
-	i    int
-}
-
-func (s *fakeSource) Next(row *sheetRow) error {
-	if s.i >= len(s.rows) {
-		return io.EOF
-	}
-	row.Row, row.Fields, row.Problem = s.i+1, 0, nil
-	row.Cells = row.Cells[:0]
-	for _, c := range s.rows[s.i] {
-		row.Cells = append(row.Cells, sheetCell{Text: c})
-	}
-	s.i++
-	return nil
-}
-
-func (s *fakeSource) Close() error { return nil }
+// fakeSource is a rowSource over fixed text rows, for the sheet readers:
+// the one ReadTextSheets reads.
+type fakeSource = textSource
 
 // csvRows splits "a,b|c,d" style test tables into rows and cells.
 func csvRows(lines ...string) [][]string {

@@ -109,6 +109,9 @@ type Options struct {
 	// xlsx writer's long sheets), so that a caller can remove them should
 	// the run be cut short; the system's temporary folder when empty.
 	TempDir string
+	// Cautions are printed after the audit's own (audit.Cautions): that
+	// the numbers of articles were read automatically, say.
+	Cautions []string
 }
 
 // Check reads the input at path (a workbook, a folder of CSVs or a paired
@@ -131,13 +134,24 @@ func Check(path string, w io.Writer, format string, o Options) (audit.Summary, e
 	return run(src, wr, format, o)
 }
 
+// CheckSource is Check for a source already open, such as the articles an
+// import read into memory: the same path from Begin to End. The source is
+// not closed.
+func CheckSource(src *extract.Source, w io.Writer, format string, o Options) (audit.Summary, error) {
+	wr, err := newWriter(format, w, o)
+	if err != nil {
+		return audit.Summary{}, err
+	}
+	return run(src, wr, format, o)
+}
+
 // run writes the report of an open source.
 func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summary, error) {
 	if c, ok := wr.(io.Closer); ok {
 		defer c.Close()
 	}
 	h := Header{Source: o.Source, Alpha: extract.DefaultAlpha, ClaimColumns: src.ClaimColumns,
-		Adjust: o.Audit.Adjust, Cautions: audit.Cautions}
+		Adjust: o.Audit.Adjust, Cautions: append(slices.Clip(audit.Cautions), o.Cautions...)}
 	if h.Source == "" {
 		h.Source = src.Path
 	}

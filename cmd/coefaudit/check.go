@@ -7,6 +7,8 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/cmd/coefaudit/internal/progress"
+	"coefaudit/extract/article"
 	"coefaudit/report"
 
 	"github.com/spf13/cobra"
@@ -94,15 +96,20 @@ func (o *reportOptions) validate() error {
 // report gives it, the flags and the output stream.
 type checkOptions struct {
 	input, shown string
-	report       reportOptions
-	stdout       io.Writer
-	files        *output.Files
+	// articles are the articles to import and check at once, when the
+	// inputs are articles (article.IsArticleInput) rather than a workbook.
+	articles []string
+	stdin    io.Reader
+	stderr   io.Writer
+	report   reportOptions
+	stdout   io.Writer
+	files    *output.Files
 }
 
 func newCheckCmd(runF func(*checkOptions) error) *cobra.Command {
 	o := &checkOptions{}
 	cmd := &cobra.Command{
-		Use:   "check INPUT",
+		Use:   "check INPUT | ARTICLE...",
 		Short: "Audit the claims of a workbook, a folder of CSVs or a paired CSV",
 		Long: `Audit every claim of INPUT and say whether its published verdict stands.
 
@@ -115,6 +122,13 @@ INPUT is one of
     (columns first_estimate, first_ci_low, ..., second_estimate, ...).
 "coefaudit template FILE.xlsx" writes a blank workbook that explains every
 column.
+
+Given articles instead (JATS XML, HTML, DOCX or text files, "-", or a
+folder of them, as "coefaudit import" reads them), check imports them and
+audits what was read in one step, to screen a literature: every result is
+marked as read automatically, and files that cannot be read are listed
+among the problems. Confirm what a screening flags with "coefaudit import"
+before acting on it.
 
 Every claims row appears once in the report, in input order, with an
 outcome: consistent, unsupported, missed, reversed (the test shows the
@@ -153,13 +167,18 @@ to count each study's rows first. The summary follows the claims.`,
   coefaudit check literature.csv --format csv --out audit.csv   # a paired CSV
   coefaudit check review.xlsx --format xlsx --out audit.xlsx
   coefaudit check review.xlsx --format html --out audit.html
-  coefaudit check review.xlsx --fail-on unsupported,missed,reversed,conflict,indeterminate`,
-		Args: cobra.ExactArgs(1),
+  coefaudit check review.xlsx --fail-on unsupported,missed,reversed,conflict,indeterminate
+  coefaudit check articles/ --format csv --out screening.csv   # a folder of articles`,
+		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := o.report.validate(); err != nil {
 				return err
 			}
+			if len(args) > 1 || article.IsArticleInput(args[0]) {
+				o.articles = args
+			}
 			o.input, o.shown, o.stdout, o.files = args[0], args[0], cmd.OutOrStdout(), runFiles(cmd)
+			o.stdin, o.stderr = cmd.InOrStdin(), cmd.ErrOrStderr()
 			if runF != nil {
 				return runF(o)
 			}
@@ -186,7 +205,12 @@ func runCheck(o *checkOptions) error {
 			return finish(o.files, err)
 		}
 	}
-	sum, err := report.Check(o.input, t, o.report.format, ro)
+	var sum audit.Summary
+	if len(o.articles) > 0 {
+		sum, err = checkArticles(o, t, ro)
+	} else {
+		sum, err = report.Check(o.input, t, o.report.format, ro)
+	}
 	if err == nil {
 		err = t.Close()
 	}
@@ -194,4 +218,17 @@ func runCheck(o *checkOptions) error {
 		err = errFlagged
 	}
 	return finish(o.files, err)
+}
+
+// checkArticles imports the articles and audits what was read, with the
+// caution that it was read automatically.
+func checkArticles(o *checkOptions, w io.Writer, ro report.Options) (audit.Summary, error) {
+	bar := progress.New(o.stderr, "reading articles")
+	src, _, err := article.Open(o.articles, o.stdin, bar.Update)
+	bar.Done()
+	if err != nil {
+		return audit.Summary{}, err
+	}
+	ro.Cautions = append(ro.Cautions, article.Caution)
+	return report.CheckSource(src, w, o.report.format, ro)
 }

@@ -69,7 +69,7 @@ load it.`,
 	root.SetErr(stderr)
 	// A flag cobra cannot parse is a usage error, like one a command rejects.
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return flagError{err} })
-	root.AddCommand(newCheckCmd(nil), newDemoCmd(nil), newTemplateCmd(nil), newCompareCmd(nil), newBootstrapCmd(nil), newPoolCmd(nil), newVersionCmd(nil))
+	root.AddCommand(newCheckCmd(nil), newDemoCmd(nil), newTemplateCmd(nil), newCompareCmd(nil), newBootstrapCmd(nil), newPoolCmd(nil), newVersionCmd(nil), newImportCmd(nil))
 	return root
 }
 

@@ -1,0 +1,137 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/cmd/coefaudit/internal/progress"
+	"coefaudit/extract/article"
+
+	"github.com/spf13/cobra"
+)
+
+// importOptions are what import runs with.
+type importOptions struct {
+	inputs []string
+	out    string
+	format string
+	stdin  io.Reader
+	stdout io.Writer
+	stderr io.Writer
+	files  *output.Files
+}
+
+func newImportCmd(runF func(*importOptions) error) *cobra.Command {
+	o := &importOptions{}
+	cmd := &cobra.Command{
+		Use:   "import ARTICLE...",
+		Short: "Read the tables and reported results of articles into a workbook to confirm",
+		Long: `Read what articles printed and write the workbook that "check" takes, for a
+reviewer to confirm. ARTICLE is a JATS XML file (.xml, .nxml), an HTML page,
+a DOCX manuscript, a plain-text results section, "-" for text on standard
+input, or a folder of such files.
+
+Read are regression tables (predictor rows; B, SE, β, t, p, CI and OR
+columns; models side by side or stacked; SEs in parentheses under the
+estimates; stars with the footnote that defines them as p bounds; n and the
+outcome from the caption and footnotes), correlation tables (written as
+"table ..." sheets), results reported in sentences ("β = .34, 95% CI [.21,
+.47], p < .001", "r(198) = .45", "OR = 1.80, 95% CI 1.21-2.68") and
+sentences that compare two effects (candidate claims).
+
+Every number keeps its text as printed and its place (the "source" column:
+table, row, column, model, or paragraph and sentence). Every guess, every
+number not read and every table not read as a results table is a line of
+the "to confirm" sheet. A reader never repairs a number: an estimate outside
+its own interval stays as printed, for check to flag.
+
+--out FILE.xlsx writes a workbook; --out DIR writes a folder of CSV files
+(created if missing; its files replaced); --format json writes everything
+found, with places, to --out or standard output. A file that cannot be read
+is named on standard error and on the "to confirm" sheet, and the others go
+on; the exit status is 2 only when no file could be read.`,
+		Example: `  coefaudit import article.xml --out review.xlsx
+  coefaudit import articles/ --out review/            # a folder of CSV files
+  coefaudit import manuscript.docx --format json
+  pbpaste | coefaudit import - --out review.xlsx`,
+		Args: cobra.MinimumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			switch {
+			case o.format != "" && o.format != "json" && o.format != "xlsx" && o.format != "csv":
+				return flagErrorf("--format %q: want xlsx, csv or json", o.format)
+			case o.format != "json" && o.out == "":
+				return flagErrorf("give --out FILE.xlsx, --out DIR (CSV files) or --format json")
+			}
+			o.inputs, o.stdin, o.stdout, o.stderr, o.files = args, cmd.InOrStdin(), cmd.OutOrStdout(), cmd.ErrOrStderr(), runFiles(cmd)
+			if runF != nil {
+				return runF(o)
+			}
+			return runImport(o)
+		},
+	}
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "the workbook (.xlsx), a folder for CSV files, or with --format json a file (- or nothing: standard output)")
+	cmd.Flags().StringVarP(&o.format, "format", "f", "", "xlsx, csv (a folder) or json; by default xlsx for --out *.xlsx and csv otherwise")
+	return cmd
+}
+
+// runImport reads the articles and writes what they printed.
+func runImport(o *importOptions) error {
+	files, err := article.Files(o.inputs)
+	if err != nil {
+		return finish(o.files, flagError{err})
+	}
+	bar := progress.New(o.stderr, "reading articles")
+	res := article.Import(files, o.stdin, bar.Update)
+	bar.Done()
+	for _, f := range res.Failed {
+		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
+	}
+	format := o.format
+	if format == "" {
+		format = "csv"
+		if strings.EqualFold(filepath.Ext(o.out), ".xlsx") {
+			format = "xlsx"
+		}
+	}
+	if format == "csv" {
+		err = writeImportFolder(o, res)
+	} else {
+		err = writeImportFile(o, res, format)
+	}
+	if err == nil && len(res.Articles) == 0 {
+		err = fmt.Errorf("no file could be read as an article")
+	}
+	return finish(o.files, err)
+}
+
+// writeImportFile writes the workbook or the JSON document.
+func writeImportFile(o *importOptions, res *article.Result, format string) error {
+	t, err := o.files.Open(o.stdout, o.out, o.inputs[0])
+	if err != nil {
+		return flagError{err}
+	}
+	if format == "xlsx" {
+		err = article.WriteWorkbook(t, res.Sheets())
+	} else {
+		err = article.WriteJSON(t, res)
+	}
+	if err != nil {
+		return err
+	}
+	return t.Close()
+}
+
+// writeImportFolder writes the CSV folder, creating the folder itself (not
+// its parents) when missing.
+func writeImportFolder(o *importOptions, res *article.Result) error {
+	if err := os.Mkdir(o.out, 0o755); err != nil && !os.IsExist(err) {
+		return flagError{fmt.Errorf("--out %s: %w", o.out, err)}
+	}
+	return article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
+		return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
+	})
+}

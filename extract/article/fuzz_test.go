@@ -1,0 +1,79 @@
+package article
+
+import (
+	"bytes"
+	"strings"
+	"testing"
+
+	"coefaudit/extract"
+)
+
+// checkFound is what every reader must give whatever its input: sheets
+// that extract's readers take without failing, and estimates that are
+// text of the input, never a number the reader made up.
+func checkFound(t *testing.T, input string, a *Article) {
+	f := Recognise(a)
+	res := &Result{Articles: []*Found{f}}
+	if _, err := extract.ReadTextSheets("fuzz", res.Sheets()); err != nil {
+		t.Fatalf("the sheets of an import do not read back: %v", err)
+	}
+	for _, c := range f.Coefficients {
+		est := strings.TrimRight(c.Estimate, "*")
+		if !strings.Contains(input, est) && !strings.Contains(squeeze(input), est) {
+			t.Fatalf("estimate %q is not in the input", c.Estimate)
+		}
+	}
+}
+
+func FuzzReadJATS(f *testing.F) {
+	f.Add(jatsArticle(tarticle{author: "Quillon", year: "2026", paras: []string{"Sleep (β = .34, p < .001) was stronger than screen time (β = .10)."},
+		tables: []ttable{layouts[0].table, layouts[1].table, correlationTable}}))
+	f.Add("<article><body><table-wrap><table><tr><td rowspan=\"900\" colspan=\"900\">1</td></tr></table></table-wrap></body></article>")
+	f.Add("<article><body><p>&amp;&lt;&nbsp;</p></body></article>")
+	f.Fuzz(func(t *testing.T, s string) {
+		a, err := ReadJATS(strings.NewReader(s), "fuzz.xml")
+		if err != nil {
+			return
+		}
+		checkFound(t, s, a)
+	})
+}
+
+func FuzzReadHTML(f *testing.F) {
+	f.Add(htmlArticle(tarticle{author: "Quillon", year: "2026", paras: []string{"b = 0.41, SE = 0.12, t(120) = 3.20."},
+		tables: []ttable{layouts[2].table, layouts[4].table}}))
+	f.Add("<table><tr><td rowspan=3>x<td>1<tr><td>2</table><p>Note. N = 3")
+	f.Fuzz(func(t *testing.T, s string) {
+		a, err := ReadHTML(strings.NewReader(s), "fuzz.html")
+		if err != nil {
+			return
+		}
+		checkFound(t, s, a)
+	})
+}
+
+// FuzzReadDOCX fuzzes the document part, which is what ReadDOCX reads
+// once the archive has passed extract.OpenArchive's checks.
+func FuzzReadDOCX(f *testing.F) {
+	f.Add(docxDocument(tarticle{paras: []string{"OR = 1.80, 95% CI 1.21–2.68."}, tables: []ttable{layouts[3].table}}))
+	f.Add(`<w:document xmlns:w="x"><w:body><w:tbl><w:tr><w:tc><w:tcPr><w:gridSpan w:val="99999"/><w:vMerge/></w:tcPr></w:tc></w:tr></w:tbl></w:body></w:document>`)
+	f.Fuzz(func(t *testing.T, s string) {
+		a, err := readDOCX(strings.NewReader(s), "fuzz.docx")
+		if err != nil {
+			return
+		}
+		checkFound(t, s, a)
+	})
+}
+
+func FuzzReadText(f *testing.F) {
+	f.Add("Girls (β = .30, p = .01) and boys (β = .10, p = .20) differed.\n\nr(198) = .45, p < .001.")
+	f.Add("OR = 1.80, 95% CI 1.21–2.68; HR = 0.9, 99% CI [0.5, 1.1]")
+	f.Fuzz(func(t *testing.T, s string) {
+		a, err := ReadText(bytes.NewReader([]byte(s)), "fuzz.txt")
+		if err != nil {
+			return
+		}
+		checkFound(t, s, a)
+	})
+}

@@ -1,0 +1,109 @@
+package article
+
+import (
+	"fmt"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+)
+
+// abbreviations end in a period without ending a sentence.
+var abbreviations = []string{"e.g.", "i.e.", "et al.", "vs.", "Fig.", "Figs.", "cf.", "approx.", "No.", "Tab.", "ca.", "resp."}
+
+// Sentences splits a paragraph into sentences: after ".", "!" or "?"
+// followed by space and an upper-case letter or a digit, unless the period
+// ends a common abbreviation.
+func Sentences(p string) []string {
+	var out []string
+	start := 0
+	for i := 0; i < len(p); {
+		r, size := utf8.DecodeRuneInString(p[i:])
+		i += size
+		if r != '.' && r != '!' && r != '?' {
+			continue
+		}
+		j := i
+		for j < len(p) && p[j] == ' ' {
+			j++
+		}
+		if j == i || j >= len(p) {
+			continue
+		}
+		next, _ := utf8.DecodeRuneInString(p[j:])
+		if !unicode.IsUpper(next) && !unicode.IsDigit(next) {
+			continue
+		}
+		if endsAbbreviation(p[start:i]) {
+			continue
+		}
+		out = append(out, strings.TrimSpace(p[start:i]))
+		start = j
+	}
+	if rest := strings.TrimSpace(p[start:]); rest != "" {
+		out = append(out, rest)
+	}
+	return out
+}
+
+func endsAbbreviation(s string) bool {
+	for _, a := range abbreviations {
+		if strings.HasSuffix(s, " "+a) || s == a {
+			return true
+		}
+	}
+	return false
+}
+
+// readSentences reads the results every sentence of the article reports
+// into coefficients rows named from the sentence, which the reviewer is
+// asked to confirm; a t, z or p with no estimate is listed to confirm.
+func readSentences(a *Article, f *Found) {
+	for _, para := range a.Paragraphs {
+		for k, s := range Sentences(para.Text) {
+			place := fmt.Sprintf("%s, sentence %d", para.Place, k+1)
+			reps, orphans := ParseReported(s)
+			for _, o := range orphans {
+				f.confirm(place, "a statistic with no estimate before it in the sentence: not read", o)
+			}
+			for i, r := range reps {
+				rplace := place
+				if len(reps) > 1 {
+					rplace = fmt.Sprintf("%s, result %d", place, i+1)
+				}
+				f.Coefficients = append(f.Coefficients, sentenceCoefficient(a, f, r, rplace))
+				if r.Name == "" {
+					f.confirm(rplace, "the sentence does not name what the estimate is of: predictor left blank", s)
+				}
+			}
+			if len(reps) > 0 {
+				f.confirm(place, fmt.Sprintf("%d result(s) read from a sentence: confirm each one's predictor, group and model", len(reps)), s)
+			}
+		}
+	}
+}
+
+// sentenceCoefficient makes a coefficients row of a result a sentence reports.
+func sentenceCoefficient(a *Article, f *Found, r Reported, place string) CoefficientRow {
+	c := CoefficientRow{Study: a.Study, Measure: r.Measure, Predictor: r.Name, Estimate: r.Estimate, SE: r.SE, CI: r.CI,
+		Stat: r.Stat, P: r.P, Source: place, Places: map[string]string{"estimate": place}}
+	for name, v := range map[string]string{"se": r.SE, "ci": r.CI, "stat": r.Stat, "p": r.P} {
+		if v != "" {
+			c.Places[name] = place
+		}
+	}
+	if c.CI != "" {
+		c.CILevel = r.CILevel
+	}
+	switch {
+	case r.DF != "":
+		c.DF, c.Places["df"] = r.DF, place
+	case r.StatDF != "":
+		c.DF, c.Places["df"] = r.StatDF, place
+	}
+	name := r.Name
+	if name == "" {
+		name = r.Symbol
+	}
+	c.Label = uniqueLabel(f, name, place, place, "")
+	return c
+}

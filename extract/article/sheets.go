@@ -1,0 +1,160 @@
+package article
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strings"
+
+	"coefaudit/extract"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// ToConfirmSheet is the name of the sheet listing what the reviewer must
+// confirm; the readers of the input contract ignore it.
+const ToConfirmSheet = "to confirm"
+
+// ReadAutomatically is the value of the "read" column of every row an
+// import writes: the numbers were read by a program, not typed by a
+// person, and a report of them says so.
+const ReadAutomatically = "automatically"
+
+var (
+	coefficientHeader = []string{"study", "label", "measure", "outcome", "predictor", "group", "model", "estimate",
+		"ci_low", "ci_high", "ci", "ci_level", "se", "stat", "p", "df", "n", "source", "read"}
+	claimHeader   = []string{"study", "claim", "first", "second", "published", "basis", "sentence", "source", "read"}
+	confirmHeader = []string{"file", "place", "reason", "text"}
+)
+
+// maxSheetName is the longest sheet name a spreadsheet program accepts.
+const maxSheetName = 31
+
+// Sheets lays the result out as the sheets of the input contract:
+// coefficients and claims with their source and read columns, one
+// "table …" sheet per correlation table, and the "to confirm" sheet, which
+// also lists the files that could not be read.
+func (r *Result) Sheets() []extract.TextSheet {
+	coefs := [][]string{coefficientHeader}
+	claims := [][]string{claimHeader}
+	confirm := [][]string{confirmHeader}
+	var tables []extract.TextSheet
+	used := map[string]bool{"coefficients": true, "claims": true, ToConfirmSheet: true}
+	for _, f := range r.Articles {
+		for _, c := range f.Coefficients {
+			coefs = append(coefs, []string{c.Study, c.Label, c.Measure, c.Outcome, c.Predictor, c.Group, c.Model, c.Estimate,
+				c.CILow, c.CIHigh, c.CI, c.CILevel, c.SE, c.Stat, c.P, c.DF, c.N, f.File + ": " + c.Source, ReadAutomatically})
+		}
+		for _, c := range f.Claims {
+			claims = append(claims, []string{c.Study, c.Claim, c.First, c.Second, c.Published, c.Basis, c.Sentence,
+				f.File + ": " + c.Source, ReadAutomatically})
+		}
+		for _, t := range f.Tables {
+			tables = append(tables, extract.TextSheet{Name: sheetName(extract.TablePrefix+f.Study+" "+t.Name, used), Rows: t.Rows})
+		}
+		for _, c := range f.ToConfirm {
+			confirm = append(confirm, []string{c.File, c.Place, c.Reason, c.Text})
+		}
+	}
+	for _, fl := range r.Failed {
+		confirm = append(confirm, []string{fl.File, "", "not read: " + fl.Message, ""})
+	}
+	out := []extract.TextSheet{{Name: "coefficients", Rows: coefs}, {Name: "claims", Rows: claims}}
+	out = append(out, tables...)
+	return append(out, extract.TextSheet{Name: ToConfirmSheet, Rows: confirm})
+}
+
+// sheetName makes a valid, unused sheet name: without the characters a
+// sheet name may not hold, cut to maxSheetName runes.
+func sheetName(name string, used map[string]bool) string {
+	clean := []rune(strings.Map(func(r rune) rune {
+		if strings.ContainsRune(`[]:*?/\`, r) {
+			return '_'
+		}
+		return r
+	}, name))
+	if len(clean) > maxSheetName {
+		clean = clean[:maxSheetName]
+	}
+	cand := strings.TrimRight(string(clean), "' ")
+	for k := 2; used[strings.ToLower(cand)]; k++ {
+		suffix := fmt.Sprintf(" %d", k)
+		b := clean
+		if len(b)+len(suffix) > maxSheetName {
+			b = b[:maxSheetName-len(suffix)]
+		}
+		cand = string(b) + suffix
+	}
+	used[strings.ToLower(cand)] = true
+	return cand
+}
+
+// WriteWorkbook writes the sheets as an .xlsx workbook to w, every cell a
+// text cell in the text number format, so that "0.40" keeps its zero and
+// "=…" is never a formula, with the header rows bold and frozen.
+func WriteWorkbook(w io.Writer, sheets []extract.TextSheet) error {
+	f := excelize.NewFile()
+	defer f.Close()
+	text, err := f.NewStyle(&excelize.Style{NumFmt: 49})
+	if err != nil {
+		return err
+	}
+	bold, err := f.NewStyle(&excelize.Style{NumFmt: 49, Font: &excelize.Font{Bold: true}})
+	if err != nil {
+		return err
+	}
+	for i, s := range sheets {
+		if i == 0 {
+			err = f.SetSheetName("Sheet1", s.Name)
+		} else {
+			_, err = f.NewSheet(s.Name)
+		}
+		if err != nil {
+			return fmt.Errorf("sheet %q: %w", s.Name, err)
+		}
+		if err := writeSheet(f, s, text, bold); err != nil {
+			return fmt.Errorf("sheet %q: %w", s.Name, err)
+		}
+	}
+	return f.Write(w)
+}
+
+func writeSheet(f *excelize.File, s extract.TextSheet, text, bold int) error {
+	sw, err := f.NewStreamWriter(s.Name)
+	if err != nil {
+		return err
+	}
+	table := strings.HasPrefix(s.Name, extract.TablePrefix)
+	if !table {
+		if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
+			return err
+		}
+	}
+	for r, row := range s.Rows {
+		style := text
+		if r == 0 && !table {
+			style = bold
+		}
+		cells := make([]any, len(row))
+		for j, v := range row {
+			cells[j] = excelize.Cell{StyleID: style, Value: v}
+		}
+		cell, _ := excelize.CoordinatesToCellName(1, r+1)
+		if err := sw.SetRow(cell, cells); err != nil {
+			return err
+		}
+	}
+	return sw.Flush()
+}
+
+// CSVName is the file name of a sheet in a folder of CSV files.
+func CSVName(sheet string) string { return sheet + ".csv" }
+
+// WriteCSV writes one sheet as CSV (RFC 4180) to w.
+func WriteCSV(w io.Writer, s extract.TextSheet) error {
+	cw := csv.NewWriter(w)
+	if err := cw.WriteAll(s.Rows); err != nil {
+		return err
+	}
+	return cw.Error()
+}
