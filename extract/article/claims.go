@@ -28,10 +28,14 @@ var comparisons = []comparison{
 	{re: regexp.MustCompile(`(?i)\b(confidence )?intervals?\b[^;]{0,60}\boverlapp?(ed)?\b`), published: extract.PublishedNoDifference, basis: extract.BasisOverlap},
 	{re: regexp.MustCompile(`(?i)\bsignificant (for|in|among) [^;]{1,100}?\bbut not (for|in|among)\b`), published: extract.PublishedDiffer, basis: extract.BasisSignificanceSplit},
 	{re: regexp.MustCompile(`(?i)\b(did not|do not|does not|didn't) differ|\bno (significant )?difference|\bdid not differ significantly|\bsimilar in (size|magnitude|strength)`), published: extract.PublishedNoDifference},
-	{re: regexp.MustCompile(`(?i)\b(weaker|smaller|less strongly|lower)\b[^.;]{0,60}\bthan\b|\bless strongly (associated|related)`), published: extract.PublishedSecondLarger, swap: true,
-		note: "\"weaker\" or \"smaller\" may compare magnitudes: read as second-larger"},
-	{re: regexp.MustCompile(`(?i)\b(stronger|larger|greater|bigger|higher)\b[^.;]{0,60}\bthan\b|\bmore strongly (associated|related|predicted|linked)|\bstronger (association|effect|predictor)`), published: extract.PublishedFirstLarger,
-		note: "\"stronger\" or \"larger\" may compare magnitudes: read as first-larger"},
+	{re: regexp.MustCompile(`(?i)\bweaker\b[^.;]{0,60}\bthan\b|\bless strongly (associated|related|predicted|linked)`), published: extract.PublishedSecondStronger, swap: true,
+		note: "\"weaker\" read as a comparison of magnitudes (second-stronger); if the paper compares signed values, use second-larger"},
+	{re: regexp.MustCompile(`(?i)\b(smaller|lower)\b[^.;]{0,60}\bthan\b`), published: extract.PublishedSecondLarger, swap: true,
+		note: "\"smaller\" or \"lower\" read as signed (second-larger); if the paper compares magnitudes, use second-stronger"},
+	{re: regexp.MustCompile(`(?i)\bstronger\b[^.;]{0,60}\bthan\b|\bmore strongly (associated|related|predicted|linked)|\bstronger (association|effect|predictor)`), published: extract.PublishedFirstStronger,
+		note: "\"stronger\" read as a comparison of magnitudes (first-stronger); if the paper compares signed values, use first-larger"},
+	{re: regexp.MustCompile(`(?i)\b(larger|greater|bigger|higher)\b[^.;]{0,60}\bthan\b`), published: extract.PublishedFirstLarger,
+		note: "\"larger\" read as signed (first-larger); if the paper compares magnitudes, use first-stronger"},
 	{re: regexp.MustCompile(`(?i)\b(differed|differ) (significantly )?(between|from|across)|\bsignificantly different\b`), published: extract.PublishedDiffer},
 }
 
@@ -67,9 +71,10 @@ func readClaims(a *Article, f *Found) {
 				f.confirm(place, fmt.Sprintf("a sentence comparing two effects (%s, basis %s) whose two coefficients could not be matched: add the claim by hand", cmp.published, basis), s)
 				continue
 			}
-			if cmp.swap {
+			if cmp.swap { // "A weaker than B" is "B stronger than A"
 				first, second = second, first
-				cmp.published = extract.PublishedFirstLarger
+				cmp.published = map[string]string{extract.PublishedSecondStronger: extract.PublishedFirstStronger,
+					extract.PublishedSecondLarger: extract.PublishedFirstLarger}[cmp.published]
 			}
 			n++
 			f.Claims = append(f.Claims, ClaimRow{Study: a.Study, Claim: fmt.Sprintf("C%d", n), First: first, Second: second,

@@ -81,7 +81,7 @@ The confidence intervals of the two sites overlapped (OR = 1.80, 95% CI 1.21–2
 		t.Fatalf("%d coefficients, want 6: %+v", len(f.Coefficients), f.Coefficients)
 	}
 	want := []struct{ published, basis, firstEst, secondEst string }{
-		{"first-larger", "unstated", ".34", ".12"},
+		{"first-stronger", "unstated", ".34", ".12"}, // "stronger" compares magnitudes
 		{"differ", "significance-split", "0.41", "0.09"},
 		{"no-difference", "overlap", "1.80", "1.40"},
 	}
