@@ -200,17 +200,12 @@ func openPaired(path string) (*Source, error) {
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})
 	}
 	s.studies = func(yield func(*Study, error) bool) {
-		f, err := os.Open(path)
+		pr, f, err := openPairedReader(path)
 		if err != nil {
 			yield(nil, err)
 			return
 		}
 		defer f.Close()
-		pr, err := NewPairedReader(f, path)
-		if err != nil {
-			yield(nil, err)
-			return
-		}
 		a := newStudyAssembler(counts) // counts is spent: the sequence is ranged once
 		for {
 			pc, err := pr.Next()
@@ -248,17 +243,12 @@ func openPaired(path string) (*Source, error) {
 // than MaxFamily, from the first pass, and repeated the claim keys that
 // may be used twice; both are only read.
 func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yield func(*Study, error) bool) {
-	f, err := os.Open(path)
+	pr, f, err := openPairedReader(path)
 	if err != nil {
 		yield(nil, err)
 		return
 	}
 	defer f.Close()
-	pr, err := NewPairedReader(f, path)
-	if err != nil {
-		yield(nil, err)
-		return
-	}
 	seen := duplicateClaims{}
 	read := rowCounts{} // claims rows read so far, by long study
 	var run *Study
@@ -306,6 +296,21 @@ func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yiel
 	flush()
 }
 
+// openPairedReader opens the paired CSV at path for one pass; the caller
+// closes the file.
+func openPairedReader(path string) (*PairedReader, *os.File, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	pr, err := NewPairedReader(f, path)
+	if err != nil {
+		f.Close()
+		return nil, nil, err
+	}
+	return pr, f, nil
+}
+
 // yieldPaired yields a study of a paired CSV, its claim keys checked for
 // duplicates within it (duplicateClaims.checkPaired).
 func yieldPaired(st *Study, yield func(*Study, error) bool) bool {
@@ -328,15 +333,11 @@ func yieldChecked(st *Study, yield func(*Study, error) bool) bool {
 // keys may be used twice (repeatedKeys), so that the pieces (Source.
 // Pieces) need hold only those keys to find duplicates across a study.
 func countPaired(path string) (counts map[string]int, interleaved bool, repeated *repeatedKeys, extra []string, problems []*CellError, err error) {
-	f, err := os.Open(path)
+	pr, f, err := openPairedReader(path)
 	if err != nil {
 		return nil, false, nil, nil, nil, err
 	}
 	defer f.Close()
-	pr, err := NewPairedReader(f, path)
-	if err != nil {
-		return nil, false, nil, nil, nil, err
-	}
 	rows := rowCounts{}
 	last := ""
 	keys := &repeatedKeys{seed: maphash.MakeSeed()}
