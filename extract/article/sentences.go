@@ -2,9 +2,12 @@ package article
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 	"unicode"
 	"unicode/utf8"
+
+	"coefaudit/extract"
 )
 
 // abbreviations end in a period without ending a sentence.
@@ -97,6 +100,13 @@ func sentenceCoefficient(a *Article, f *Found, r Reported, place string) Coeffic
 	switch {
 	case r.DF != "":
 		c.DF, c.Places["df"] = r.DF, place
+		// A correlation printed as r(df) has df = n − 2: its n is what the
+		// test of a correlation needs (Fisher's z), so it is written, and
+		// listed to confirm as a number the sentence implies, not prints.
+		if df, err := strconv.Atoi(r.DF); err == nil && df > 0 && r.Measure == extract.MeasureR {
+			c.N, c.Places["n"] = strconv.Itoa(df+2), place
+			f.confirm(place, fmt.Sprintf("n = %d taken as df + 2 from r(%s)", df+2, r.DF), r.Symbol+"("+r.DF+") = "+r.Estimate)
+		}
 	case r.StatDF != "":
 		c.DF, c.Places["df"] = r.StatDF, place
 	}

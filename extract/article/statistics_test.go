@@ -110,3 +110,29 @@ The confidence intervals of the two sites overlapped (OR = 1.80, 95% CI 1.21–2
 		t.Errorf("study %q, format %q, want results, text", f.Study, f.Format)
 	}
 }
+
+// TestSentenceCorrelationN: a correlation printed as r(df) gives n = df + 2
+// (df = n − 2 for the test of a correlation), which Fisher's z test needs;
+// the n is written with the sentence as its place and listed to confirm,
+// since the sentence implies it rather than prints it.
+func TestSentenceCorrelationN(t *testing.T) {
+	a, err := ReadText(strings.NewReader("Stress correlated with sleep, r(198) = −.45, p < .001."), "results.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := Recognise(a)
+	if len(f.Coefficients) != 1 {
+		t.Fatalf("%d coefficients, want 1: %+v", len(f.Coefficients), f.Coefficients)
+	}
+	c := f.Coefficients[0]
+	if c.Measure != "r" || c.DF != "198" || c.N != "200" || c.Places["n"] == "" {
+		t.Errorf("coefficient %+v, want measure r, df 198, n 200 with its place", c)
+	}
+	found := false
+	for _, k := range f.ToConfirm {
+		found = found || strings.Contains(k.Reason, "n = 200 taken as df + 2")
+	}
+	if !found {
+		t.Errorf("the derived n is not listed to confirm: %+v", f.ToConfirm)
+	}
+}
