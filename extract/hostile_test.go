@@ -320,7 +320,7 @@ func TestHostileGarbage(t *testing.T) {
 	}{
 		{"random .xlsx", filepath.Join(dir, "random.xlsx"), garbage, "is not an .xlsx workbook"},
 		{"random .csv", filepath.Join(dir, "random.csv"), garbage, "is not a text file"},
-		{"zip signature then random", filepath.Join(dir, "zipped.xlsx"), append([]byte("PK\x03\x04"), garbage...), "is not a workbook"},
+		{"zip signature then random", filepath.Join(dir, "zipped.xlsx"), append([]byte("PK\x03\x04"), garbage...), "is not a readable zip package"},
 		{"random claims.csv", filepath.Join(folder, "claims.csv"), garbage, "is not a text file"},
 	}
 	for _, tt := range tests {

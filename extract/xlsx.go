@@ -54,11 +54,11 @@ func checkArchive(path string) (*zip.ReadCloser, uint64, error) {
 		return nil, 0, err
 	}
 	if fi.Size() > MaxWorkbookBytes {
-		return nil, 0, fmt.Errorf("%s is %d MiB; workbooks over %d MiB are not read: %w", path, fi.Size()>>20, MaxWorkbookBytes>>20, ErrInputTooLarge)
+		return nil, 0, fmt.Errorf("%s is %d MiB; workbooks and DOCX files over %d MiB are not read: %w", path, fi.Size()>>20, MaxWorkbookBytes>>20, ErrInputTooLarge)
 	}
 	zr, err := zip.OpenReader(path)
 	if err != nil {
-		return nil, 0, fmt.Errorf("%s is not a workbook (%v): %w", path, err, ErrUnsupportedInput)
+		return nil, 0, fmt.Errorf("%s is not a readable zip package, as a workbook or a DOCX file is (%v): %w", path, err, ErrUnsupportedInput)
 	}
 	fail := func(err error) (*zip.ReadCloser, uint64, error) {
 		zr.Close()
