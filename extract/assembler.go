@@ -92,16 +92,16 @@ func familyProblem(first Claim, total int) *CellError {
 // which would keep the last line of every study alive.
 type rowCounts map[string]*int
 
-// add counts one row of study and reports whether the study was seen
-// before.
-func (c rowCounts) add(study string) (seen bool) {
+// add counts one row of study and returns the rows of study counted so
+// far, this one included.
+func (c rowCounts) add(study string) int {
 	n, seen := c[study]
 	if !seen {
 		n = new(int)
 		c[strings.Clone(study)] = n
 	}
 	*n++
-	return seen
+	return *n
 }
 
 // totals returns the counts by study.

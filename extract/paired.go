@@ -3,7 +3,6 @@ package extract
 import (
 	"fmt"
 	"io"
-	"os"
 	"strings"
 )
 
@@ -162,15 +161,11 @@ func pairedLabels(claim, first, second string) (string, string) {
 // readPairedFile reads a whole paired CSV into an Input, checking claim
 // keys for duplicates.
 func readPairedFile(path string) (*Input, error) {
-	f, err := os.Open(path)
+	pr, f, err := openPairedReader(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	pr, err := NewPairedReader(f, path)
-	if err != nil {
-		return nil, err
-	}
 	in := &Input{Source: path, Problems: pr.Problems()}
 	for {
 		pc, err := pr.Next()

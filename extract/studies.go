@@ -200,18 +200,8 @@ func openPaired(path string) (*Source, error) {
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})
 	}
 	s.studies = func(yield func(*Study, error) bool) {
-		pr, f, err := openPairedReader(path)
-		if err != nil {
-			yield(nil, err)
-			return
-		}
-		defer f.Close()
 		a := newStudyAssembler(counts) // counts is spent: the sequence is ranged once
-		for {
-			pc, err := pr.Next()
-			if errors.Is(err, io.EOF) {
-				break
-			}
+		for pc, err := range pairedClaims(path) {
 			if err != nil {
 				yield(nil, err)
 				return
@@ -243,12 +233,6 @@ func openPaired(path string) (*Source, error) {
 // than MaxFamily, from the first pass, and repeated the claim keys that
 // may be used twice; both are only read.
 func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yield func(*Study, error) bool) {
-	pr, f, err := openPairedReader(path)
-	if err != nil {
-		yield(nil, err)
-		return
-	}
-	defer f.Close()
 	seen := duplicateClaims{}
 	read := rowCounts{} // claims rows read so far, by long study
 	var run *Study
@@ -263,11 +247,7 @@ func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yiel
 		seen.checkPaired(st.Claims, st.Coefficients, repeated.may)
 		return yield(st, nil)
 	}
-	for {
-		pc, err := pr.Next()
-		if errors.Is(err, io.EOF) {
-			break
-		}
+	for pc, err := range pairedClaims(path) {
 		if err != nil {
 			yield(nil, err)
 			return
@@ -277,8 +257,7 @@ func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yiel
 		index++
 		block := false
 		if _, ok := long[c.Study]; ok { // only a long study has blocks
-			read.add(c.Study)
-			n := *read[c.Study] - 1 // the claims of the study before this one
+			n := read.add(c.Study) - 1 // the claims of the study before this one
 			block = n > 0 && n%MaxFamily == 0
 		}
 		if run != nil && (run.Name != c.Study || block || len(run.Claims) == MaxFamily) && !flush() {
@@ -294,6 +273,25 @@ func pairedPieces(path string, long map[string]int, repeated *repeatedKeys, yiel
 		run.Coefficients = append(run.Coefficients, pc.First, pc.Second)
 	}
 	flush()
+}
+
+// pairedClaims reads the paired CSV at path once, a claims row at a time,
+// for the passes that yield studies or pieces. An error ends it.
+func pairedClaims(path string) iter.Seq2[PairedClaim, error] {
+	return func(yield func(PairedClaim, error) bool) {
+		pr, f, err := openPairedReader(path)
+		if err != nil {
+			yield(PairedClaim{}, err)
+			return
+		}
+		defer f.Close()
+		for {
+			pc, err := pr.Next()
+			if errors.Is(err, io.EOF) || !yield(pc, err) || err != nil {
+				return
+			}
+		}
+	}
 }
 
 // openPairedReader opens the paired CSV at path for one pass; the caller
@@ -351,7 +349,7 @@ func countPaired(path string) (counts map[string]int, interleaved bool, repeated
 			return nil, false, nil, nil, nil, err
 		}
 		hashes = append(hashes, keys.hash(study, claim))
-		if rows.add(study) && study != last {
+		if rows.add(study) > 1 && study != last {
 			interleaved = true
 		}
 		last = study
