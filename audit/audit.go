@@ -36,16 +36,17 @@ type coefKey struct{ study, label string }
 
 // auditor holds what every claim's audit of one study looks up.
 type auditor struct {
-	coef       map[coefKey]*extract.Coefficient
+	coef map[coefKey]*extract.Coefficient
+	// duplicated, conflicts and rebuilt are nil until they get an entry:
+	// most studies have none, and a study's maps made empty cost more than
+	// its claims' statistics (BenchmarkAuditMillion in package report,
+	// -benchmem).
 	duplicated map[coefKey]bool
-	modelSize  map[modelKey]int
 	// conflicts holds each coefficient's printed numbers that contradict
 	// each other, in input order of the coefficients.
 	conflicts map[*extract.Coefficient][]Problem
-	// modelPredictors lists each model's predictors in input order, and
-	// modelCoefs its coefficients.
-	modelPredictors map[modelKey][]string
-	modelCoefs      map[modelKey][]*extract.Coefficient
+	// modelCoefs lists each model's coefficients in input order.
+	modelCoefs map[modelKey][]*extract.Coefficient
 	// rebuilt holds each coefficient's disagreements with a model rebuilt
 	// from a correlation table, found while auditing claims.
 	rebuilt map[*extract.Coefficient][]Problem
@@ -106,9 +107,9 @@ func newAuditor(in *extract.Input) *auditor {
 
 // load makes the auditor look up in's coefficients.
 func (a *auditor) load(in *extract.Input) {
-	a.coef, a.duplicated, a.modelSize = map[coefKey]*extract.Coefficient{}, map[coefKey]bool{}, map[modelKey]int{}
-	a.conflicts, a.modelPredictors = map[*extract.Coefficient][]Problem{}, map[modelKey][]string{}
-	a.modelCoefs, a.rebuilt = map[modelKey][]*extract.Coefficient{}, map[*extract.Coefficient][]Problem{}
+	a.coef = make(map[coefKey]*extract.Coefficient, len(in.Coefficients))
+	a.modelCoefs = map[modelKey][]*extract.Coefficient{}
+	a.duplicated, a.conflicts, a.rebuilt = nil, nil, nil
 	a.corr, a.corrProblems = nil, nil
 	if len(in.Correlations) > 0 || len(in.Tables) > 0 {
 		a.corr, a.corrProblems = correlationSources(in)
@@ -119,22 +120,24 @@ func (a *auditor) load(in *extract.Input) {
 			ps := consistencyProblems(c)
 			ps = append(ps, a.tableContradicts(c)...)
 			if len(ps) > 0 {
+				if a.conflicts == nil {
+					a.conflicts = map[*extract.Coefficient][]Problem{}
+				}
 				a.conflicts[c] = ps
 			}
 		}
 		k := coefKey{c.Study, c.Label}
 		if _, ok := a.coef[k]; ok {
+			if a.duplicated == nil {
+				a.duplicated = map[coefKey]bool{}
+			}
 			a.duplicated[k] = true
 			continue
 		}
 		a.coef[k] = c
 		if extract.IsRegressionMeasure(c.Measure) {
 			mk := modelOf(c)
-			a.modelSize[mk]++
 			a.modelCoefs[mk] = append(a.modelCoefs[mk], c)
-			if c.Predictor != "" && indexOf(a.modelPredictors[mk], c.Predictor) < 0 {
-				a.modelPredictors[mk] = append(a.modelPredictors[mk], c.Predictor)
-			}
 		}
 	}
 }
@@ -153,15 +156,23 @@ func (a *auditor) modelSizeOf(c *extract.Coefficient) int {
 	if !extract.DerivesDFFromModelSize(c) {
 		return 0 // Reconstruct does not use it
 	}
-	return a.modelSize[modelOf(c)]
+	return len(a.modelCoefs[modelOf(c)])
 }
 
 // conflictsOf lists the problems of c's printed numbers that contradict
 // each other.
 func (a *auditor) conflictsOf(c *extract.Coefficient) []Problem { return a.conflicts[c] }
 
-// predictorsOf lists a model's predictors in input order.
-func (a *auditor) predictorsOf(k modelKey) []string { return a.modelPredictors[k] }
+// predictorsOf lists a model's predictors in input order, each once.
+func (a *auditor) predictorsOf(k modelKey) []string {
+	var preds []string
+	for _, c := range a.modelCoefs[k] {
+		if c.Predictor != "" && indexOf(preds, c.Predictor) < 0 {
+			preds = append(preds, c.Predictor)
+		}
+	}
+	return preds
+}
 
 // lookup finds a claim's coefficient by label in the claim's study, or in
 // another study when written "study:label" and no such label exists in the

@@ -49,12 +49,8 @@ func DisplayDecimals(printed ...extract.Printed) int {
 
 // coefficientDecimals is DisplayDecimals over the printed estimates and
 // interval limits of the coefficients.
-func coefficientDecimals(cs ...*extract.Coefficient) int {
-	var ps []extract.Printed
-	for _, c := range cs {
-		ps = append(ps, c.Estimate, c.CI.Low, c.CI.High)
-	}
-	return DisplayDecimals(ps...)
+func coefficientDecimals(c1, c2 *extract.Coefficient) int {
+	return DisplayDecimals(c1.Estimate, c1.CI.Low, c1.CI.High, c2.Estimate, c2.CI.Low, c2.CI.High)
 }
 
 // FormatFixed writes x with the given decimals; a value that rounds to

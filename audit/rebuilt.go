@@ -145,5 +145,8 @@ func (a *auditor) addRebuiltProblem(c *extract.Coefficient, column, msg string) 
 			return
 		}
 	}
+	if a.rebuilt == nil {
+		a.rebuilt = map[*extract.Coefficient][]Problem{}
+	}
 	a.rebuilt[c] = append(a.rebuilt[c], Problem{Sheet: c.Sheet, Row: c.Row, Column: column, Message: msg})
 }
