@@ -8,6 +8,7 @@ import (
 	"strings"
 	"sync/atomic"
 	"testing"
+	"time"
 
 	"coefaudit/extract"
 )
@@ -129,29 +130,56 @@ func TestRunStopsOnErrors(t *testing.T) {
 
 // TestRunBatchesStudiesWithoutClaims: studies without claims (articles
 // whose claims were not matched) are audited as they come, not held until
-// the source ends. Before the fix the whole source was one batch.
+// the source ends, and a batch of such studies holds about as many
+// coefficients as a batch of claims would (a dense article's hundreds of
+// coefficients weigh more than one claim). Before the fix the whole source
+// was one batch. The source waits, after a few batches' worth of studies,
+// for the first result to come out; held whole, none would, and the wait
+// ends at its deadline.
 func TestRunBatchesStudiesWithoutClaims(t *testing.T) {
-	const n = 20 * batchClaims
-	var emitted atomic.Int64 // emit runs in Run's goroutine, the source in its own
-	atEnd := int64(-1)
-	studies := func(yield func(*extract.Study, error) bool) {
-		for i := range n {
-			st := &extract.Study{Name: "s" + strconv.Itoa(i),
-				Coefficients: []extract.Coefficient{{Study: "s" + strconv.Itoa(i), Label: "a"}}}
-			if !yield(st, nil) {
-				return
+	for _, tc := range []struct {
+		name          string
+		coefficients  int // per study
+		studies, wait int // wait for a result before study number wait
+	}{
+		{"one coefficient each", 1, 20 * batchClaims, 2 * batchClaims},
+		{"dense articles", 16 * batchClaims, 20, 2},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var emitted atomic.Int64 // emit runs in Run's goroutine, the source in its own
+			sawResult := false
+			studies := func(yield func(*extract.Study, error) bool) {
+				for i := range tc.studies {
+					if i == tc.wait {
+						deadline := time.Now().Add(20 * time.Second)
+						for emitted.Load() == 0 && time.Now().Before(deadline) {
+							time.Sleep(time.Millisecond)
+						}
+						sawResult = emitted.Load() > 0
+					}
+					name := "s" + strconv.Itoa(i)
+					st := &extract.Study{Name: name, Coefficients: make([]extract.Coefficient, tc.coefficients)}
+					for j := range st.Coefficients {
+						st.Coefficients[j] = extract.Coefficient{Study: name, Label: "x" + strconv.Itoa(j)}
+					}
+					if !yield(st, nil) {
+						return
+					}
+				}
 			}
-		}
-		atEnd = emitted.Load()
-	}
-	_, err := Run(studies, DefaultOptions, func(StudyResult) error {
-		emitted.Add(1)
-		return nil
-	})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if atEnd <= 0 || atEnd >= n {
-		t.Errorf("%d of %d studies were emitted when the source ended; want the first batches out before", atEnd, n)
+			_, err := Run(studies, DefaultOptions, func(StudyResult) error {
+				emitted.Add(1)
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !sawResult {
+				t.Errorf("no study of the first %d was emitted while the source waited; want them handed out in batches", tc.wait)
+			}
+			if emitted.Load() != int64(tc.studies) {
+				t.Errorf("%d of %d studies emitted", emitted.Load(), tc.studies)
+			}
+		})
 	}
 }
