@@ -7,12 +7,13 @@ import (
 	"strings"
 
 	"coefaudit/audit"
+	"coefaudit/pool"
 )
 
 // The pooling reports meant for people (table, Markdown, HTML, xlsx and the
 // forest plots) print numbers as a paper prints them: differences,
 // estimates and their intervals to one decimal more than the claims'
-// estimates were printed with, from 2 to 4 (TopicPool.Decimals); test
+// estimates were printed with, from 2 to 4 (pool.Topic.Decimals); test
 // statistics to 2 decimals; p as journals print it, with no leading zero
 // (p = .043, p < .001); τ² to 2 significant digits; I² and weights as
 // percentages. JSON and CSV keep every digit.
@@ -87,7 +88,7 @@ func sig2(n audit.Number) string {
 }
 
 // poolTest is a pooled estimate's test, "z = 2.14" or "t(8) = 2.14".
-func poolTest(p *audit.PooledEstimate) string {
+func poolTest(p *pool.Estimate) string {
 	if !p.Statistic.Known() {
 		return "–"
 	}
@@ -118,7 +119,7 @@ func poolSpread(i2 float64) string {
 // poolHeterogeneitySentences are the heterogeneity summary of a pooled
 // topic in plain sentences: τ² with its interval and I² with what it
 // means; Cochran's Q with its test; the prediction interval.
-func poolHeterogeneitySentences(t audit.TopicPool, pct string) []string {
+func poolHeterogeneitySentences(t pool.Topic, pct string) []string {
 	h := t.Heterogeneity
 	if h == nil {
 		return nil
@@ -138,7 +139,7 @@ func poolHeterogeneitySentences(t audit.TopicPool, pct string) []string {
 
 // poolSensitivityText says what the sensitivity analysis of a topic
 // assumed and found, or "" when there is none.
-func poolSensitivityText(t audit.TopicPool, pct string) string {
+func poolSensitivityText(t pool.Topic, pct string) string {
 	s := t.Sensitivity
 	if s == nil {
 		return ""
@@ -159,7 +160,7 @@ func poolSensitivityText(t audit.TopicPool, pct string) string {
 
 // poolRatioLine gives the pooled ratio of ratios of a topic on the log
 // scale, or "".
-func poolRatioLine(t audit.TopicPool) string {
+func poolRatioLine(t pool.Topic) string {
 	if t.Scale != "log" || t.Random == nil {
 		return ""
 	}

@@ -1,28 +1,30 @@
-package audit
+package pool
 
 import (
 	"errors"
 	"fmt"
+	"math"
 	"strings"
 
+	"coefaudit/audit"
 	"coefaudit/infer"
 	"coefaudit/infer/meta"
 )
 
-// Estimators of τ² for PoolOptions.Method.
+// Estimators of τ² for Options.Method.
 const (
-	PoolREML = "reml"
-	PoolDL   = "dl"
+	REML = "reml"
+	DL   = "dl"
 )
 
-// PoolOrientation says which way every pooled difference points.
-const PoolOrientation = "Each claim's difference is first − second, as the two coefficients are entered in the claims sheet; " +
+// Orientation says which way every pooled difference points.
+const Orientation = "Each claim's difference is first − second, as the two coefficients are entered in the claims sheet; " +
 	"a positive pooled value means the first coefficients are the larger on average."
 
-// PoolOptions are the settings of Pool.
-type PoolOptions struct {
-	// Method is the τ² estimator of the random-effects model: PoolREML
-	// (the default, also for "") or PoolDL.
+// Options are the settings of Run.
+type Options struct {
+	// Method is the τ² estimator of the random-effects model: REML
+	// (the default, also for "") or DL.
 	Method string
 	// Level is the confidence level as a proportion, e.g. 0.95; 0 means
 	// meta.DefaultLevel.
@@ -32,18 +34,18 @@ type PoolOptions struct {
 	// Covariance says what to do with the claims whose SE of the
 	// difference is only bounded (an unknown covariance); the zero value
 	// leaves them out.
-	Covariance PoolCovariance
+	Covariance Covariance
 }
 
-// DefaultPoolOptions are the settings used when none are given.
-var DefaultPoolOptions = PoolOptions{Method: PoolREML, Level: meta.DefaultLevel}
+// DefaultOptions are the settings used when none are given.
+var DefaultOptions = Options{Method: REML, Level: meta.DefaultLevel}
 
-// ErrPoolMethod is returned by Pool for a Method other than PoolREML or
-// PoolDL.
-var ErrPoolMethod = errors.New("unknown tau2 method")
+// ErrMethod is returned by Run for a Method other than REML or
+// DL.
+var ErrMethod = errors.New("unknown tau2 method")
 
-// PoolReport is the pooling of every topic of an audit.
-type PoolReport struct {
+// Report is the pooling of every topic of an audit.
+type Report struct {
 	// Source names the input.
 	Source string `json:"source"`
 	// Level is the confidence level of every interval, as a proportion.
@@ -51,13 +53,13 @@ type PoolReport struct {
 	// Method is the τ² estimator asked for ("REML" or "DL"); a topic whose
 	// REML fit failed says so in its Tau2Method and Notes.
 	Method string `json:"method"`
-	// Orientation is PoolOrientation.
+	// Orientation is Orientation.
 	Orientation string `json:"orientation"`
 	// ClaimsWithoutTopic counts the claims rows with a blank topic, which
 	// are not pooled.
 	ClaimsWithoutTopic int `json:"claims_without_topic"`
 	// Topics are the topics in order of their first claim.
-	Topics []TopicPool `json:"topics"`
+	Topics []Topic `json:"topics"`
 	// Plots lists the forest-plot files written, filled in by the caller
 	// that writes them.
 	Plots []string `json:"plots"`
@@ -65,10 +67,10 @@ type PoolReport struct {
 	Cautions []string `json:"cautions"`
 }
 
-// TopicPool is the meta-analysis of the claims of one topic. Fixed, Random,
+// Topic is the meta-analysis of the claims of one topic. Fixed, Random,
 // HKSJ and Heterogeneity are nil when fewer than two claims could be
 // pooled; Prediction is also nil for fewer than three.
-type TopicPool struct {
+type Topic struct {
 	// Topic is the topic as entered; Slug its file-name form (see Slug).
 	Topic string `json:"topic"`
 	Slug  string `json:"slug"`
@@ -88,114 +90,114 @@ type TopicPool struct {
 	// every digit.
 	Decimals int `json:"-"`
 	// Studies are the claims pooled, in input order.
-	Studies []PoolStudy `json:"studies"`
-	// PooledLines are the pooled estimates.
-	PooledLines
+	Studies []Study `json:"studies"`
+	// Estimates are the pooled estimates.
+	Estimates
 	// Heterogeneity holds Q, I², H² and τ² with its Q-profile interval.
-	Heterogeneity *PoolHeterogeneity `json:"heterogeneity"`
+	Heterogeneity *Heterogeneity `json:"heterogeneity"`
 	// Prediction is the interval for the true difference in a new study.
-	Prediction *PoolPrediction `json:"prediction"`
+	Prediction *Prediction `json:"prediction"`
 	// LeaveOneOut has one row per pooled claim (empty when K < 3).
-	LeaveOneOut []PoolLeaveOneOut `json:"leave_one_out"`
+	LeaveOneOut []LeaveOneOut `json:"leave_one_out"`
 	// LeftOut lists the topic's claims that were not pooled, and why.
-	LeftOut []PoolLeftOut `json:"left_out"`
+	LeftOut []LeftOut `json:"left_out"`
 	// Sensitivity is the topic pooled again with the claims whose SE is
-	// only bounded, at PoolOptions.Covariance; nil when it was not asked
+	// only bounded, at Options.Covariance; nil when it was not asked
 	// for or the topic has no such claim.
-	Sensitivity *PoolSensitivity `json:"sensitivity,omitempty"`
+	Sensitivity *Sensitivity `json:"sensitivity,omitempty"`
 	// Notes are warnings and remarks on this topic in plain words.
 	Notes []string `json:"notes"`
 	// Error is why the pooling failed, when it did; empty otherwise.
 	Error string `json:"error,omitempty"`
 }
 
-// PoolStudy is one pooled claim: its difference, the SE, the interval at
+// Study is one pooled claim: its difference, the SE, the interval at
 // the report's level and its share of the fixed-effect and random-effects
 // weights (proportions summing to 1; null when nothing was pooled).
-type PoolStudy struct {
-	Study        string    `json:"study"`
-	Claim        string    `json:"claim"`
-	Row          int       `json:"row"`
-	First        string    `json:"first"`
-	Second       string    `json:"second"`
-	Outcome      string    `json:"outcome"`
-	Estimate     Number    `json:"estimate"`
-	SE           Number    `json:"se"`
-	CI           [2]Number `json:"ci"`
-	WeightFixed  Number    `json:"weight_fixed"`
-	WeightRandom Number    `json:"weight_random"`
+type Study struct {
+	Study        string          `json:"study"`
+	Claim        string          `json:"claim"`
+	Row          int             `json:"row"`
+	First        string          `json:"first"`
+	Second       string          `json:"second"`
+	Outcome      string          `json:"outcome"`
+	Estimate     audit.Number    `json:"estimate"`
+	SE           audit.Number    `json:"se"`
+	CI           [2]audit.Number `json:"ci"`
+	WeightFixed  audit.Number    `json:"weight_fixed"`
+	WeightRandom audit.Number    `json:"weight_random"`
 }
 
-// PooledLines are the three pooled estimates of a set of claims: Fixed is
+// Estimates are the three pooled estimates of a set of claims: Fixed is
 // the inverse-variance estimate, Random the random-effects estimate with
 // its Wald interval, HKSJ the same estimate with the
 // Hartung–Knapp–Sidik–Jonkman t interval. All are nil when the claims
 // could not be pooled.
-type PooledLines struct {
-	Fixed  *PooledEstimate `json:"fixed"`
-	Random *PooledEstimate `json:"random"`
-	HKSJ   *PooledEstimate `json:"hksj"`
+type Estimates struct {
+	Fixed  *Estimate `json:"fixed"`
+	Random *Estimate `json:"random"`
+	HKSJ   *Estimate `json:"hksj"`
 }
 
-// PooledEstimate is a pooled difference with its SE and interval, the
+// Estimate is a pooled difference with its SE and interval, the
 // statistic for the null of no difference, its degrees of freedom (null
 // for the standard normal) and two-sided p.
-type PooledEstimate struct {
-	Estimate  Number    `json:"estimate"`
-	SE        Number    `json:"se"`
-	CI        [2]Number `json:"ci"`
-	Statistic Number    `json:"statistic"`
-	DF        Number    `json:"df"`
-	P         Number    `json:"p"`
+type Estimate struct {
+	Estimate  audit.Number    `json:"estimate"`
+	SE        audit.Number    `json:"se"`
+	CI        [2]audit.Number `json:"ci"`
+	Statistic audit.Number    `json:"statistic"`
+	DF        audit.Number    `json:"df"`
+	P         audit.Number    `json:"p"`
 }
 
-// PoolHeterogeneity is Cochran's Q with df = K − 1 and its p, I² = max(0,
+// Heterogeneity is Cochran's Q with df = K − 1 and its p, I² = max(0,
 // (Q − df)/Q) and H² = Q/df as proportions, I2Tau2 = τ²/(τ² + s²) from the
 // fitted τ², and τ² with its SE (REML only) and Q-profile interval.
-type PoolHeterogeneity struct {
-	Q      Number    `json:"q"`
-	DF     int       `json:"df"`
-	P      Number    `json:"p"`
-	I2     Number    `json:"i2"`
-	H2     Number    `json:"h2"`
-	I2Tau2 Number    `json:"i2_tau2"`
-	Tau2   Number    `json:"tau2"`
-	Tau2SE Number    `json:"tau2_se"`
-	Tau2CI [2]Number `json:"tau2_ci"`
+type Heterogeneity struct {
+	Q      audit.Number    `json:"q"`
+	DF     int             `json:"df"`
+	P      audit.Number    `json:"p"`
+	I2     audit.Number    `json:"i2"`
+	H2     audit.Number    `json:"h2"`
+	I2Tau2 audit.Number    `json:"i2_tau2"`
+	Tau2   audit.Number    `json:"tau2"`
+	Tau2SE audit.Number    `json:"tau2_se"`
+	Tau2CI [2]audit.Number `json:"tau2_ci"`
 }
 
-// PoolPrediction is the prediction interval with its t degrees of freedom.
-type PoolPrediction struct {
-	CI [2]Number `json:"ci"`
-	DF Number    `json:"df"`
+// Prediction is the prediction interval with its t degrees of freedom.
+type Prediction struct {
+	CI [2]audit.Number `json:"ci"`
+	DF audit.Number    `json:"df"`
 }
 
-// PoolLeaveOneOut is the random-effects result without one claim.
-type PoolLeaveOneOut struct {
-	Study    string    `json:"study"`
-	Claim    string    `json:"claim"`
-	Row      int       `json:"row"`
-	Estimate Number    `json:"estimate"`
-	SE       Number    `json:"se"`
-	CI       [2]Number `json:"ci"`
-	Tau2     Number    `json:"tau2"`
-	Q        Number    `json:"q"`
-	I2       Number    `json:"i2"`
+// LeaveOneOut is the random-effects result without one claim.
+type LeaveOneOut struct {
+	Study    string          `json:"study"`
+	Claim    string          `json:"claim"`
+	Row      int             `json:"row"`
+	Estimate audit.Number    `json:"estimate"`
+	SE       audit.Number    `json:"se"`
+	CI       [2]audit.Number `json:"ci"`
+	Tau2     audit.Number    `json:"tau2"`
+	Q        audit.Number    `json:"q"`
+	I2       audit.Number    `json:"i2"`
 }
 
-// PoolLeftOut is a claim of the topic that was not pooled, with the reason
+// LeftOut is a claim of the topic that was not pooled, with the reason
 // in plain words.
-type PoolLeftOut struct {
+type LeftOut struct {
 	Study  string `json:"study"`
 	Claim  string `json:"claim"`
 	Row    int    `json:"row"`
 	Reason string `json:"reason"`
 }
 
-// Pool meta-analyses the differences of the claims that share a non-empty
+// Run meta-analyses the differences of the claims that share a non-empty
 // topic (compared after trimming spaces). Claim i contributes
 //
-//	y_i = PoolEstimate (first − second, on PoolScale),  v_i = PoolSE²,
+//	y_i = ClaimResult.PoolEstimate (first − second, on PoolScale),  v_i = PoolSE²,
 //
 // on the log scale for ratio measures (the log of the ratio of the two
 // ratios), on Fisher's z scale for correlations (z1 − z2 with z = atanh r,
@@ -210,7 +212,7 @@ type PoolLeftOut struct {
 // estimates share a sample whose covariance was not printed has a known
 // difference but an SE known only to lie between |SE1 − SE2| and
 // SE1 + SE2: it is left out of the main result, and opts.Covariance can
-// pool it in a sensitivity analysis beside it (TopicPool.Sensitivity), at
+// pool it in a sensitivity analysis beside it (Topic.Sensitivity), at
 // a stated correlation ρ of the two estimates (SE² = SE1² + SE2² −
 // 2ρ SE1 SE2) or at the least favourable bound ρ = −1. Per topic it reports
 //
@@ -228,7 +230,7 @@ type PoolLeftOut struct {
 // so; a topic that cannot be fitted at all has Error set. Claims from one
 // study are pooled as if independent, with a note, since they are not.
 //
-// It returns ErrPoolMethod for an unknown Method, ErrPoolCovariance for a
+// It returns ErrMethod for an unknown Method, ErrCovariance for a
 // covariance setting it does not know, and an error wrapping
 // infer.ErrProbability for a Level outside (0, 1).
 //
@@ -253,15 +255,15 @@ type PoolLeftOut struct {
 //	[8] Higgins JPT, Thompson SG, Spiegelhalter DJ (2009). A re-evaluation
 //	    of random-effects meta-analysis. Journal of the Royal Statistical
 //	    Society A 172(1):137-159.
-func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
+func Run(rep *audit.Report, opts Options) (*Report, error) {
 	var method meta.Tau2Method
 	switch opts.Method {
-	case PoolREML, "":
+	case REML, "":
 		method = meta.RestrictedMaximumLikelihood
-	case PoolDL:
+	case DL:
 		method = meta.DerSimonianLaird
 	default:
-		return nil, fmt.Errorf("pooling: %q: %w (want %s or %s)", opts.Method, ErrPoolMethod, PoolREML, PoolDL)
+		return nil, fmt.Errorf("pooling: %q: %w (want %s or %s)", opts.Method, ErrMethod, REML, DL)
 	}
 	level := opts.Level
 	if level == 0 {
@@ -275,12 +277,12 @@ func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
 	}
 	cautions := rep.Cautions
 	if len(cautions) == 0 {
-		cautions = Cautions
+		cautions = audit.Cautions
 	}
-	out := &PoolReport{Source: rep.Source, Level: level, Method: method.String(), Orientation: PoolOrientation,
-		Topics: []TopicPool{}, Plots: []string{}, Cautions: cautions}
+	out := &Report{Source: rep.Source, Level: level, Method: method.String(), Orientation: Orientation,
+		Topics: []Topic{}, Plots: []string{}, Cautions: cautions}
 	var order []string
-	byTopic := map[string][]ClaimResult{}
+	byTopic := map[string][]audit.ClaimResult{}
 	for _, c := range rep.Claims {
 		topic := strings.TrimSpace(c.Topic)
 		if topic == "" {
@@ -296,86 +298,86 @@ func Pool(rep *Report, opts PoolOptions) (*PoolReport, error) {
 	mo := meta.Options{Level: level, Method: method, REML: opts.REML}
 	for _, topic := range order {
 		t := poolTopic(topic, byTopic[topic], mo, opts.Covariance)
-		t.Slug = poolUniqueSlug(Slug(topic), slugs)
+		t.Slug = uniqueSlug(Slug(topic), slugs)
 		out.Topics = append(out.Topics, t)
 	}
 	return out, nil
 }
 
-// poolKey is what the claims of a topic must share to be pooled.
-type poolKey struct{ measure, scale string }
+// key is what the claims of a topic must share to be pooled.
+type key struct{ measure, scale string }
 
-func poolTopic(topic string, claims []ClaimResult, mo meta.Options, pc PoolCovariance) (t TopicPool) {
-	t = TopicPool{Topic: topic, Studies: []PoolStudy{}, LeaveOneOut: []PoolLeaveOneOut{},
-		LeftOut: []PoolLeftOut{}, Notes: []string{}}
+func poolTopic(topic string, claims []audit.ClaimResult, mo meta.Options, pc Covariance) (t Topic) {
+	t = Topic{Topic: topic, Studies: []Study{}, LeaveOneOut: []LeaveOneOut{},
+		LeftOut: []LeftOut{}, Notes: []string{}}
 	reasons := make([]string, len(claims))
-	count := map[poolKey]int{}
-	var keys []poolKey
+	count := map[key]int{}
+	var keys []key
 	bounded := make([]bool, len(claims))
 	for i, c := range claims {
 		if _, _, _, ok := boundedDifference(c); ok {
 			bounded[i] = true
 			continue
 		}
-		if reasons[i] = poolUnusableReason(c); reasons[i] != "" {
+		if reasons[i] = unusableReason(c); reasons[i] != "" {
 			continue
 		}
-		k := poolKey{c.Measure, c.PoolScale}
+		k := key{c.Measure, c.PoolScale}
 		if count[k] == 0 {
 			keys = append(keys, k)
 		}
 		count[k]++
 	}
-	var major poolKey
+	var major key
 	for _, k := range keys {
 		if count[k] > count[major] {
 			major = k
 		}
 	}
 	t.Measure, t.Scale = major.measure, major.scale
-	t.ScaleNote = poolScaleNote(major)
+	t.ScaleNote = scaleNote(major)
 	z, _ := infer.NormalCriticalValue(mo.Level)
-	var usable, boundedUsable []ClaimResult
+	var usable, boundedUsable []audit.ClaimResult
 	for i, c := range claims {
 		if bounded[i] {
-			if (poolKey{c.Measure, c.Scale}) != major {
-				reasons[i] = poolOtherKeyReason(poolKey{c.Measure, c.Scale}, major)
+			if (key{c.Measure, c.Scale}) != major {
+				reasons[i] = otherKeyReason(key{c.Measure, c.Scale}, major)
 			} else {
 				reasons[i] = boundedReason(pc)
 				boundedUsable = append(boundedUsable, c)
 			}
 		}
-		if reasons[i] == "" && (poolKey{c.Measure, c.PoolScale}) != major {
-			reasons[i] = poolOtherKeyReason(poolKey{c.Measure, c.PoolScale}, major)
+		if reasons[i] == "" && (key{c.Measure, c.PoolScale}) != major {
+			reasons[i] = otherKeyReason(key{c.Measure, c.PoolScale}, major)
 		}
 		if reasons[i] != "" {
-			t.LeftOut = append(t.LeftOut, PoolLeftOut{Study: c.Study, Claim: c.Claim, Row: c.Row, Reason: reasons[i]})
+			t.LeftOut = append(t.LeftOut, LeftOut{Study: c.Study, Claim: c.Claim, Row: c.Row, Reason: reasons[i]})
 			continue
 		}
 		usable = append(usable, c)
 		est, se := float64(c.PoolEstimate), float64(c.PoolSE)
-		t.Studies = append(t.Studies, PoolStudy{Study: c.Study, Claim: c.Claim, Row: c.Row,
+		t.Studies = append(t.Studies, Study{Study: c.Study, Claim: c.Claim, Row: c.Row,
 			First: c.First.Label, Second: c.Second.Label, Outcome: c.Outcome,
-			Estimate: c.PoolEstimate, SE: c.PoolSE, CI: [2]Number{Number(est - z*se), Number(est + z*se)},
-			WeightFixed: nan, WeightRandom: nan})
+			Estimate: c.PoolEstimate, SE: c.PoolSE, CI: [2]audit.Number{audit.Number(est - z*se), audit.Number(est + z*se)},
+			WeightFixed: unknown(), WeightRandom: unknown()})
 	}
 	t.K = len(usable)
-	t.Decimals = poolDecimals(append(append([]ClaimResult(nil), usable...), boundedUsable...))
+	t.Decimals = topicDecimals(append(append([]audit.ClaimResult(nil), usable...), boundedUsable...))
 	// The sensitivity analysis stands beside the main result however that
 	// ends: pooled, too few claims or failed.
 	defer func() {
 		if pc.pools() && len(boundedUsable) > 0 {
-			t.Sensitivity = sensitivity(pc, poolStudies(usable), boundedUsable, z, mo)
+			t.Sensitivity = sensitivity(pc, metaStudies(usable), boundedUsable, z, mo)
 		}
 	}()
 	if t.K < 2 {
 		t.Notes = append(t.Notes, fmt.Sprintf("Only %d claim(s) of this topic can be pooled; pooling needs at least 2, so no pooled result is given.", t.K))
 		return t
 	}
-	t.Notes = append(t.Notes, poolIndependenceNotes(usable)...)
-	studies := poolStudies(usable)
+	t.Notes = append(t.Notes, independenceNotes(usable)...)
+	studies := metaStudies(usable)
 	for _, c := range usable {
-		if c.Outcome == Conflict {
+		if c.Outcome == audit.Conflict {
 			t.Notes = append(t.Notes, fmt.Sprintf("Row %d (%s, %s): its printed numbers contradict each other; its difference is pooled as computed, so check it.", c.Row, c.Study, c.Claim))
 		}
 	}
@@ -395,8 +397,8 @@ func poolTopic(topic string, claims []ClaimResult, mo meta.Options, pc PoolCovar
 	return t
 }
 
-// poolStudies are the claims as meta's studies.
-func poolStudies(claims []ClaimResult) []meta.Study {
+// metaStudies are the claims as meta's studies.
+func metaStudies(claims []audit.ClaimResult) []meta.Study {
 	studies := make([]meta.Study, len(claims))
 	for i, c := range claims {
 		studies[i] = meta.StudyFromStandardError(fmt.Sprintf("%s, %s (row %d)", c.Study, c.Claim, c.Row),
@@ -447,7 +449,7 @@ func fitTopic(studies []meta.Study, mo meta.Options) (topicFit, error) {
 }
 
 // fill copies a fit into the topic's report.
-func (t *TopicPool) fill(f topicFit, method meta.Tau2Method, usable []ClaimResult, studies []meta.Study) {
+func (t *Topic) fill(f topicFit, method meta.Tau2Method, usable []audit.ClaimResult, studies []meta.Study) {
 	t.Tau2Method = method.String()
 	var sw, swr float64
 	for _, s := range studies {
@@ -455,31 +457,38 @@ func (t *TopicPool) fill(f topicFit, method meta.Tau2Method, usable []ClaimResul
 		swr += 1 / (s.Variance + f.re.Tau2)
 	}
 	for i, s := range studies {
-		t.Studies[i].WeightFixed = Number(1 / s.Variance / sw)
-		t.Studies[i].WeightRandom = Number(1 / (s.Variance + f.re.Tau2) / swr)
+		t.Studies[i].WeightFixed = audit.Number(1 / s.Variance / sw)
+		t.Studies[i].WeightRandom = audit.Number(1 / (s.Variance + f.re.Tau2) / swr)
 	}
-	t.Fixed = poolEstimateOf(f.fixed)
-	t.Random = poolEstimateOf(f.re.Wald)
-	t.HKSJ = poolEstimateOf(f.re.HartungKnapp)
-	t.Heterogeneity = &PoolHeterogeneity{Q: Number(f.het.Q), DF: f.het.DF, P: Number(f.het.P),
-		I2: Number(f.het.I2), H2: Number(f.het.H2), I2Tau2: Number(f.re.I2), Tau2: Number(f.re.Tau2),
-		Tau2SE: Number(f.re.Tau2SE), Tau2CI: [2]Number{Number(f.tau2CI.Low), Number(f.tau2CI.High)}}
+	t.Fixed = estimateOf(f.fixed)
+	t.Random = estimateOf(f.re.Wald)
+	t.HKSJ = estimateOf(f.re.HartungKnapp)
+	t.Heterogeneity = &Heterogeneity{Q: audit.Number(f.het.Q), DF: f.het.DF, P: audit.Number(f.het.P),
+		I2: audit.Number(f.het.I2), H2: audit.Number(f.het.H2), I2Tau2: audit.Number(f.re.I2), Tau2: audit.Number(f.re.Tau2),
+		Tau2SE: audit.Number(f.re.Tau2SE), Tau2CI: [2]audit.Number{audit.Number(f.tau2CI.Low), audit.Number(f.tau2CI.High)}}
 	if f.re.HasPrediction {
 		p := f.re.Prediction
-		t.Prediction = &PoolPrediction{CI: [2]Number{Number(p.Low), Number(p.High)}, DF: Number(p.DF)}
+		t.Prediction = &Prediction{CI: [2]audit.Number{audit.Number(p.Low), audit.Number(p.High)}, DF: audit.Number(p.DF)}
 	}
 	for _, l := range f.loo {
 		c := usable[l.Omitted]
-		t.LeaveOneOut = append(t.LeaveOneOut, PoolLeaveOneOut{Study: c.Study, Claim: c.Claim, Row: c.Row,
-			Estimate: Number(l.Pooled.Estimate), SE: Number(l.Pooled.SE),
-			CI: [2]Number{Number(l.Pooled.Low), Number(l.Pooled.High)}, Tau2: Number(l.Tau2), Q: Number(l.Q), I2: Number(l.I2)})
+		t.LeaveOneOut = append(t.LeaveOneOut, LeaveOneOut{Study: c.Study, Claim: c.Claim, Row: c.Row,
+			Estimate: audit.Number(l.Pooled.Estimate), SE: audit.Number(l.Pooled.SE),
+			CI: [2]audit.Number{audit.Number(l.Pooled.Low), audit.Number(l.Pooled.High)}, Tau2: audit.Number(l.Tau2), Q: audit.Number(l.Q), I2: audit.Number(l.I2)})
 	}
 	for _, n := range f.notes {
-		t.Notes = append(t.Notes, capitalize(strings.TrimSuffix(n, "."))+".")
+		n = strings.TrimSuffix(n, ".")
+		if n != "" {
+			n = strings.ToUpper(n[:1]) + n[1:]
+		}
+		t.Notes = append(t.Notes, n+".")
 	}
 }
 
-func poolEstimateOf(p meta.Pooled) *PooledEstimate {
-	return &PooledEstimate{Estimate: Number(p.Estimate), SE: Number(p.SE), CI: [2]Number{Number(p.Low), Number(p.High)},
-		Statistic: Number(p.Stat), DF: Number(p.DF), P: Number(p.P)}
+func estimateOf(p meta.Pooled) *Estimate {
+	return &Estimate{Estimate: audit.Number(p.Estimate), SE: audit.Number(p.SE), CI: [2]audit.Number{audit.Number(p.Low), audit.Number(p.High)},
+		Statistic: audit.Number(p.Stat), DF: audit.Number(p.DF), P: audit.Number(p.P)}
 }
+
+// unknown is a number not known, written null in JSON.
+func unknown() audit.Number { return audit.Number(math.NaN()) }
