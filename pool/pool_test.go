@@ -395,24 +395,6 @@ func TestOptionsErrors(t *testing.T) {
 	}
 }
 
-func TestSlug(t *testing.T) {
-	tests := []struct{ in, want string }{
-		{"Anxiety & sleep", "anxiety-sleep"},
-		{"  --Sex differences: BMI (2020)--", "sex-differences-bmi-2020"},
-		{"Élan vital", "lan-vital"},
-		{"???", "topic"},
-		{"../../etc/passwd", "etc-passwd"},
-		{strings.Repeat("ab ", 40), strings.TrimRight(strings.Repeat("ab-", 20), "-")},
-	}
-	for _, tt := range tests {
-		t.Run(tt.in, func(t *testing.T) {
-			if got := pool.Slug(tt.in); got != tt.want {
-				t.Errorf("Slug(%q) = %q, want %q", tt.in, got, tt.want)
-			}
-		})
-	}
-}
-
 // Three of the BCG trials of Colditz et al. (1994) (bcgCounts) and a claim
 // whose covariance was not reported. The printed values have no outside
 // source; they record this package's output.
