@@ -139,15 +139,3 @@ func TestIssue20PoolNotesNameReportedIntervals(t *testing.T) {
 		}
 	}
 }
-
-// TestIssue20PoolDecimals: a topic's numbers are shown to one decimal more
-// than its estimates were printed with, from 2 to 4 (the rule of issue 20).
-func TestIssue20PoolDecimals(t *testing.T) {
-	for _, tt := range []struct{ printed, want int }{{-1, 2}, {0, 2}, {1, 2}, {2, 3}, {3, 4}, {6, 4}} {
-		claims := kackerClaims("t", 2)
-		claims[3].PrintedDecimals = tt.printed
-		if got := poolOne(t, claims, pool.DefaultOptions).Decimals; got != tt.want {
-			t.Errorf("Pool(estimates printed with %d decimals).Decimals = %d, want %d", tt.printed, got, tt.want)
-		}
-	}
-}

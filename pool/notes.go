@@ -10,14 +10,16 @@ import (
 
 // Why claims are left out of a pooling, and the notes on what was pooled.
 
-// topicDecimals is one more than the most decimals the claims' estimates
-// were printed with, from 2 to 4.
+// topicDecimals is how many decimals reports meant for people give a
+// topic's numbers: the most that audit's precision rule gives any of its
+// claims (ClaimResult.EstimateDecimals), so that a pooled value is shown
+// as precisely as the claims it pools.
 func topicDecimals(claims []audit.ClaimResult) int {
-	d := 1
-	for _, c := range claims {
-		d = max(d, c.PrintedDecimals)
+	d := audit.MinDecimals
+	for i := range claims {
+		d = max(d, claims[i].EstimateDecimals())
 	}
-	return min(4, max(2, d+1))
+	return d
 }
 
 // randomEffectsNotes says in our words what a random-effects fit warns

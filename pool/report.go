@@ -47,9 +47,10 @@ type Topic struct {
 	// ("REML" or "DL"); empty when nothing was pooled.
 	Tau2Method string `json:"tau2_method"`
 	// Decimals is how many decimals reports meant for people give the
-	// topic's differences and estimates: one more than the most its
-	// claims' estimates were printed with, from 2 to 4. JSON and CSV keep
-	// every digit.
+	// topic's differences and estimates: the most that audit's precision
+	// rule gives its claims (ClaimResult.EstimateDecimals: one more than
+	// their estimates and interval limits were printed with, from 2 to 4).
+	// JSON and CSV keep every digit.
 	Decimals int `json:"-"`
 	// Studies are the claims pooled, in input order.
 	Studies []Study `json:"studies"`
