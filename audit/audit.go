@@ -255,7 +255,6 @@ func (a *auditor) audit(r *ClaimResult, cl *extract.Claim) {
 	r.Relation = relationOf(c1, c2)
 	r.Measure = c1.Measure
 	r.decimals = coefficientDecimals(c1, c2)
-	r.PrintedDecimals = int(max(c1.Estimate.Decimals, c2.Estimate.Decimals))
 	if c1.Measure != c2.Measure {
 		r.Notes = append(r.Notes, fmt.Sprintf("The claim compares a coefficient of measure %q with one of measure %q; estimates on different scales cannot be tested against each other.", c1.Measure, c2.Measure))
 		r.Outcome = Incomplete

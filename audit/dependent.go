@@ -126,12 +126,18 @@ func seGap(a, b infer.Range) float64 {
 	return 0
 }
 
+// MethodAdmissibleRange is the Method of a claim whose two estimates share
+// a sample whose covariance was not printed: it is tested over every
+// admissible sampling correlation of the two, so the SE of its difference
+// is known only to lie between |SE1 − SE2| and SE1 + SE2.
+const MethodAdmissibleRange = "admissible-range"
+
 // admissible gives the range of p over every admissible sampling
 // correlation of the two estimates, −1 to 1: Var(d) runs from (SE1 − SE2)²
 // to (SE1 + SE2)².
 func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed) {
 	df := commonDF(r, rc1, rc2)
-	r.Method = "admissible-range"
+	r.Method = MethodAdmissibleRange
 	r.Difference = Number(rc1.Estimate - rc2.Estimate)
 	gap := seGap(rc1.SERange, rc2.SERange)
 	ser := infer.Range{Lo: gap, Hi: rc1.SERange.Hi + rc2.SERange.Hi}

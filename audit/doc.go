@@ -5,10 +5,11 @@
 // never printed, and explains the outcome in plain words.
 //
 // Beyond the per-claim audit (AuditStudy, Run, and Audit for an input held
-// in memory) it pools the claims of a topic across studies (Pool) and runs
-// the bootstrap comparison on raw data already read (Bootstrap). It reads
-// and writes no file: package coefaudit/report reads the input, streams
-// studies through Run and writes every report.
+// in memory) it runs the bootstrap comparison on raw data already read
+// (Bootstrap). Pooling the claims of a topic across studies is package
+// coefaudit/pool, which takes audit's results. audit reads and writes no
+// file: package coefaudit/report reads the input, streams studies through
+// Run and writes every report.
 //
 // The range of p under rounding (p_range) is computed three ways, and the
 // notes say which: exactly at the corners of the rounding box when the test

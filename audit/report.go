@@ -109,10 +109,6 @@ type ClaimResult struct {
 	// claim's difference has no SE (an unknown covariance, or incomplete).
 	PoolEstimate, PoolSE Number `json:"-"`
 	PoolScale            string `json:"-"`
-	// PrintedDecimals is the most decimals either estimate was printed
-	// with (−1 when neither was printed), which sets how many decimals
-	// reports meant for people show.
-	PrintedDecimals int `json:"-"`
 	// AdjustedP holds the claim's p adjusted within its study; nil when the
 	// claim has no p.
 	AdjustedP *AdjustedPValues `json:"p_adjusted,omitempty"`

@@ -252,7 +252,7 @@ func niceStep(raw float64) float64 {
 // so that the axis reads as ratios.
 func tickLabel(c *audit.ClaimResult, v, step float64) string {
 	if c.Scale == extract.ScaleLog {
-		return strings.Replace(audit.FormatFixed(math.Exp(v), 2), "-", "−", 1)
+		return minusSign(audit.FormatFixed(math.Exp(v), 2))
 	}
 	dec := 0
 	if step < 1 {
@@ -261,8 +261,7 @@ func tickLabel(c *audit.ClaimResult, v, step float64) string {
 	if math.Abs(v) < step/2 {
 		v = 0
 	}
-	s := strconv.FormatFloat(v, 'f', dec, 64)
-	return strings.Replace(s, "-", "−", 1)
+	return minusSign(strconv.FormatFloat(v, 'f', dec, 64))
 }
 
 // rowText says what a chart row draws, to the claim's decimals: for a

@@ -9,6 +9,7 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/pool"
 
 	"github.com/yuin/goldmark"
 	gast "github.com/yuin/goldmark/ast"
@@ -151,12 +152,12 @@ func writeResults(t testing.TB, format string, h Header, res audit.StudyResult, 
 // the Markdown or the terminal writer.
 func writePool(t testing.TB, format string, h Header, res audit.StudyResult) string {
 	t.Helper()
-	rep, err := audit.Pool(&audit.Report{Claims: res.Claims, Source: h.Source}, audit.PoolOptions{Method: audit.PoolDL})
+	rep, err := pool.Run(&audit.Report{Claims: res.Claims, Source: h.Source}, pool.Options{Method: pool.DL})
 	if err != nil {
 		t.Fatal(err)
 	}
 	rep.Plots = []string{h.Source + ".svg"}
-	doc := PoolDocument{PoolReport: rep, PlotsNote: "No forest plots were written: the report goes to " + h.Source + "."}
+	doc := PoolDocument{Report: rep, PlotsNote: "No forest plots were written: the report goes to " + h.Source + "."}
 	var buf bytes.Buffer
 	write := WritePoolMarkdown
 	if format == "table" {

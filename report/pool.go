@@ -9,24 +9,24 @@ import (
 	"strconv"
 	"text/tabwriter"
 
-	"coefaudit/audit"
+	"coefaudit/pool"
 )
 
 // PoolInput reads and audits the input at path (Collect) and pools the
-// claims of each topic across studies (audit.Pool).
-func PoolInput(path string, o Options, po audit.PoolOptions) (*audit.PoolReport, error) {
+// claims of each topic across studies (pool.Run).
+func PoolInput(path string, o Options, po pool.Options) (*pool.Report, error) {
 	rep, err := Collect(path, o)
 	if err != nil {
 		return nil, err
 	}
-	return audit.Pool(rep, po)
+	return pool.Run(rep, po)
 }
 
 // PoolDocument is what the pooling writers write: the pooling, with the
-// forest plots written (PoolReport.Plots) and a note on those that were
+// forest plots written (pool.Report.Plots) and a note on those that were
 // not.
 type PoolDocument struct {
-	*audit.PoolReport
+	*pool.Report
 	// PlotsNote says which forest plots were not written and why (a limit
 	// on the topics drawn, a report with no folder beside it); empty when
 	// every plot asked for was written.
@@ -37,7 +37,7 @@ type PoolDocument struct {
 	Figures map[int][]string `json:"-"`
 }
 
-// WritePoolJSON writes the pooling report as JSON: the PoolReport fields
+// WritePoolJSON writes the pooling report as JSON: the pool.Report fields
 // under their json names, every interval as [low, high], proportions (not
 // percentages) for levels, weights and I², and null for a number that is
 // not known (NaN or infinite; a df of null means the standard normal);
@@ -56,7 +56,7 @@ func WritePoolJSON(w io.Writer, doc PoolDocument) error {
 // written, the note on those not written, and the cautions. Numbers follow
 // the rule of poolFormat.
 func WritePoolTable(w io.Writer, doc PoolDocument) error {
-	rep := doc.PoolReport
+	rep := doc.Report
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s\n%s\n", EscapeControls(poolSummary(rep)), rep.Orientation)
 	pct := poolLevelText(rep.Level)
@@ -146,7 +146,7 @@ func WritePoolTable(w io.Writer, doc PoolDocument) error {
 // and notes; then the plots written, the note on those not written, and
 // the cautions. Numbers follow the rule of poolFormat.
 func WritePoolMarkdown(w io.Writer, doc PoolDocument) error {
-	rep := doc.PoolReport
+	rep := doc.Report
 	bw := bufio.NewWriter(w)
 	pct := poolLevelText(rep.Level)
 	fmt.Fprintf(bw, "# Pooled differences\n\n%s %s\n", mdText(poolSummary(rep)), mdText(rep.Orientation))
@@ -237,10 +237,10 @@ func mdLinkPath(p string) string {
 
 type poolLine struct {
 	name string
-	p    *audit.PooledEstimate
+	p    *pool.Estimate
 }
 
-func poolLines(t audit.TopicPool) []poolLine {
+func poolLines(t pool.Topic) []poolLine {
 	return []poolLine{
 		{"Fixed effect (inverse variance)", t.Fixed},
 		{fmt.Sprintf("Random effects (%s), Wald interval", t.Tau2Method), t.Random},
@@ -248,7 +248,7 @@ func poolLines(t audit.TopicPool) []poolLine {
 	}
 }
 
-func poolSummary(rep *audit.PoolReport) string {
+func poolSummary(rep *pool.Report) string {
 	pooled := 0
 	for _, t := range rep.Topics {
 		if t.Random != nil {

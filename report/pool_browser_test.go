@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"coefaudit/audit"
+	"coefaudit/pool"
 
 	"golang.org/x/net/html"
 )
@@ -22,7 +22,7 @@ import (
 func TestIssue20PoolHTMLInChromium(t *testing.T) {
 	bin := chromiumPath(t)
 	dir := t.TempDir()
-	doc := poolDemoDocument(t, audit.DefaultPoolOptions)
+	doc := poolDemoDocument(t, pool.DefaultOptions)
 	var buf bytes.Buffer
 	if err := WritePoolHTML(&buf, doc); err != nil {
 		t.Fatal(err)

@@ -7,6 +7,7 @@ import (
 	"strconv"
 
 	"coefaudit/audit"
+	"coefaudit/pool"
 )
 
 // PoolFormats lists the formats of the pooling report.
@@ -67,16 +68,16 @@ func WritePoolCSV(w io.Writer, doc PoolDocument) error {
 	}
 	put := func(r poolCSVRow) { _ = cw.Write(r.record()) }
 	for _, t := range doc.Topics {
-		claim := func(part string, s audit.PoolStudy) {
+		claim := func(part string, s pool.Study) {
 			r := blankPoolCSVRow(t.Topic, part)
 			r.row, r.study, r.claim, r.first, r.second, r.text = s.Row, s.Study, s.Claim, s.First, s.Second, s.Outcome
 			r.est, r.se, r.ci, r.wf, r.wr = s.Estimate, s.SE, s.CI, s.WeightFixed, s.WeightRandom
 			put(r)
 		}
-		lines := func(prefix string, l audit.PooledLines, method string) {
+		lines := func(prefix string, l pool.Estimates, method string) {
 			for _, x := range []struct {
 				part, method string
-				p            *audit.PooledEstimate
+				p            *pool.Estimate
 			}{{"fixed", "inverse variance", l.Fixed}, {"random-wald", method, l.Random}, {"random-hksj", method, l.HKSJ}} {
 				if x.p != nil {
 					r := blankPoolCSVRow(t.Topic, prefix+x.part)
@@ -88,7 +89,7 @@ func WritePoolCSV(w io.Writer, doc PoolDocument) error {
 		for _, s := range t.Studies {
 			claim("claim", s)
 		}
-		lines("", t.PooledLines, t.Tau2Method)
+		lines("", t.Estimates, t.Tau2Method)
 		if t.Prediction != nil {
 			r := blankPoolCSVRow(t.Topic, "prediction")
 			r.ci, r.df, r.method = t.Prediction.CI, t.Prediction.DF, t.Tau2Method
@@ -114,7 +115,7 @@ func WritePoolCSV(w io.Writer, doc PoolDocument) error {
 			for _, a := range s.Added {
 				claim("sensitivity-claim", a)
 			}
-			lines("sensitivity-", s.PooledLines, s.Tau2Method)
+			lines("sensitivity-", s.Estimates, s.Tau2Method)
 			r := blankPoolCSVRow(t.Topic, "sensitivity-heterogeneity")
 			r.tau2, r.i2, r.method, r.text = s.Tau2, s.I2, s.Tau2Method, s.Assumption
 			put(r)

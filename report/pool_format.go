@@ -7,12 +7,14 @@ import (
 	"strings"
 
 	"coefaudit/audit"
+	"coefaudit/pool"
 )
 
 // The pooling reports meant for people (table, Markdown, HTML, xlsx and the
-// forest plots) print numbers as a paper prints them: differences,
+// forest plots) print numbers by the precision rule of the claims' reports
+// (audit/precision.go), with a true minus sign: differences,
 // estimates and their intervals to one decimal more than the claims'
-// estimates were printed with, from 2 to 4 (TopicPool.Decimals); test
+// estimates were printed with, from 2 to 4 (pool.Topic.Decimals); test
 // statistics to 2 decimals; p as journals print it, with no leading zero
 // (p = .043, p < .001); τ² to 2 significant digits; I² and weights as
 // percentages. JSON and CSV keep every digit.
@@ -20,23 +22,19 @@ import (
 // poolFormat formats a topic's numbers for people.
 type poolFormat int
 
-// num is a difference or estimate to the topic's decimals, with a true
-// minus sign and never "−0.00".
+// num is a difference or estimate to the topic's decimals, written by the
+// precision rule (audit.FormatFixed: never "−0.00") with a true minus sign.
 func (f poolFormat) num(n audit.Number) string {
 	if !n.Known() {
 		return "–"
 	}
-	return signed(strconv.FormatFloat(float64(n), 'f', max(2, int(f)), 64))
+	return minusSign(audit.FormatFixed(float64(n), max(audit.MinDecimals, int(f))))
 }
 
-// signed replaces the leading hyphen by a minus sign, and drops it from a
-// number that rounds to zero.
-func signed(s string) string {
-	if strings.Trim(s, "-0.") == "" {
-		return strings.TrimPrefix(s, "-")
-	}
-	return strings.Replace(s, "-", "−", 1)
-}
+// minusSign turns the hyphen-minus that audit's rule writes, so that its
+// text pastes into any program, into the true minus sign of a report
+// meant to be read.
+func minusSign(s string) string { return strings.Replace(s, "-", "−", 1) }
 
 // ci is an interval in brackets, "[0.12, 0.45]".
 func (f poolFormat) ci(ci [2]audit.Number) string {
@@ -46,12 +44,12 @@ func (f poolFormat) ci(ci [2]audit.Number) string {
 	return "[" + f.num(ci[0]) + ", " + f.num(ci[1]) + "]"
 }
 
-// stat2 is a test statistic to 2 decimals.
+// stat2 is a test statistic to audit.StatisticDecimals decimals.
 func stat2(n audit.Number) string {
 	if !n.Known() {
 		return "–"
 	}
-	return signed(strconv.FormatFloat(float64(n), 'f', 2, 64))
+	return minusSign(audit.FormatStatistic(float64(n)))
 }
 
 // poolP writes p as journals print it (audit.PStatement), or says it is
@@ -83,11 +81,11 @@ func sig2(n audit.Number) string {
 		return strconv.FormatFloat(x, 'g', 2, 64)
 	}
 	dec := max(0, 1-int(math.Floor(math.Log10(math.Abs(x)))))
-	return signed(strconv.FormatFloat(x, 'f', dec, 64))
+	return minusSign(audit.FormatFixed(x, dec))
 }
 
 // poolTest is a pooled estimate's test, "z = 2.14" or "t(8) = 2.14".
-func poolTest(p *audit.PooledEstimate) string {
+func poolTest(p *pool.Estimate) string {
 	if !p.Statistic.Known() {
 		return "–"
 	}
@@ -118,7 +116,7 @@ func poolSpread(i2 float64) string {
 // poolHeterogeneitySentences are the heterogeneity summary of a pooled
 // topic in plain sentences: τ² with its interval and I² with what it
 // means; Cochran's Q with its test; the prediction interval.
-func poolHeterogeneitySentences(t audit.TopicPool, pct string) []string {
+func poolHeterogeneitySentences(t pool.Topic, pct string) []string {
 	h := t.Heterogeneity
 	if h == nil {
 		return nil
@@ -138,7 +136,7 @@ func poolHeterogeneitySentences(t audit.TopicPool, pct string) []string {
 
 // poolSensitivityText says what the sensitivity analysis of a topic
 // assumed and found, or "" when there is none.
-func poolSensitivityText(t audit.TopicPool, pct string) string {
+func poolSensitivityText(t pool.Topic, pct string) string {
 	s := t.Sensitivity
 	if s == nil {
 		return ""
@@ -159,7 +157,7 @@ func poolSensitivityText(t audit.TopicPool, pct string) string {
 
 // poolRatioLine gives the pooled ratio of ratios of a topic on the log
 // scale, or "".
-func poolRatioLine(t audit.TopicPool) string {
+func poolRatioLine(t pool.Topic) string {
 	if t.Scale != "log" || t.Random == nil {
 		return ""
 	}

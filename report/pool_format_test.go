@@ -11,6 +11,7 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/pool"
 	"coefaudit/report/forestplot"
 
 	"golang.org/x/net/html"
@@ -18,7 +19,7 @@ import (
 
 // manyClaimsTopic pools n invented claims of one topic, their SEs growing
 // with their row so that weights differ.
-func manyClaimsTopic(t testing.TB, n int) audit.TopicPool {
+func manyClaimsTopic(t testing.TB, n int) pool.Topic {
 	t.Helper()
 	claims := make([]audit.ClaimResult, n)
 	for i := range claims {
@@ -26,7 +27,7 @@ func manyClaimsTopic(t testing.TB, n int) audit.TopicPool {
 			Measure: extract.MeasureB, PoolScale: extract.ScaleAsPrinted, PoolEstimate: audit.Number(0.2 + 0.1*math.Sin(float64(i))),
 			PoolSE: audit.Number(0.05 + 0.001*float64(i%97))}
 	}
-	rep, err := audit.Pool(&audit.Report{Claims: claims}, audit.PoolOptions{Method: audit.PoolDL})
+	rep, err := pool.Run(&audit.Report{Claims: claims}, pool.Options{Method: pool.DL})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -114,7 +115,7 @@ func TestIssue20PoolPrecision(t *testing.T) {
 		rep := writersReport(t)
 		tp := &rep.Topics[0]
 		tp.Decimals = min(4, max(2, printed+1))
-		doc := PoolDocument{PoolReport: rep}
+		doc := PoolDocument{Report: rep}
 		var md, page bytes.Buffer
 		if err := WritePoolMarkdown(&md, doc); err != nil {
 			t.Fatal(err)
@@ -169,11 +170,11 @@ func TestIssue17PoolSensitivityShown(t *testing.T) {
 		Measure: extract.MeasureB, Scale: extract.ScaleAsPrinted, Method: "admissible-range", Difference: 0.5,
 		PoolEstimate: audit.Number(math.NaN()), PoolSE: audit.Number(math.NaN()),
 		First: audit.Side{SE: 0.1}, Second: audit.Side{SE: 0.2}})
-	rep, err := audit.Pool(&audit.Report{Claims: claims}, audit.PoolOptions{Covariance: audit.PoolCovariance{Mode: audit.CovarianceBound}})
+	rep, err := pool.Run(&audit.Report{Claims: claims}, pool.Options{Covariance: pool.Covariance{Mode: pool.CovarianceBound}})
 	if err != nil {
 		t.Fatal(err)
 	}
-	doc := PoolDocument{PoolReport: rep}
+	doc := PoolDocument{Report: rep}
 	for format, write := range map[string]func(io.Writer, PoolDocument) error{"table": WritePoolTable, "md": WritePoolMarkdown,
 		"html": WritePoolHTML, "csv": WritePoolCSV, "json": WritePoolJSON, "xlsx": WritePoolXLSX} {
 		var buf bytes.Buffer

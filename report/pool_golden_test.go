@@ -11,7 +11,7 @@ import (
 	"strings"
 	"testing"
 
-	"coefaudit/audit"
+	"coefaudit/pool"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -27,14 +27,14 @@ var fontData = regexp.MustCompile(`base64,[A-Za-z0-9+/=]{1000,}`)
 // poolDemoDocument pools the bundled demo workbook as `coefaudit pool
 // demo-review.xlsx --out pool.md` does, with its forest plot beside the
 // report.
-func poolDemoDocument(t testing.TB, opts audit.PoolOptions) PoolDocument {
+func poolDemoDocument(t testing.TB, opts pool.Options) PoolDocument {
 	t.Helper()
 	rep, err := PoolInput("../fixtures/demo-review.xlsx", Options{}, opts)
 	if err != nil {
 		t.Fatal(err)
 	}
 	rep.Source = "demo-review.xlsx"
-	doc := PoolDocument{PoolReport: rep, Figures: map[int][]string{}}
+	doc := PoolDocument{Report: rep, Figures: map[int][]string{}}
 	files, _ := PoolPlotFiles(rep, PoolPlotOptions{Out: "pool.md"})
 	for _, f := range files {
 		rep.Plots = append(rep.Plots, f.Path)
@@ -74,7 +74,7 @@ func xlsxCells(t testing.TB, b []byte) []byte {
 // shows). On a mismatch the output is written into the test's temporary
 // folder and its path logged.
 func TestIssue20PoolGolden(t *testing.T) {
-	doc := poolDemoDocument(t, audit.DefaultPoolOptions)
+	doc := poolDemoDocument(t, pool.DefaultOptions)
 	writers := map[string]func(io.Writer, PoolDocument) error{
 		"table": WritePoolTable, "json": WritePoolJSON, "csv": WritePoolCSV, "md": WritePoolMarkdown,
 		"html": WritePoolHTML, "xlsx": WritePoolXLSX,

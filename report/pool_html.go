@@ -10,7 +10,7 @@ import (
 	"io"
 	"strconv"
 
-	"coefaudit/audit"
+	"coefaudit/pool"
 	"coefaudit/report/forestplot"
 
 	"codeberg.org/go-fonts/liberation/liberationsansbold"
@@ -72,7 +72,7 @@ type poolHTMLLine struct{ Name, Estimate, SE, CI, Test, P string }
 // (html/template; the plots' text by the SVG writer). Numbers follow the
 // rule of poolFormat.
 func WritePoolHTML(w io.Writer, doc PoolDocument) error {
-	rep := doc.PoolReport
+	rep := doc.Report
 	pct := poolLevelText(rep.Level)
 	page := poolHTMLPage{Source: rep.Source, Summary: poolSummary(rep), Orientation: rep.Orientation, Pct: pct,
 		PlotsNote: doc.PlotsNote, CSS: template.CSS(poolHTMLCSS), Cautions: rep.Cautions, Plots: rep.Plots,
@@ -95,7 +95,7 @@ func WritePoolHTML(w io.Writer, doc PoolDocument) error {
 	return bw.Flush()
 }
 
-func poolHTMLTopicOf(t audit.TopicPool, level float64, pct string, draw bool) (poolHTMLTopic, error) {
+func poolHTMLTopicOf(t pool.Topic, level float64, pct string, draw bool) (poolHTMLTopic, error) {
 	f := poolFormat(t.Decimals)
 	ht := poolHTMLTopic{ID: "topic-" + t.Slug, Topic: t.Topic, ScaleNote: t.ScaleNote, K: t.K, LeftOutCount: len(t.LeftOut),
 		RatioLine: poolRatioLine(t), Sensitivity: poolSensitivityText(t, pct), Heterogeneity: poolHeterogeneitySentences(t, pct),

@@ -7,8 +7,8 @@ import (
 	"slices"
 	"strings"
 
-	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/pool"
 	"coefaudit/report/forestplot"
 )
 
@@ -31,7 +31,7 @@ const MaxPlotRows = 60
 const MaxPlotPages = 10
 
 // PlotPage is one page of a topic's forest plot: the claims it shows, as
-// indexes into TopicPool.Studies, and where it stands.
+// indexes into pool.Topic.Studies, and where it stands.
 type PlotPage struct {
 	// Studies are the indexes of the claims drawn, in input order.
 	Studies []int
@@ -46,7 +46,7 @@ type PlotPage struct {
 // PlotPages splits a pooled topic's claims into forest-plot pages: one
 // page of up to MaxPlotRows, up to MaxPlotPages pages of MaxPlotRows, or
 // one summary page beyond.
-func PlotPages(t audit.TopicPool) []PlotPage {
+func PlotPages(t pool.Topic) []PlotPage {
 	n := len(t.Studies)
 	all := make([]int, n)
 	for i := range all {
@@ -79,7 +79,7 @@ func PlotPages(t audit.TopicPool) []PlotPage {
 }
 
 // PoolPlotFile is one forest-plot file to write: page Page (an index into
-// PlotPages) of topic Topic (an index into PoolReport.Topics), drawn as
+// PlotPages) of topic Topic (an index into pool.Report.Topics), drawn as
 // Format at Path.
 type PoolPlotFile struct {
 	Topic  int
@@ -116,7 +116,7 @@ type PoolPlotOptions struct {
 // pool-<slug>-p1.svg, -p2.svg, ... for a plot of several pages; Dir
 // replaces Out's folder. With neither set no plots are named, so plots are
 // written only when asked for.
-func PoolPlotFiles(rep *audit.PoolReport, o PoolPlotOptions) (files []PoolPlotFile, leftOut int) {
+func PoolPlotFiles(rep *pool.Report, o PoolPlotOptions) (files []PoolPlotFile, leftOut int) {
 	if o.Out == "" && o.Dir == "" {
 		return nil, 0
 	}
@@ -163,7 +163,7 @@ func PoolPlotFiles(rep *audit.PoolReport, o PoolPlotOptions) (files []PoolPlotFi
 
 // WritePoolPlot draws page f.Page of topic t as a forest plot (PoolPlot)
 // in format f.Format, PlotSVG or PlotPNG.
-func WritePoolPlot(w io.Writer, t audit.TopicPool, level float64, f PoolPlotFile) error {
+func WritePoolPlot(w io.Writer, t pool.Topic, level float64, f PoolPlotFile) error {
 	pages := PlotPages(t)
 	if f.Page < 0 || f.Page >= len(pages) {
 		return fmt.Errorf("forest plot of %q: no page %d", t.Topic, f.Page+1)
@@ -183,7 +183,7 @@ func WritePoolPlot(w io.Writer, t audit.TopicPool, level float64, f PoolPlotFile
 // random-effects estimate of all the topic's claims as the diamond with
 // its Wald interval, its HKSJ interval and the prediction interval as
 // bars, and the fixed effect and heterogeneity in the notes.
-func PoolPlot(t audit.TopicPool, level float64, page PlotPage) forestplot.Plot {
+func PoolPlot(t pool.Topic, level float64, page PlotPage) forestplot.Plot {
 	f := poolFormat(t.Decimals)
 	// Weights are proportions of all the topic's claims: a page shows its
 	// claims' share of the whole.

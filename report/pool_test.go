@@ -12,6 +12,7 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/extract"
+	"coefaudit/pool"
 )
 
 func TestPoolPlotFiles(t *testing.T) {
@@ -50,11 +51,11 @@ func TestPoolPlotFiles(t *testing.T) {
 // DefaultMaxPlotTopics by default; topics not pooled have no plot and do
 // not count.
 func TestPoolPlotFilesLimit(t *testing.T) {
-	rep := &audit.PoolReport{}
+	rep := &pool.Report{}
 	for i := range 2*DefaultMaxPlotTopics + 1 {
-		tp := audit.TopicPool{Slug: fmt.Sprintf("t%d", i)}
+		tp := pool.Topic{Slug: fmt.Sprintf("t%d", i)}
 		if i%2 == 0 { // the odd topics are not pooled
-			tp.Random = &audit.PooledEstimate{}
+			tp.Random = &pool.Estimate{}
 		}
 		rep.Topics = append(rep.Topics, tp)
 	}
@@ -82,7 +83,7 @@ func TestPoolPlotFilesLimit(t *testing.T) {
 // TestWritePoolPlotsNote: every format carries the note on the plots not
 // written.
 func TestWritePoolPlotsNote(t *testing.T) {
-	doc := PoolDocument{PoolReport: writersReport(t), PlotsNote: "Forest plots were drawn for the first 1 pooled topics; 3 more were left out."}
+	doc := PoolDocument{Report: writersReport(t), PlotsNote: "Forest plots were drawn for the first 1 pooled topics; 3 more were left out."}
 	for _, tt := range []struct {
 		name  string
 		write func(io.Writer, PoolDocument) error
@@ -106,7 +107,7 @@ func TestWritePoolPlotsNote(t *testing.T) {
 // log scale with a fourth left out (incomplete), a topic with one claim
 // and a claim without topic. The numbers are invented: the writers' tests
 // check what is shown, the pooling's own tests the arithmetic.
-func writersReport(t *testing.T) *audit.PoolReport {
+func writersReport(t *testing.T) *pool.Report {
 	t.Helper()
 	nan := audit.Number(math.NaN())
 	claims := []audit.ClaimResult{
@@ -127,7 +128,7 @@ func writersReport(t *testing.T) *audit.PoolReport {
 			c.Topic = "BCG | vaccine"
 		}
 	}
-	rep, err := audit.Pool(&audit.Report{Claims: claims, Source: "review.xlsx"}, audit.PoolOptions{Method: audit.PoolDL})
+	rep, err := pool.Run(&audit.Report{Claims: claims, Source: "review.xlsx"}, pool.Options{Method: pool.DL})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -138,7 +139,7 @@ func writersReport(t *testing.T) *audit.PoolReport {
 func TestWritePoolJSON(t *testing.T) {
 	rep := writersReport(t)
 	var buf bytes.Buffer
-	if err := WritePoolJSON(&buf, PoolDocument{PoolReport: rep}); err != nil {
+	if err := WritePoolJSON(&buf, PoolDocument{Report: rep}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -188,17 +189,17 @@ func TestWritePoolText(t *testing.T) {
 	rep := writersReport(t)
 	tests := []struct {
 		name  string
-		write func(*bytes.Buffer, *audit.PoolReport) error
+		write func(*bytes.Buffer, *pool.Report) error
 		want  []string
 	}{
-		{"table", func(b *bytes.Buffer, r *audit.PoolReport) error {
-			return WritePoolTable(b, PoolDocument{PoolReport: r})
+		{"table", func(b *bytes.Buffer, r *pool.Report) error {
+			return WritePoolTable(b, PoolDocument{Report: r})
 		},
 			[]string{"TOPIC BCG | vaccine", "first − second", "Random effects (DL), HKSJ", "t(2) =", "Prediction interval",
 				"Ratio of ratios", "Between-study variance τ² =", "Cochran's Q =", "WITHOUT ROW", "row 30 (X, c): its outcome is incomplete",
 				"TOPIC lonely", "Only 1 claim(s)", "results/pool-bcg-vaccine.svg", "1 claim(s) have no topic"}},
-		{"markdown", func(b *bytes.Buffer, r *audit.PoolReport) error {
-			return WritePoolMarkdown(b, PoolDocument{PoolReport: r})
+		{"markdown", func(b *bytes.Buffer, r *pool.Report) error {
+			return WritePoolMarkdown(b, PoolDocument{Report: r})
 		},
 			[]string{"# Pooled differences", `## BCG \| vaccine`, "| Row | Study |", "### Pooled results", "### Heterogeneity",
 				"### Leave one out", "### Left out", "- Row 30 (X, c):", "## lonely", "## Forest plots", "- results/pool-bcg-vaccine.svg"}},

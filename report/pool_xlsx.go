@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"coefaudit/audit"
+	"coefaudit/pool"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -130,7 +131,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 			}},
 		{"cautions", []float64{130}, []string{"caution"},
 			func(add func(...any) error) error {
-				for _, c := range append([]string{poolSummary(doc.PoolReport), doc.Orientation}, doc.Cautions...) {
+				for _, c := range append([]string{poolSummary(doc.Report), doc.Orientation}, doc.Cautions...) {
 					if err := add(st.textCell(c)); err != nil {
 						return err
 					}
@@ -190,7 +191,7 @@ func poolXLSXP(st *xlsxStyles, p audit.Number) any {
 func poolXLSXPooled(doc PoolDocument, st *xlsxStyles, dec map[int]int, add func(...any) error) error {
 	for _, t := range doc.Topics {
 		d := dec[max(2, min(4, t.Decimals))]
-		line := func(what string, k int, p *audit.PooledEstimate) error {
+		line := func(what string, k int, p *pool.Estimate) error {
 			if p == nil {
 				return nil
 			}

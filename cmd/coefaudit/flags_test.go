@@ -10,6 +10,7 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/pool"
 	"coefaudit/report"
 
 	"github.com/spf13/cobra"
@@ -88,14 +89,14 @@ func TestNewPoolCmd(t *testing.T) {
 		wantErr bool
 	}{
 		{"defaults", []string{"in.xlsx"}, poolOptions{input: "in.xlsx", format: "table", maxPlots: report.DefaultMaxPlotTopics,
-			method: audit.PoolREML, level: 95, adjust: audit.AdjustNone, covariance: audit.PoolCovariance{Mode: audit.CovarianceOmit}, covText: audit.CovarianceOmit}, false},
+			method: pool.REML, level: 95, adjust: audit.AdjustNone, covariance: pool.Covariance{Mode: pool.CovarianceOmit}, covText: pool.CovarianceOmit}, false},
 		{"every flag", []string{"in.xlsx", "-f", "md", "-o", "pool.md", "--plots", dir, "--max-plots", "5", "--method", "dl", "--level", "90", "--adjust", "bh", "--covariance", "0.3"},
-			poolOptions{input: "in.xlsx", format: "md", out: "pool.md", plots: dir, maxPlots: 5, method: audit.PoolDL, level: 90, adjust: audit.AdjustBH,
-				covariance: audit.PoolCovariance{Mode: audit.CovarianceCorrelation, Correlation: 0.3}, covText: "0.3"}, false},
+			poolOptions{input: "in.xlsx", format: "md", out: "pool.md", plots: dir, maxPlots: 5, method: pool.DL, level: 90, adjust: audit.AdjustBH,
+				covariance: pool.Covariance{Mode: pool.CovarianceCorrelation, Correlation: 0.3}, covText: "0.3"}, false},
 		{"covariance bound", []string{"in.xlsx", "--covariance", "bound"}, poolOptions{input: "in.xlsx", format: "table", maxPlots: report.DefaultMaxPlotTopics,
-			method: audit.PoolREML, level: 95, adjust: audit.AdjustNone, covariance: audit.PoolCovariance{Mode: audit.CovarianceBound, Correlation: -1}, covText: "bound"}, false},
+			method: pool.REML, level: 95, adjust: audit.AdjustNone, covariance: pool.Covariance{Mode: pool.CovarianceBound, Correlation: -1}, covText: "bound"}, false},
 		{"no plots", []string{"in.xlsx", "--plots", "none"}, poolOptions{input: "in.xlsx", format: "table", plots: "none", maxPlots: report.DefaultMaxPlotTopics,
-			method: audit.PoolREML, level: 95, adjust: audit.AdjustNone, covariance: audit.PoolCovariance{Mode: audit.CovarianceOmit}, covText: audit.CovarianceOmit}, false},
+			method: pool.REML, level: 95, adjust: audit.AdjustNone, covariance: pool.Covariance{Mode: pool.CovarianceOmit}, covText: pool.CovarianceOmit}, false},
 		{"covariance beyond 1", []string{"in.xlsx", "--covariance", "1.2"}, poolOptions{}, true},
 		{"max-plots 0", []string{"in.xlsx", "--max-plots", "0"}, poolOptions{}, true},
 		{"pdf", []string{"in.xlsx", "--format", "pdf"}, poolOptions{}, true},

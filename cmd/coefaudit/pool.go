@@ -10,6 +10,7 @@ import (
 
 	"coefaudit/audit"
 	"coefaudit/cmd/coefaudit/internal/output"
+	"coefaudit/pool"
 	"coefaudit/report"
 
 	"github.com/spf13/cobra"
@@ -27,7 +28,7 @@ type poolOptions struct {
 	level    float64
 	adjust   string
 	// covariance is how claims with an unknown covariance are pooled.
-	covariance audit.PoolCovariance
+	covariance pool.Covariance
 	covText    string
 	stdout     io.Writer
 	files      *output.Files
@@ -39,9 +40,9 @@ func (o *poolOptions) validate() error {
 		return flagErrorf("--format %q: want one of %s", o.format, strings.Join(report.PoolFormats(), ", "))
 	}
 	switch o.method {
-	case audit.PoolREML, audit.PoolDL:
+	case pool.REML, pool.DL:
 	default:
-		return flagErrorf("--method %q: want %s or %s", o.method, audit.PoolREML, audit.PoolDL)
+		return flagErrorf("--method %q: want %s or %s", o.method, pool.REML, pool.DL)
 	}
 	if !(o.level > 0 && o.level < 100) {
 		return flagErrorf("--level %v: want a percentage between 0 and 100, e.g. 95", o.level)
@@ -50,7 +51,7 @@ func (o *poolOptions) validate() error {
 	if err := (&reportOptions{format: "table", adjust: o.adjust}).validate(); err != nil {
 		return err
 	}
-	cov, err := audit.ParsePoolCovariance(o.covText)
+	cov, err := pool.ParseCovariance(o.covText)
 	if err != nil {
 		return flagErrorf("--covariance %q: want omit, bound, or a correlation between -1 and 1, e.g. 0.5", o.covText)
 	}
@@ -93,7 +94,7 @@ func (o *poolOptions) writer() func(io.Writer, report.PoolDocument) error {
 func (o *poolOptions) plotsBeside() bool { return o.format == "table" || o.format == "md" }
 
 func newPoolCmd(runF func(*poolOptions) error) *cobra.Command {
-	o := &poolOptions{method: audit.DefaultPoolOptions.Method, level: 100 * audit.DefaultPoolOptions.Level, maxPlots: report.DefaultMaxPlotTopics}
+	o := &poolOptions{method: pool.DefaultOptions.Method, level: 100 * pool.DefaultOptions.Level, maxPlots: report.DefaultMaxPlotTopics}
 	cmd := &cobra.Command{
 		Use:   "pool INPUT",
 		Short: "Pool the differences of claims that share a topic across studies",
@@ -162,7 +163,7 @@ which were not. All files are put in place together, once the report is complete
 	cmd.Flags().IntVar(&o.maxPlots, "max-plots", report.DefaultMaxPlotTopics, "draw forest plots for at most this many pooled topics, the first in the report")
 	cmd.Flags().StringVar(&o.method, "method", o.method, "estimator of the between-study variance τ²: reml or dl")
 	cmd.Flags().Float64Var(&o.level, "level", o.level, "confidence level of every interval, in percent")
-	cmd.Flags().StringVar(&o.covText, "covariance", audit.CovarianceOmit, "claims whose two estimates share a sample with no printed covariance: omit, or pool them in a sensitivity analysis at a correlation (e.g. 0.5) or at the least favourable bound (bound)")
+	cmd.Flags().StringVar(&o.covText, "covariance", pool.CovarianceOmit, "claims whose two estimates share a sample with no printed covariance: omit, or pool them in a sensitivity analysis at a correlation (e.g. 0.5) or at the least favourable bound (bound)")
 	cmd.Flags().StringVar(&o.adjust, "adjust", audit.DefaultOptions.Adjust, "multiplicity adjustment deciding the claims' outcomes: none, holm or bh")
 	return cmd
 }
@@ -172,7 +173,7 @@ which were not. All files are put in place together, once the report is complete
 // together, once all are complete.
 func runPool(o *poolOptions) error {
 	rep, err := report.PoolInput(o.input, report.Options{Audit: audit.Options{Adjust: o.adjust}},
-		audit.PoolOptions{Method: o.method, Level: o.level / 100, Covariance: o.covariance})
+		pool.Options{Method: o.method, Level: o.level / 100, Covariance: o.covariance})
 	if err != nil {
 		return finish(o.files, err)
 	}
@@ -194,7 +195,7 @@ func runPool(o *poolOptions) error {
 	if o.plots != plotsNone {
 		files, leftOut = report.PoolPlotFiles(rep, po)
 	}
-	doc := report.PoolDocument{PoolReport: rep, Figures: map[int][]string{}}
+	doc := report.PoolDocument{Report: rep, Figures: map[int][]string{}}
 	for _, f := range files {
 		if err := writePlot(o, rep, f); err != nil {
 			return finish(o.files, err)
@@ -249,7 +250,7 @@ func (o *poolOptions) plotsNote(po report.PoolPlotOptions, leftOut int) string {
 
 // writePlot writes one forest plot through the same safe writer as the
 // report: never over the input, put in place with the report.
-func writePlot(o *poolOptions, rep *audit.PoolReport, f report.PoolPlotFile) error {
+func writePlot(o *poolOptions, rep *pool.Report, f report.PoolPlotFile) error {
 	t, err := o.files.Open(o.stdout, f.Path, o.input)
 	if err != nil {
 		return flagError{err}

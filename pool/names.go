@@ -1,4 +1,4 @@
-package audit
+package pool
 
 import (
 	"fmt"
@@ -9,7 +9,7 @@ import (
 
 // The names pooling gives its scales, measures and topics.
 
-func poolMeasureNoun(m string) string {
+func measureNoun(m string) string {
 	switch m {
 	case extract.MeasureB:
 		return "regression coefficients (b)"
@@ -31,7 +31,7 @@ func poolMeasureNoun(m string) string {
 	return fmt.Sprintf("coefficients of measure %q", m)
 }
 
-func poolScalePhrase(scale string) string {
+func scalePhrase(scale string) string {
 	switch scale {
 	case extract.ScaleLog:
 		return "on the log scale"
@@ -43,8 +43,8 @@ func poolScalePhrase(scale string) string {
 	return fmt.Sprintf("on the %q scale", scale)
 }
 
-// poolScaleNote explains the pooling scale of a topic.
-func poolScaleNote(k poolKey) string {
+// scaleNote explains the pooling scale of a topic.
+func scaleNote(k key) string {
 	switch k.scale {
 	case extract.ScaleLog:
 		return "Ratio measures are pooled on the log scale: each difference is log(first ratio) − log(second ratio), " +
@@ -55,15 +55,15 @@ func poolScaleNote(k poolKey) string {
 			"The pooled value is a difference of z values, not of correlations r."
 	case extract.ScaleAsPrinted:
 		return fmt.Sprintf("The differences of %s are pooled in the coefficients' own units, so they are comparable only "+
-			"if every study measured its variables in the same units.", poolMeasureNoun(k.measure))
+			"if every study measured its variables in the same units.", measureNoun(k.measure))
 	case "":
 		return "No claim of this topic could be pooled, so it has no pooling scale."
 	}
 	return fmt.Sprintf("The differences are pooled on the %q scale.", k.scale)
 }
 
-// poolMaxSlug bounds the length of a slug, to keep file names short.
-const poolMaxSlug = 60
+// maxSlug bounds the length of a slug, to keep file names short.
+const maxSlug = 60
 
 // Slug returns the file-name form of a topic: lower case, every run of
 // characters other than a–z and 0–9 replaced by one hyphen, no hyphen at
@@ -83,8 +83,8 @@ func Slug(topic string) string {
 		hyphen = true
 	}
 	s := b.String()
-	if len(s) > poolMaxSlug {
-		s = strings.TrimRight(s[:poolMaxSlug], "-")
+	if len(s) > maxSlug {
+		s = strings.TrimRight(s[:maxSlug], "-")
 	}
 	if s == "" {
 		return "topic"
@@ -92,8 +92,8 @@ func Slug(topic string) string {
 	return s
 }
 
-// poolUniqueSlug appends -2, -3, ... to a slug already taken.
-func poolUniqueSlug(s string, taken map[string]bool) string {
+// uniqueSlug appends -2, -3, ... to a slug already taken.
+func uniqueSlug(s string, taken map[string]bool) string {
 	out := s
 	for n := 2; taken[out]; n++ {
 		out = fmt.Sprintf("%s-%d", s, n)

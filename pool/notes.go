@@ -1,22 +1,25 @@
-package audit
+package pool
 
 import (
 	"fmt"
 	"strings"
 
+	"coefaudit/audit"
 	"coefaudit/infer/meta"
 )
 
 // Why claims are left out of a pooling, and the notes on what was pooled.
 
-// poolDecimals is one more than the most decimals the claims' estimates
-// were printed with, from 2 to 4.
-func poolDecimals(claims []ClaimResult) int {
-	d := 1
-	for _, c := range claims {
-		d = max(d, c.PrintedDecimals)
+// topicDecimals is how many decimals reports meant for people give a
+// topic's numbers: the most that audit's precision rule gives any of its
+// claims (ClaimResult.EstimateDecimals), so that a pooled value is shown
+// as precisely as the claims it pools.
+func topicDecimals(claims []audit.ClaimResult) int {
+	d := audit.MinDecimals
+	for i := range claims {
+		d = max(d, claims[i].EstimateDecimals())
 	}
-	return min(4, max(2, d+1))
+	return d
 }
 
 // randomEffectsNotes says in our words what a random-effects fit warns
@@ -38,19 +41,19 @@ func randomEffectsNotes(re meta.RandomEffects) []string {
 	return notes
 }
 
-// poolOtherKeyReason says why a claim of another measure or scale than the
+// otherKeyReason says why a claim of another measure or scale than the
 // topic's majority is left out.
-func poolOtherKeyReason(k, major poolKey) string {
+func otherKeyReason(k, major key) string {
 	return fmt.Sprintf("it compares %s %s, but most usable claims of this topic compare %s %s; "+
 		"differences of different measures or on different scales cannot be pooled",
-		poolMeasureNoun(k.measure), poolScalePhrase(k.scale), poolMeasureNoun(major.measure), poolScalePhrase(major.scale))
+		measureNoun(k.measure), scalePhrase(k.scale), measureNoun(major.measure), scalePhrase(major.scale))
 }
 
-// poolUnusableReason says why a claim cannot be pooled whatever the topic's
+// unusableReason says why a claim cannot be pooled whatever the topic's
 // other claims, or returns "".
-func poolUnusableReason(c ClaimResult) string {
+func unusableReason(c audit.ClaimResult) string {
 	incomplete := func(r string) string {
-		if c.Outcome != Incomplete {
+		if c.Outcome != audit.Incomplete {
 			return r
 		}
 		r = "its outcome is incomplete: " + r
@@ -72,10 +75,10 @@ func poolUnusableReason(c ClaimResult) string {
 	return ""
 }
 
-// poolIndependenceNotes warns about claims of one study pooled together: their
+// independenceNotes warns about claims of one study pooled together: their
 // differences share a sample or a paper's data, so they are not the
 // independent estimates the model assumes and the pooled SE is too small.
-func poolIndependenceNotes(usable []ClaimResult) []string {
+func independenceNotes(usable []audit.ClaimResult) []string {
 	rows := map[string][]string{}
 	var order []string
 	for _, c := range usable {

@@ -1,4 +1,4 @@
-package audit_test
+package pool_test
 
 import (
 	"errors"
@@ -11,6 +11,7 @@ import (
 	"coefaudit/extract"
 	"coefaudit/infer"
 	"coefaudit/infer/meta"
+	"coefaudit/pool"
 )
 
 // bcgCounts are the 13 BCG vaccine trials as (a, n1, c, n2): TB cases
@@ -84,9 +85,9 @@ func kackerClaims(topic string, firstRow int) []audit.ClaimResult {
 	return out
 }
 
-func poolOne(t *testing.T, claims []audit.ClaimResult, opts audit.PoolOptions) audit.TopicPool {
+func poolOne(t *testing.T, claims []audit.ClaimResult, opts pool.Options) pool.Topic {
 	t.Helper()
-	rep, err := audit.Pool(&audit.Report{Claims: claims}, opts)
+	rep, err := pool.Run(&audit.Report{Claims: claims}, opts)
 	if err != nil {
 		t.Fatalf("Pool() error: %v", err)
 	}
@@ -118,7 +119,7 @@ func checkAll(t *testing.T, checks []check) {
 // publication recorded, and recomputed independently by the project,
 // agreeing. They are printed to 6 decimals: tolerance one unit in the 6th.
 func TestPoolBCG(t *testing.T) {
-	tp := poolOne(t, bcgClaims("BCG vaccine"), audit.PoolOptions{Method: audit.PoolDL})
+	tp := poolOne(t, bcgClaims("BCG vaccine"), pool.Options{Method: pool.DL})
 	if tp.K != 13 || tp.Tau2Method != "DL" || tp.Scale != extract.ScaleLog || tp.Measure != extract.MeasureRR {
 		t.Fatalf("Pool(BCG) K %d, method %q, scale %q, measure %q; want 13, DL, log, rr", tp.K, tp.Tau2Method, tp.Scale, tp.Measure)
 	}
@@ -171,7 +172,7 @@ func TestPoolBCG(t *testing.T) {
 	}
 	// Leaving trial 8 out must equal pooling the other 12.
 	rest := append(bcgClaims("BCG vaccine")[:7:7], bcgClaims("BCG vaccine")[8:]...)
-	r12 := poolOne(t, rest, audit.PoolOptions{Method: audit.PoolDL})
+	r12 := poolOne(t, rest, pool.Options{Method: pool.DL})
 	l := tp.LeaveOneOut[7]
 	if l.Study != "trial 8" || l.Row != 9 {
 		t.Errorf("LeaveOneOut[7] is %s row %d, want trial 8 row 9", l.Study, l.Row)
@@ -186,7 +187,7 @@ func TestPoolBCG(t *testing.T) {
 // tests); the default method is REML.
 func TestPoolBCGREML(t *testing.T) {
 	claims := bcgClaims("BCG")
-	tp := poolOne(t, claims, audit.PoolOptions{})
+	tp := poolOne(t, claims, pool.Options{})
 	studies := make([]meta.Study, len(claims))
 	for i, c := range claims {
 		studies[i] = meta.StudyFromStandardError(c.Study, float64(c.PoolEstimate), float64(c.PoolSE))
@@ -233,7 +234,7 @@ func TestPoolLeftOut(t *testing.T) {
 		pooled("U", 25, extract.MeasureR, extract.ScaleFisherZ, 0.2, 0.1, audit.Consistent, topic),
 		pooled("T", 26, extract.MeasureOR, extract.ScaleLog, 0.2, 0.1, audit.Missed, topic),
 	)
-	tp := poolOne(t, claims, audit.PoolOptions{Method: audit.PoolDL})
+	tp := poolOne(t, claims, pool.Options{Method: pool.DL})
 	want := []struct {
 		row  int
 		text []string
@@ -287,7 +288,7 @@ func TestPoolLeftOut(t *testing.T) {
 // that this does not converge, so the topic must fall back to DL, say so,
 // and give the DL values of Kacker's example (see TestPoolLeftOut).
 func TestPoolREMLFallback(t *testing.T) {
-	tp := poolOne(t, kackerClaims("interlab", 2), audit.PoolOptions{Method: audit.PoolREML,
+	tp := poolOne(t, kackerClaims("interlab", 2), pool.Options{Method: pool.REML,
 		REML: meta.REMLOptions{Tolerance: 1e-15, MaxIterations: 1}})
 	if tp.Tau2Method != "DL" || tp.Error != "" {
 		t.Fatalf("Pool(REML not converging) Tau2Method %q, Error %q; want DL and no error", tp.Tau2Method, tp.Error)
@@ -302,7 +303,7 @@ func TestPoolREMLFallback(t *testing.T) {
 func TestPoolTooFew(t *testing.T) {
 	claims := append(kackerClaims("one", 2)[:1],
 		pooled("Z", 9, extract.MeasureB, extract.ScaleAsPrinted, 1, math.NaN(), audit.Indeterminate, "one"))
-	tp := poolOne(t, claims, audit.DefaultPoolOptions)
+	tp := poolOne(t, claims, pool.DefaultOptions)
 	if tp.K != 1 || tp.Fixed != nil || tp.Random != nil || tp.HKSJ != nil || tp.Heterogeneity != nil || tp.Prediction != nil {
 		t.Fatalf("Pool(one usable) = K %d with pooled results %v %v; want K 1 and none", tp.K, tp.Fixed, tp.Random)
 	}
@@ -313,7 +314,7 @@ func TestPoolTooFew(t *testing.T) {
 		t.Errorf("Pool(one usable) notes %q, want one saying only 1 claim can be pooled", tp.Notes)
 	}
 	// Two claims: pooled, but no prediction interval or leave-one-out.
-	tp = poolOne(t, kackerClaims("two", 2)[:2], audit.PoolOptions{Method: audit.PoolDL})
+	tp = poolOne(t, kackerClaims("two", 2)[:2], pool.Options{Method: pool.DL})
 	if tp.Random == nil || tp.Prediction != nil || len(tp.LeaveOneOut) != 0 {
 		t.Errorf("Pool(two) random %v, prediction %v, leave-one-out %d; want pooled, nil, 0", tp.Random, tp.Prediction, len(tp.LeaveOneOut))
 	}
@@ -338,7 +339,7 @@ func TestPoolMixedScales(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			tp := poolOne(t, tt.claims, audit.PoolOptions{Method: audit.PoolDL})
+			tp := poolOne(t, tt.claims, pool.Options{Method: pool.DL})
 			if tp.Measure != tt.wantMeasure || tp.K != tt.wantK || len(tp.LeftOut) != len(tt.claims)-tt.wantK {
 				t.Fatalf("Pool() measure %q K %d left out %d, want %q %d %d", tp.Measure, tp.K, len(tp.LeftOut), tt.wantMeasure, tt.wantK, len(tt.claims)-tt.wantK)
 			}
@@ -358,11 +359,11 @@ func TestPoolTopicsAndNotes(t *testing.T) {
 		pooled("Q", 4, extract.MeasureR, extract.ScaleFisherZ, 0.1, 0.1, audit.Consistent, ""),
 		pooled("P", 5, extract.MeasureB, extract.ScaleAsPrinted, 0.1, 0.1, audit.Consistent, "self-esteem mood"),
 	}
-	rep, err := audit.Pool(&audit.Report{Claims: claims, Source: "in.xlsx"}, audit.DefaultPoolOptions)
+	rep, err := pool.Run(&audit.Report{Claims: claims, Source: "in.xlsx"}, pool.DefaultOptions)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if rep.ClaimsWithoutTopic != 1 || len(rep.Topics) != 2 || rep.Orientation != audit.PoolOrientation || len(rep.Cautions) == 0 {
+	if rep.ClaimsWithoutTopic != 1 || len(rep.Topics) != 2 || rep.Orientation != pool.Orientation || len(rep.Cautions) == 0 {
 		t.Fatalf("Pool() without topic %d, topics %d, cautions %d", rep.ClaimsWithoutTopic, len(rep.Topics), len(rep.Cautions))
 	}
 	z := rep.Topics[0]
@@ -382,43 +383,25 @@ func TestPoolTopicsAndNotes(t *testing.T) {
 	}
 }
 
-func TestPoolOptionsErrors(t *testing.T) {
+func TestOptionsErrors(t *testing.T) {
 	rep := &audit.Report{Claims: bcgClaims("t")}
-	if _, err := audit.Pool(rep, audit.PoolOptions{Method: "pm"}); !errors.Is(err, audit.ErrPoolMethod) {
-		t.Errorf("Pool(method pm) error = %v, want %v", err, audit.ErrPoolMethod)
+	if _, err := pool.Run(rep, pool.Options{Method: "pm"}); !errors.Is(err, pool.ErrMethod) {
+		t.Errorf("Pool(method pm) error = %v, want %v", err, pool.ErrMethod)
 	}
 	for _, level := range []float64{-0.1, 1, 95} {
-		if _, err := audit.Pool(rep, audit.PoolOptions{Level: level}); !errors.Is(err, infer.ErrProbability) {
+		if _, err := pool.Run(rep, pool.Options{Level: level}); !errors.Is(err, infer.ErrProbability) {
 			t.Errorf("Pool(level %v) error = %v, want %v", level, err, infer.ErrProbability)
 		}
-	}
-}
-
-func TestSlug(t *testing.T) {
-	tests := []struct{ in, want string }{
-		{"Anxiety & sleep", "anxiety-sleep"},
-		{"  --Sex differences: BMI (2020)--", "sex-differences-bmi-2020"},
-		{"Élan vital", "lan-vital"},
-		{"???", "topic"},
-		{"../../etc/passwd", "etc-passwd"},
-		{strings.Repeat("ab ", 40), strings.TrimRight(strings.Repeat("ab-", 20), "-")},
-	}
-	for _, tt := range tests {
-		t.Run(tt.in, func(t *testing.T) {
-			if got := audit.Slug(tt.in); got != tt.want {
-				t.Errorf("Slug(%q) = %q, want %q", tt.in, got, tt.want)
-			}
-		})
 	}
 }
 
 // Three of the BCG trials of Colditz et al. (1994) (bcgCounts) and a claim
 // whose covariance was not reported. The printed values have no outside
 // source; they record this package's output.
-func ExamplePool() {
+func ExampleRun() {
 	claims := bcgClaims("BCG vaccine")[:3]
 	claims = append(claims, bounded("trial X", 9, extract.MeasureRR, extract.ScaleLog, -0.5, 0.2, 0.3, "BCG vaccine"))
-	rep, err := audit.Pool(&audit.Report{Claims: claims}, audit.PoolOptions{Method: audit.PoolDL})
+	rep, err := pool.Run(&audit.Report{Claims: claims}, pool.Options{Method: pool.DL})
 	if err != nil {
 		fmt.Println("error:", err)
 		return
@@ -439,7 +422,7 @@ func ExamplePool() {
 func BenchmarkPool(b *testing.B) {
 	rep := &audit.Report{Claims: bcgClaims("BCG")}
 	for b.Loop() {
-		if _, err := audit.Pool(rep, audit.DefaultPoolOptions); err != nil {
+		if _, err := pool.Run(rep, pool.DefaultOptions); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -458,7 +441,7 @@ func BenchmarkPoolTenThousand(b *testing.B) {
 	}
 	rep := &audit.Report{Claims: claims}
 	for b.Loop() {
-		if _, err := audit.Pool(rep, audit.DefaultPoolOptions); err != nil {
+		if _, err := pool.Run(rep, pool.DefaultOptions); err != nil {
 			b.Fatal(err)
 		}
 	}

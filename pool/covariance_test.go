@@ -1,4 +1,4 @@
-package audit_test
+package pool_test
 
 import (
 	"errors"
@@ -9,6 +9,7 @@ import (
 	"coefaudit/audit"
 	"coefaudit/extract"
 	"coefaudit/infer/meta"
+	"coefaudit/pool"
 )
 
 // TestIssue17PoolKeepsRounding: a claim indeterminate for the rounding of
@@ -19,7 +20,7 @@ import (
 func TestIssue17PoolKeepsRounding(t *testing.T) {
 	claims := kackerClaims("interlab", 2)
 	claims = append(claims, pooled("R", 30, extract.MeasureB, extract.ScaleAsPrinted, 62.1, 0.3, audit.Indeterminate, "interlab"))
-	tp := poolOne(t, claims, audit.PoolOptions{Method: audit.PoolDL})
+	tp := poolOne(t, claims, pool.Options{Method: pool.DL})
 	if tp.K != 10 || len(tp.LeftOut) != 0 {
 		t.Fatalf("Pool(with a claim indeterminate for rounding) K = %d, left out %+v; want 10 and none", tp.K, tp.LeftOut)
 	}
@@ -48,7 +49,7 @@ func TestIssue17PoolCovariance(t *testing.T) {
 		bounded("B2", 41, extract.MeasureB, extract.ScaleAsPrinted, 61.2, 0.5, 0.2, topic),
 		// Another measure: left out for that, even in the sensitivity analysis.
 		bounded("B3", 42, extract.MeasureBeta, extract.ScaleAsPrinted, 0.2, 0.1, 0.1, topic))
-	main := poolOne(t, claims, audit.PoolOptions{Method: audit.PoolDL})
+	main := poolOne(t, claims, pool.Options{Method: pool.DL})
 	if main.K != 9 || main.Sensitivity != nil || len(main.LeftOut) != 3 {
 		t.Fatalf("Pool(default) K %d, sensitivity %v, left out %d; want 9, none, 3", main.K, main.Sensitivity, len(main.LeftOut))
 	}
@@ -68,11 +69,11 @@ func TestIssue17PoolCovariance(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			pc, err := audit.ParsePoolCovariance(tt.cov)
+			pc, err := pool.ParseCovariance(tt.cov)
 			if err != nil {
 				t.Fatal(err)
 			}
-			tp := poolOne(t, claims, audit.PoolOptions{Method: audit.PoolDL, Covariance: pc})
+			tp := poolOne(t, claims, pool.Options{Method: pool.DL, Covariance: pc})
 			if tp.K != 9 || float64(tp.Random.Estimate) != float64(main.Random.Estimate) {
 				t.Errorf("Pool(%s) main K %d estimate %v; want the default's 9, %v", tt.cov, tp.K, tp.Random.Estimate, main.Random.Estimate)
 			}
@@ -100,19 +101,19 @@ func TestIssue17PoolCovariance(t *testing.T) {
 	}
 }
 
-func TestParsePoolCovariance(t *testing.T) {
+func TestParseCovariance(t *testing.T) {
 	for _, s := range []string{"", "omit", "OMIT", "bound", "0", "-1", "1", "0.35", "−0.5"} {
-		if _, err := audit.ParsePoolCovariance(s); err != nil {
-			t.Errorf("ParsePoolCovariance(%q) error: %v", s, err)
+		if _, err := pool.ParseCovariance(s); err != nil {
+			t.Errorf("ParseCovariance(%q) error: %v", s, err)
 		}
 	}
 	for _, s := range []string{"1.5", "-2", "half", "NaN", "0.3x"} {
-		if _, err := audit.ParsePoolCovariance(s); !errors.Is(err, audit.ErrPoolCovariance) {
-			t.Errorf("ParsePoolCovariance(%q) error = %v, want %v", s, err, audit.ErrPoolCovariance)
+		if _, err := pool.ParseCovariance(s); !errors.Is(err, pool.ErrCovariance) {
+			t.Errorf("ParseCovariance(%q) error = %v, want %v", s, err, pool.ErrCovariance)
 		}
 	}
-	if _, err := audit.Pool(&audit.Report{}, audit.PoolOptions{Covariance: audit.PoolCovariance{Mode: "guess"}}); !errors.Is(err, audit.ErrPoolCovariance) {
-		t.Errorf("Pool(covariance guess) error = %v, want %v", err, audit.ErrPoolCovariance)
+	if _, err := pool.Run(&audit.Report{}, pool.Options{Covariance: pool.Covariance{Mode: "guess"}}); !errors.Is(err, pool.ErrCovariance) {
+		t.Errorf("Pool(covariance guess) error = %v, want %v", err, pool.ErrCovariance)
 	}
 }
 
@@ -127,7 +128,7 @@ func TestIssue20PoolNotesNameReportedIntervals(t *testing.T) {
 		pooled("B", 3, extract.MeasureB, extract.ScaleAsPrinted, 0.31, 0.1, audit.Consistent, "t"),
 		pooled("C", 4, extract.MeasureB, extract.ScaleAsPrinted, 0.29, 0.1, audit.Consistent, "t"),
 	}
-	tp := poolOne(t, claims, audit.DefaultPoolOptions)
+	tp := poolOne(t, claims, pool.DefaultOptions)
 	notes := strings.Join(tp.Notes, " ")
 	if !strings.Contains(notes, "HKSJ interval is narrower than the Wald interval") {
 		t.Errorf("Pool(q < 1) notes %q, want one saying the HKSJ interval is the narrower", tp.Notes)
@@ -135,18 +136,6 @@ func TestIssue20PoolNotesNameReportedIntervals(t *testing.T) {
 	for _, bad := range []string{"max(1, q)", "modified"} {
 		if strings.Contains(notes, bad) {
 			t.Errorf("Pool(q < 1) notes %q mention %q, an interval the report does not give", tp.Notes, bad)
-		}
-	}
-}
-
-// TestIssue20PoolDecimals: a topic's numbers are shown to one decimal more
-// than its estimates were printed with, from 2 to 4 (the rule of issue 20).
-func TestIssue20PoolDecimals(t *testing.T) {
-	for _, tt := range []struct{ printed, want int }{{-1, 2}, {0, 2}, {1, 2}, {2, 3}, {3, 4}, {6, 4}} {
-		claims := kackerClaims("t", 2)
-		claims[3].PrintedDecimals = tt.printed
-		if got := poolOne(t, claims, audit.DefaultPoolOptions).Decimals; got != tt.want {
-			t.Errorf("Pool(estimates printed with %d decimals).Decimals = %d, want %d", tt.printed, got, tt.want)
 		}
 	}
 }
