@@ -40,7 +40,9 @@ func openSheets(s *inputSheets) (*Source, error) {
 	}
 	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close)}
 	src.studies = func(yield func(*Study, error) bool) {
-		streamClaims(s, sheet, counts, newRowIndex(in, held), yield)
+		c := counts
+		counts = nil // spent by the assembler: the sequence is ranged once
+		streamClaims(s, sheet, c, newRowIndex(in, held), yield)
 	}
 	return src, nil
 }

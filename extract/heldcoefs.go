@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 )
 
@@ -31,11 +32,13 @@ type heldCoefficients struct {
 	// cells are the rows' cells, packed (packRow).
 	cells []byte
 	rows  []heldRow
-	// byStudy chains the rows of each study, keyed by the study cell as
-	// Read gives it to Coefficient.Study; order lists the studies in the
-	// order of their first row.
-	byStudy map[string]rowChain
-	order   []string
+	// studies are the studies in the order of their first row, each with
+	// the chain of its rows; named is how they are found while the sheet
+	// is read, sorted (their indexes by name) once it has been, since a
+	// map of as many studies as claims takes twice the memory.
+	studies []heldStudy
+	named   map[string]int32
+	sorted  []int32
 	// problems are what the reader found wrong with a row (heldRow.problem).
 	problems []error
 }
@@ -49,9 +52,11 @@ type heldRow struct {
 	next, problem int32
 }
 
-// rowChain is the first and last row of a study among the held rows, and
-// whether a study of claims has taken them (take).
-type rowChain struct {
+// heldStudy is a study of the held rows: its name, as Read gives it to
+// Coefficient.Study, its first and last row, and whether a study of
+// claims has taken its coefficients (take).
+type heldStudy struct {
+	name        string
 	first, last int32
 	taken       bool
 }
@@ -60,7 +65,7 @@ type rowChain struct {
 // rows packed. It returns the sheet's problems, as readCoefficientSheet
 // does, and a fatal error from the source.
 func holdCoefficientSheet(src rowSource, pos Position) (*heldCoefficients, []*CellError, error) {
-	h := &heldCoefficients{pos: pos, byStudy: map[string]rowChain{}}
+	h := &heldCoefficients{pos: pos, named: map[string]int32{}}
 	var rr rowReading
 	var tooMany error
 	cols, err := readSheet(src, pos, nameSet(coefficientColumnNames), func(cols *columns, row *sheetRow) bool {
@@ -87,6 +92,7 @@ func holdCoefficientSheet(src rowSource, pos Position) (*heldCoefficients, []*Ce
 	if err == nil {
 		err = tooMany
 	}
+	h.sort()
 	return h, sheetProblems(cols, pos, "coefficients"), err
 }
 
@@ -100,25 +106,44 @@ func (h *heldCoefficients) add(study string, row *sheetRow) {
 	}
 	h.rows = append(h.rows, r)
 	h.cells = packRow(h.cells, row.Cells)
-	ch, seen := h.byStudy[study]
+	k, seen := h.named[study]
 	if !seen {
 		// A copy: the cell may be cut from a CSV line, which it would
 		// keep alive.
 		study = strings.Clone(study)
-		h.order = append(h.order, study)
-		h.byStudy[study] = rowChain{first: i, last: i}
+		h.named[study] = int32(len(h.studies))
+		h.studies = append(h.studies, heldStudy{name: study, first: i, last: i})
 		return
 	}
-	h.rows[ch.last].next = i
-	ch.last = i
-	h.byStudy[study] = ch
+	st := &h.studies[k]
+	h.rows[st.last].next = i
+	st.last = i
+}
+
+// sort indexes the studies by name, in place of named.
+func (h *heldCoefficients) sort() {
+	h.sorted = make([]int32, len(h.studies))
+	for i := range h.sorted {
+		h.sorted[i] = int32(i)
+	}
+	slices.SortFunc(h.sorted, func(a, b int32) int { return strings.Compare(h.studies[a].name, h.studies[b].name) })
+	h.named = nil
+}
+
+// find returns the held study of a name, or nil.
+func (h *heldCoefficients) find(name string) *heldStudy {
+	i, ok := slices.BinarySearchFunc(h.sorted, name, func(k int32, name string) int { return strings.Compare(h.studies[k].name, name) })
+	if !ok {
+		return nil
+	}
+	return &h.studies[h.sorted[i]]
 }
 
 // of returns the coefficients of a study in input order, read from their
 // held rows, each call a fresh copy.
 func (h *heldCoefficients) of(study string) []Coefficient {
-	ch, ok := h.byStudy[study]
-	if !ok {
+	st := h.find(study)
+	if st == nil {
 		return nil
 	}
 	var (
@@ -126,7 +151,7 @@ func (h *heldCoefficients) of(study string) []Coefficient {
 		rr  rowReading
 		row sheetRow
 	)
-	for i := ch.first; i >= 0; i = h.rows[i].next {
+	for i := st.first; i >= 0; i = h.rows[i].next {
 		h.unpack(i, &row)
 		if h.cc.study >= 0 && h.cc.study < len(row.Cells) {
 			// The study cell, as the row is read: its trimmed text.
@@ -143,15 +168,12 @@ func (h *heldCoefficients) of(study string) []Coefficient {
 // take is of for a study of claims, and reports whether its coefficients
 // were taken before.
 func (h *heldCoefficients) take(study string) ([]Coefficient, bool) {
-	ch, ok := h.byStudy[study]
-	if !ok {
+	st := h.find(study)
+	if st == nil {
 		return nil, false
 	}
-	before := ch.taken
-	if !before {
-		ch.taken = true
-		h.byStudy[study] = ch
-	}
+	before := st.taken
+	st.taken = true
 	return h.of(study), before
 }
 
@@ -159,9 +181,9 @@ func (h *heldCoefficients) take(study string) ([]Coefficient, bool) {
 // order of their first row.
 func (h *heldCoefficients) untaken() []string {
 	var out []string
-	for _, name := range h.order {
-		if !h.byStudy[name].taken {
-			out = append(out, name)
+	for _, st := range h.studies {
+		if !st.taken {
+			out = append(out, st.name)
 		}
 	}
 	return out
@@ -177,24 +199,22 @@ func (h *heldCoefficients) unpack(i int32, row *sheetRow) {
 	row.Cells = unpackRow(h.cells[r.start:], row.Cells[:0])
 }
 
-// packRow appends a row's cells to b: their number, then for each a byte
-// that is 1 for a numeric cell, the length and bytes of its text, and for
-// a numeric cell those of its displayed text.
+// packRow appends a row's cells to b: their number, then for each twice
+// the length of its text, plus 1 for a numeric cell, and the text, and for
+// a numeric cell the length and bytes of its displayed text.
 func packRow(b []byte, cells []sheetCell) []byte {
 	b = binary.AppendUvarint(b, uint64(len(cells)))
 	for _, c := range cells {
-		text := func(s string) {
-			b = binary.AppendUvarint(b, uint64(len(s)))
-			b = append(b, s...)
-		}
+		numeric := uint64(0)
 		if c.Numeric {
-			b = append(b, 1)
-			text(c.Text)
-			text(c.Display)
-			continue
+			numeric = 1
 		}
-		b = append(b, 0)
-		text(c.Text)
+		b = binary.AppendUvarint(b, uint64(len(c.Text))<<1|numeric)
+		b = append(b, c.Text...)
+		if c.Numeric {
+			b = binary.AppendUvarint(b, uint64(len(c.Display)))
+			b = append(b, c.Display...)
+		}
 	}
 	return b
 }
@@ -206,18 +226,16 @@ func unpackRow(b []byte, cells []sheetCell) []sheetCell {
 		b = b[k:]
 		return v
 	}
-	text := func() string {
-		n := next()
+	text := func(n uint64) string {
 		s := string(b[:n])
 		b = b[n:]
 		return s
 	}
 	for n := next(); n > 0; n-- {
-		numeric := b[0] == 1
-		b = b[1:]
-		c := sheetCell{Text: text(), Numeric: numeric}
-		if numeric {
-			c.Display = text()
+		v := next()
+		c := sheetCell{Text: text(v >> 1), Numeric: v&1 == 1}
+		if c.Numeric {
+			c.Display = text(next())
 		}
 		cells = append(cells, c)
 	}
