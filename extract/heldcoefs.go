@@ -39,17 +39,22 @@ type heldCoefficients struct {
 	studies []heldStudy
 	named   map[string]int32
 	sorted  []int32
-	// problems are what the reader found wrong with a row (heldRow.problem).
-	problems []error
+	// odd holds, by row, what few rows have: a reader's problem, or a
+	// number of fields other than the header's (sheetRow).
+	odd map[int32]oddRow
 }
 
 // heldRow is one row of a held sheet: where its cells start in cells, its
-// row number and field count (sheetRow), the next row of its study (−1 at
-// the end) and its reader problem (an index into problems, −1 for none).
+// row number and the next row of its study (−1 at the end).
 type heldRow struct {
-	start         int
-	row, fields   int32
-	next, problem int32
+	start     int
+	row, next int32
+}
+
+// oddRow is what a held row has that most rows do not.
+type oddRow struct {
+	fields  int
+	problem error
 }
 
 // heldStudy is a study of the held rows: its name, as Read gives it to
@@ -65,7 +70,7 @@ type heldStudy struct {
 // rows packed. It returns the sheet's problems, as readCoefficientSheet
 // does, and a fatal error from the source.
 func holdCoefficientSheet(src rowSource, pos Position) (*heldCoefficients, []*CellError, error) {
-	h := &heldCoefficients{pos: pos, named: map[string]int32{}}
+	h := &heldCoefficients{pos: pos, named: map[string]int32{}, odd: map[int32]oddRow{}}
 	var rr rowReading
 	var tooMany error
 	cols, err := readSheet(src, pos, nameSet(coefficientColumnNames), func(cols *columns, row *sheetRow) bool {
@@ -99,12 +104,10 @@ func holdCoefficientSheet(src rowSource, pos Position) (*heldCoefficients, []*Ce
 // add holds one row of study.
 func (h *heldCoefficients) add(study string, row *sheetRow) {
 	i := int32(len(h.rows))
-	r := heldRow{start: len(h.cells), row: int32(row.Row), fields: int32(row.Fields), next: -1, problem: -1}
-	if row.Problem != nil {
-		r.problem = int32(len(h.problems))
-		h.problems = append(h.problems, row.Problem)
+	if row.Problem != nil || row.Fields > 0 && row.Fields != h.cols.width {
+		h.odd[i] = oddRow{fields: row.Fields, problem: row.Problem}
 	}
-	h.rows = append(h.rows, r)
+	h.rows = append(h.rows, heldRow{start: len(h.cells), row: int32(row.Row), next: -1})
 	h.cells = packRow(h.cells, row.Cells)
 	k, seen := h.named[study]
 	if !seen {
@@ -120,8 +123,12 @@ func (h *heldCoefficients) add(study string, row *sheetRow) {
 	st.last = i
 }
 
-// sort indexes the studies by name, in place of named.
+// sort indexes the studies by name, in place of named, once the sheet
+// has been read; the held slices are copied to their length, since a
+// slice grown by appending keeps up to a quarter more
+// (BenchmarkOpenWorkbook100k).
 func (h *heldCoefficients) sort() {
+	h.cells, h.rows, h.studies = slices.Clone(h.cells), slices.Clone(h.rows), slices.Clone(h.studies)
 	h.sorted = make([]int32, len(h.studies))
 	for i := range h.sorted {
 		h.sorted[i] = int32(i)
@@ -191,11 +198,10 @@ func (h *heldCoefficients) untaken() []string {
 
 // unpack fills row with held row i; its texts are new strings.
 func (h *heldCoefficients) unpack(i int32, row *sheetRow) {
-	r := h.rows[i]
-	row.Row, row.Fields, row.Problem, row.AfterBlank = int(r.row), int(r.fields), nil, false
-	if r.problem >= 0 {
-		row.Problem = h.problems[r.problem]
-	}
+	r, o := h.rows[i], h.odd[i]
+	// A row of as many fields as the header reads as one that does not
+	// say (a workbook's): rowReading.start checks only the others.
+	row.Row, row.Fields, row.Problem, row.AfterBlank = int(r.row), o.fields, o.problem, false
 	row.Cells = unpackRow(h.cells[r.start:], row.Cells[:0])
 }
 
