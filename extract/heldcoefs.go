@@ -47,7 +47,7 @@ type heldCoefficients struct {
 // heldRow is one row of a held sheet: where its cells start in cells, its
 // row number and the next row of its study (−1 at the end).
 type heldRow struct {
-	start     int
+	start     uint32
 	row, next int32
 }
 
@@ -78,8 +78,8 @@ func holdCoefficientSheet(src rowSource, pos Position) (*heldCoefficients, []*Ce
 			cols.require("study", "label", "estimate")
 			h.cols, h.cc = cols, lookupCoefficientColumns(cols, "")
 		}
-		if len(h.rows) == math.MaxInt32 {
-			tooMany = fmt.Errorf("%s: the coefficients sheet holds more than %d rows: %w", pos, math.MaxInt32, ErrInputTooLarge)
+		if len(h.rows) == math.MaxInt32 || len(h.cells) > math.MaxUint32-MaxRecordBytes {
+			tooMany = fmt.Errorf("%s: the coefficients sheet holds more than %d rows or %d GiB: %w", pos, math.MaxInt32, math.MaxUint32>>30, ErrInputTooLarge)
 			return false
 		}
 		rr.start(cols, row, pos)
@@ -107,12 +107,12 @@ func (h *heldCoefficients) add(study string, row *sheetRow) {
 	if row.Problem != nil || row.Fields > 0 && row.Fields != h.cols.width {
 		h.odd[i] = oddRow{fields: row.Fields, problem: row.Problem}
 	}
-	h.rows = append(h.rows, heldRow{start: len(h.cells), row: int32(row.Row), next: -1})
+	h.rows = append(h.rows, heldRow{start: uint32(len(h.cells)), row: int32(row.Row), next: -1})
 	h.cells = packRow(h.cells, row.Cells)
 	k, seen := h.named[study]
 	if !seen {
 		// A copy: the cell may be cut from a CSV line, which it would
-		// keep alive.
+		// keep alive (until sort).
 		study = strings.Clone(study)
 		h.named[study] = int32(len(h.studies))
 		h.studies = append(h.studies, heldStudy{name: study, first: i, last: i})
@@ -124,11 +124,18 @@ func (h *heldCoefficients) add(study string, row *sheetRow) {
 }
 
 // sort indexes the studies by name, in place of named, once the sheet
-// has been read; the held slices are copied to their length, since a
-// slice grown by appending keeps up to a quarter more
-// (BenchmarkOpenWorkbook100k).
+// has been read, and copies their names into one string, since each
+// string of its own takes an allocation (BenchmarkOpenWorkbook100k).
 func (h *heldCoefficients) sort() {
-	h.cells, h.rows, h.studies = slices.Clone(h.cells), slices.Clone(h.rows), slices.Clone(h.studies)
+	var b strings.Builder
+	for _, st := range h.studies {
+		b.WriteString(st.name)
+	}
+	names := b.String()
+	for i := range h.studies {
+		n := len(h.studies[i].name)
+		h.studies[i].name, names = names[:n], names[n:]
+	}
 	h.sorted = make([]int32, len(h.studies))
 	for i := range h.sorted {
 		h.sorted[i] = int32(i)
