@@ -16,13 +16,7 @@ import (
 // claims counted. With -large-folder DIR it also writes the workbook
 // again as a folder of CSV files, when DIR is missing, and opens that.
 func BenchmarkOpenWorkbook100k(b *testing.B) {
-	path := *largeWorkbookPath
-	if path == "" {
-		path = filepath.Join(b.TempDir(), "100k.xlsx")
-	}
-	if _, err := os.Stat(path); err != nil {
-		writeLargeWorkbook(b, path, *largeWorkbookClaims)
-	}
+	path := largeWorkbook(b)
 	inputs := []string{path}
 	if dir := *largeFolderPath; dir != "" {
 		if _, err := os.Stat(dir); err != nil {

@@ -234,11 +234,10 @@ func writeLargeWorkbook(tb testing.TB, path string, claims int) {
 	}
 }
 
-// BenchmarkReadWorkbook100k reads a workbook of 100,000 claims and 200,000
-// coefficients written as a spreadsheet program writes it
-// (writeLargeWorkbook). The file is written once, into the benchmark's
-// temporary directory or where -large-workbook says.
-func BenchmarkReadWorkbook100k(b *testing.B) {
+// largeWorkbook returns the path of the benchmarks' workbook, written
+// when missing into the benchmark's temporary directory or where
+// -large-workbook says.
+func largeWorkbook(b *testing.B) string {
 	path := *largeWorkbookPath
 	if path == "" {
 		path = filepath.Join(b.TempDir(), "100k.xlsx")
@@ -246,6 +245,15 @@ func BenchmarkReadWorkbook100k(b *testing.B) {
 	if _, err := os.Stat(path); err != nil {
 		writeLargeWorkbook(b, path, *largeWorkbookClaims)
 	}
+	return path
+}
+
+// BenchmarkReadWorkbook100k reads a workbook of 100,000 claims and 200,000
+// coefficients written as a spreadsheet program writes it
+// (writeLargeWorkbook). The file is written once, into the benchmark's
+// temporary directory or where -large-workbook says.
+func BenchmarkReadWorkbook100k(b *testing.B) {
+	path := largeWorkbook(b)
 	if fi, err := os.Stat(path); err == nil {
 		b.Logf("%s: %d MiB", path, fi.Size()>>20)
 	}
