@@ -14,10 +14,10 @@ import (
 // them) only when a study that needs them is yielded.
 //
 // Why packed cells rather than Coefficients: a Coefficient takes some 500
-// bytes before its texts, and held whole for a workbook of 200,000 of
-// them they kept `check` near 350 MB while the claims streamed (the
-// workbook of BenchmarkReadWorkbook100k; BenchmarkOpenWorkbook100k);
-// packed, a row takes its texts and a few bytes a cell. Why not a first
+// bytes before its texts, and held whole for the 200,000 coefficients of
+// BenchmarkOpenWorkbook100k's workbook they kept `check` far above its
+// memory target while the claims streamed; packed, a row takes its texts
+// and a few bytes a cell. Why not a first
 // pass that indexes each study's rows and reads them again when the study
 // comes: a sheet of a workbook is a deflated zip member, which can be read
 // only from its start, so each study would re-read the sheet. Reading a
