@@ -6,17 +6,31 @@ import (
 )
 
 // openSheets opens a workbook or a folder for Open. Every sheet but the
-// claims is read whole (a paper prints a few dozen coefficients a study);
-// the claims sheet, which can hold a literature, is read twice: once to
-// count each study's claims, and once to yield each study as soon as its
-// last claims row is read, with its coefficients, correlations and tables.
-// Memory then holds the other sheets and the studies whose claims rows are
-// still open, not the claims sheet.
+// claims is read once, before the claims: the correlations and tables
+// whole (a paper prints a few dozen a study), the coefficients held packed
+// (heldCoefficients), since they may number twice the claims. The claims
+// sheet, which can hold a literature, is read twice: once to count each
+// study's claims, and once to yield each study as soon as its last claims
+// row is read, with its coefficients, correlations and tables. Memory then
+// holds the other sheets and the studies whose claims rows are still open,
+// not the claims sheet.
 func openSheets(s *inputSheets) (*Source, error) {
-	in, err := s.read("claims")
-	if err != nil {
-		s.close()
-		return nil, err
+	in := &Input{Source: s.path, Problems: s.problems}
+	held := &heldCoefficients{}
+	for _, k := range s.kinds {
+		var err error
+		switch k.kind {
+		case "claims":
+			continue
+		case "coefficients":
+			held, err = s.holdCoefficients(in, k.name)
+		default:
+			err = s.readSheetInto(in, k)
+		}
+		if err != nil {
+			s.close()
+			return nil, err
+		}
 	}
 	sheet := s.claimsSheet()
 	counts, extra, problems, err := countClaims(s, sheet)
@@ -26,9 +40,30 @@ func openSheets(s *inputSheets) (*Source, error) {
 	}
 	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close)}
 	src.studies = func(yield func(*Study, error) bool) {
-		streamClaims(s, sheet, counts, newRowIndex(in), yield)
+		c := counts
+		counts = nil // spent by the assembler: the sequence is ranged once
+		streamClaims(s, sheet, c, newRowIndex(in, held), yield)
 	}
 	return src, nil
+}
+
+// holdCoefficients reads the coefficients sheet into held rows, its
+// problems into in.
+func (s *inputSheets) holdCoefficients(in *Input, name string) (*heldCoefficients, error) {
+	src, err := s.open(name)
+	if err != nil {
+		return nil, err
+	}
+	held, problems, err := holdCoefficientSheet(src, s.where(name))
+	in.Problems = append(in.Problems, problems...)
+	cerr := src.Close()
+	if err != nil {
+		return nil, err
+	}
+	if cerr != nil {
+		return nil, fmt.Errorf("%s: %w", s.where(name), cerr)
+	}
+	return held, nil
 }
 
 type closeFunc func() error
@@ -142,25 +177,88 @@ func streamClaims(s *inputSheets, sheet string, counts map[string]int, idx *rowI
 
 // rowIndex finds the rows of the other sheets that belong to a study.
 type rowIndex struct {
-	in      *Input
-	coefs   map[string][]int  // by study name
-	byLabel map[[2]string]int // the first coefficient of a study and label
-	corrs   map[string][]int  // by studyKey
-	tables  map[string][]int  // by studyKey
-	given   map[string]bool   // study names whose coefficients were given
-	keyed   map[string]bool   // study keys whose correlations and tables were given
+	in     *Input // its correlations and tables
+	coefs  coefficientsByStudy
+	corrs  map[string][]int // by studyKey
+	tables map[string][]int // by studyKey
+	// keyed are the study keys whose correlations and tables were given;
+	// only those that have any, since there may be as many studies as
+	// claims (the coefficients keep their own mark: coefficientsByStudy).
+	keyed map[string]bool
+	// lenders are the studies whose coefficients other studies' claims
+	// have named as "study:label", read once.
+	lenders map[string]*lender
 }
 
-func newRowIndex(in *Input) *rowIndex {
-	x := &rowIndex{in: in, coefs: map[string][]int{}, byLabel: map[[2]string]int{},
-		corrs: map[string][]int{}, tables: map[string][]int{}, given: map[string]bool{}, keyed: map[string]bool{}}
-	for i := range in.Coefficients {
-		c := &in.Coefficients[i]
-		x.coefs[c.Study] = append(x.coefs[c.Study], i)
-		if _, dup := x.byLabel[[2]string{c.Study, c.Label}]; !dup {
-			x.byLabel[[2]string{c.Study, c.Label}] = i
+// inputCoefficients are the coefficients of an input read whole, by study.
+type inputCoefficients struct {
+	all     []Coefficient
+	byStudy map[string][]int
+	order   []string
+	taken   map[string]bool
+}
+
+func newInputCoefficients(cs []Coefficient) *inputCoefficients {
+	x := &inputCoefficients{all: cs, byStudy: map[string][]int{}, taken: map[string]bool{}}
+	for i := range cs {
+		name := cs[i].Study
+		if _, seen := x.byStudy[name]; !seen {
+			x.order = append(x.order, name)
+		}
+		x.byStudy[name] = append(x.byStudy[name], i)
+	}
+	return x
+}
+
+func (x *inputCoefficients) of(study string) []Coefficient {
+	var out []Coefficient
+	for _, i := range x.byStudy[study] {
+		out = append(out, x.all[i])
+	}
+	return out
+}
+
+func (x *inputCoefficients) take(study string) ([]Coefficient, bool) {
+	before := x.taken[study]
+	x.taken[study] = true
+	return x.of(study), before
+}
+
+func (x *inputCoefficients) untaken() []string {
+	var out []string
+	for _, name := range x.order {
+		if !x.taken[name] {
+			out = append(out, name)
 		}
 	}
+	return out
+}
+
+// coefficientsByStudy gives rowIndex the coefficients of a study: from an
+// input read whole (inputCoefficients) or from rows held packed
+// (heldCoefficients).
+type coefficientsByStudy interface {
+	// of returns the study's coefficients in input order, a copy the
+	// caller may keep.
+	of(study string) []Coefficient
+	// take is of for a study of claims, and reports whether the study's
+	// coefficients were taken before (by an earlier block of it).
+	take(study string) (cs []Coefficient, before bool)
+	// untaken lists the studies whose coefficients were never taken, in
+	// the order of their first row.
+	untaken() []string
+}
+
+// lender is a study whose coefficients other studies borrow, with the
+// first coefficient of each label.
+type lender struct {
+	coefs []Coefficient
+	first map[string]int
+}
+
+func newRowIndex(in *Input, coefs coefficientsByStudy) *rowIndex {
+	x := &rowIndex{in: in, coefs: coefs, corrs: map[string][]int{}, tables: map[string][]int{},
+		keyed: map[string]bool{}, lenders: map[string]*lender{}}
 	for i := range in.Correlations {
 		k := studyKey(in.Correlations[i].Study)
 		x.corrs[k] = append(x.corrs[k], i)
@@ -177,20 +275,22 @@ func newRowIndex(in *Input) *rowIndex {
 // tables. A row of the other sheets carries its problems with the first
 // study it is given to.
 func (x *rowIndex) complete(st *Study) *Study {
-	if !x.given[st.Name] {
-		x.given[st.Name] = true
-		for _, i := range x.coefs[st.Name] {
-			st.Coefficients = append(st.Coefficients, x.in.Coefficients[i])
-		}
+	own, before := x.coefs.take(st.Name)
+	if !before {
+		st.Coefficients = append(st.Coefficients, own...)
 	} else {
 		// A later block of a long study: its coefficients, without their
 		// problems, which the first block reported.
-		for _, i := range x.coefs[st.Name] {
-			st.Borrowed = append(st.Borrowed, x.in.Coefficients[i])
-		}
+		st.Borrowed = append(st.Borrowed, own...)
 	}
-	x.borrow(st)
+	x.borrow(st, own)
+	if len(x.corrs) == 0 && len(x.tables) == 0 {
+		return st
+	}
 	k := studyKey(st.Name)
+	if len(x.corrs[k]) == 0 && len(x.tables[k]) == 0 {
+		return st
+	}
 	first := !x.keyed[k]
 	x.keyed[k] = true
 	for _, i := range x.corrs[k] {
@@ -211,25 +311,58 @@ func (x *rowIndex) complete(st *Study) *Study {
 }
 
 // borrow adds the coefficients of other studies that the study's claims
-// name as "study:label" where no label of their own study matches.
-func (x *rowIndex) borrow(st *Study) {
-	seen := map[int]bool{}
+// name as "study:label" where no label of their own study (own) matches:
+// the first coefficient of that study and label, once.
+func (x *rowIndex) borrow(st *Study, own []Coefficient) {
+	var ownLabels map[string]bool
+	seen := map[[2]string]bool{}
 	for _, cl := range st.Claims {
 		for _, label := range []string{cl.First, cl.Second} {
-			if _, own := x.byLabel[[2]string{st.Name, label}]; own {
-				continue
-			}
 			s, l, found := strings.Cut(label, ":")
 			if !found {
 				continue
 			}
+			if ownLabels == nil {
+				ownLabels = map[string]bool{}
+				for i := range own {
+					ownLabels[own[i].Label] = true
+				}
+			}
 			k := [2]string{strings.TrimSpace(s), strings.TrimSpace(l)}
-			if i, ok := x.byLabel[k]; ok && !seen[i] && k[0] != st.Name {
-				seen[i] = true
-				st.Borrowed = append(st.Borrowed, x.in.Coefficients[i])
+			if ownLabels[label] || k[0] == st.Name || seen[k] {
+				continue
+			}
+			if c, ok := x.lent(k[0], k[1]); ok {
+				seen[k] = true
+				st.Borrowed = append(st.Borrowed, c)
 			}
 		}
 	}
+}
+
+// lent returns the first coefficient of a study with a label, reading the
+// study's coefficients the first time another study borrows from it.
+func (x *rowIndex) lent(study, label string) (Coefficient, bool) {
+	l := x.lenders[study]
+	if l == nil {
+		cs := x.coefs.of(study)
+		if len(cs) == 0 {
+			return Coefficient{}, false
+		}
+		l = &lender{coefs: cs, first: map[string]int{}}
+		for i := range cs {
+			if _, dup := l.first[cs[i].Label]; !dup {
+				l.first[cs[i].Label] = i
+			}
+		}
+		// A copy: the name is cut from a claim's cell.
+		x.lenders[strings.Clone(study)] = l
+	}
+	i, ok := l.first[label]
+	if !ok {
+		return Coefficient{}, false
+	}
+	return l.coefs[i], true
 }
 
 // rest returns the studies that have rows on the other sheets but no
@@ -247,11 +380,8 @@ func (x *rowIndex) rest() []*Study {
 		}
 		return st
 	}
-	for i := range x.in.Coefficients {
-		c := x.in.Coefficients[i]
-		if !x.given[c.Study] {
-			get(c.Study).Coefficients = append(get(c.Study).Coefficients, c)
-		}
+	for _, name := range x.coefs.untaken() {
+		get(name).Coefficients = append(get(name).Coefficients, x.coefs.of(name)...)
 	}
 	for i := range x.in.Correlations {
 		c := x.in.Correlations[i]

@@ -62,11 +62,24 @@ func TestOpenSheetsAsReadWhole(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	// A study longer than MaxFamily (its later block borrows its
+	// coefficients), a label used twice, a study whose claims borrow from
+	// the long one, a coefficient with no study and a study with
+	// coefficients but no claims: the held coefficients are read as
+	// Read reads them.
+	long := t.TempDir()
+	claims := "study,claim,first,second,published\n"
+	for i := 0; i <= MaxFamily; i++ {
+		claims += fmt.Sprintf("L,%d,l1,l2,differ\n", i)
+	}
+	claims += "M,1,m1,L:l2,differ\nM,2,m1, L : l1 ,differ\n"
+	os.WriteFile(filepath.Join(long, "claims.csv"), []byte(claims), 0o644)
+	os.WriteFile(filepath.Join(long, "coefficients.csv"), []byte("study,label,estimate,se\n L ,l1,0.5,0.1\nM,m1,0.3,0.1\nL,l2,0.2,x\nL,l1,0.4,0.1\n,l9,0.1,0.1\nN,n1,0.1\n"), 0o644)
 	headerOnly := t.TempDir()
 	os.WriteFile(filepath.Join(headerOnly, "claims.csv"), []byte("study,claim,first,second\n"), 0o644)
 	os.WriteFile(filepath.Join(headerOnly, "coefficients.csv"), []byte("study,label,estimate,se\nA,a,0.5,0.1\n"), 0o644)
 	for _, path := range []string{filepath.Join("..", "fixtures", "demo-review.xlsx"), filepath.Join("testdata", "folder"),
-		headerOnly, filepath.Join("testdata", "folder-missing-column"), filepath.Join("testdata", "folder-european"), folder} {
+		headerOnly, filepath.Join("testdata", "folder-missing-column"), filepath.Join("testdata", "folder-european"), folder, long} {
 		t.Run(filepath.Base(path), func(t *testing.T) {
 			src, err := Open(path)
 			if err != nil {

@@ -109,7 +109,7 @@ func FromInput(in *Input) *Source {
 		for i := range in.Claims {
 			counts[in.Claims[i].Study]++
 		}
-		a, idx := newStudyAssembler(counts), newRowIndex(in)
+		a, idx := newStudyAssembler(counts), newRowIndex(in, newInputCoefficients(in.Coefficients))
 		for i := range in.Claims {
 			if st := a.add(in.Claims[i]); st != nil && !yield(idx.complete(st), nil) {
 				return

@@ -20,9 +20,12 @@ import (
 var largeWorkbookPath = flag.String("large-workbook", "",
 	"where BenchmarkReadWorkbook100k keeps its workbook (written when missing, reused when present), for measuring the command on it")
 
-// largeWorkbookClaims is the size of the benchmark's workbook: the
-// workbook-reading issue asks for 100,000 claims.
-const largeWorkbookClaims = 100_000
+var (
+	largeWorkbookClaims = flag.Int("large-workbook-claims", 100_000,
+		"the claims of the workbook -large-workbook writes (the workbook-reading issue asks for 100,000)")
+	largeFolderPath = flag.String("large-folder", "",
+		"where BenchmarkOpenWorkbook100k writes its workbook again as a folder of CSV files (when missing), for measuring the command on it")
+)
 
 // stringTable numbers the distinct texts of a workbook in the order they
 // are first used, as a spreadsheet program fills its shared-strings table.
@@ -231,18 +234,26 @@ func writeLargeWorkbook(tb testing.TB, path string, claims int) {
 	}
 }
 
-// BenchmarkReadWorkbook100k reads a workbook of 100,000 claims and 200,000
-// coefficients written as a spreadsheet program writes it
-// (writeLargeWorkbook). The file is written once, into the benchmark's
-// temporary directory or where -large-workbook says.
-func BenchmarkReadWorkbook100k(b *testing.B) {
+// largeWorkbook returns the path of the benchmarks' workbook, written
+// when missing into the benchmark's temporary directory or where
+// -large-workbook says.
+func largeWorkbook(b *testing.B) string {
 	path := *largeWorkbookPath
 	if path == "" {
 		path = filepath.Join(b.TempDir(), "100k.xlsx")
 	}
 	if _, err := os.Stat(path); err != nil {
-		writeLargeWorkbook(b, path, largeWorkbookClaims)
+		writeLargeWorkbook(b, path, *largeWorkbookClaims)
 	}
+	return path
+}
+
+// BenchmarkReadWorkbook100k reads a workbook of 100,000 claims and 200,000
+// coefficients written as a spreadsheet program writes it
+// (writeLargeWorkbook). The file is written once, into the benchmark's
+// temporary directory or where -large-workbook says.
+func BenchmarkReadWorkbook100k(b *testing.B) {
+	path := largeWorkbook(b)
 	if fi, err := os.Stat(path); err == nil {
 		b.Logf("%s: %d MiB", path, fi.Size()>>20)
 	}
@@ -252,8 +263,8 @@ func BenchmarkReadWorkbook100k(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if len(in.Claims) != largeWorkbookClaims || len(in.Coefficients) != 2*largeWorkbookClaims {
-			b.Fatalf("Read = %d claims, %d coefficients, want %d and %d", len(in.Claims), len(in.Coefficients), largeWorkbookClaims, 2*largeWorkbookClaims)
+		if len(in.Claims) != *largeWorkbookClaims || len(in.Coefficients) != 2**largeWorkbookClaims {
+			b.Fatalf("Read = %d claims, %d coefficients, want %d and %d", len(in.Claims), len(in.Coefficients), *largeWorkbookClaims, 2**largeWorkbookClaims)
 		}
 	}
 }

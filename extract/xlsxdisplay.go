@@ -66,6 +66,14 @@ func (d *numberDisplay) show(style int, value string) string {
 	return s
 }
 
+// forget lets go of the displayed texts remembered; a map cleared would
+// keep its memory.
+func (d *numberDisplay) forget() {
+	if d.memo != nil {
+		d.memo = map[displayKey]string{}
+	}
+}
+
 // cell returns the scratch cell of a cell format, making it (and the
 // scratch workbook) when first asked.
 func (d *numberDisplay) cell(style int) string {
