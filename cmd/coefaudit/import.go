@@ -50,7 +50,8 @@ the "to confirm" sheet. A reader never repairs a number: an estimate outside
 its own interval stays as printed, for check to flag.
 
 --out FILE.xlsx writes a workbook; --out DIR writes a folder of CSV files
-(created if missing; its files replaced); --format json writes everything
+(created if missing and removed again if the import fails; its files
+replaced); --format json writes everything
 found, with places, to --out or standard output. A file that cannot be read
 is named on standard error and on the "to confirm" sheet, and the others go
 on; the exit status is 2 only when no file could be read.`,
@@ -90,6 +91,10 @@ func runImport(o *importOptions) error {
 	for _, f := range res.Failed {
 		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
 	}
+	if len(res.Articles) == 0 {
+		// Nothing is created for a run that read nothing.
+		return finish(o.files, fmt.Errorf("no file could be read as an article"))
+	}
 	format := o.format
 	if format == "" {
 		format = "csv"
@@ -97,15 +102,14 @@ func runImport(o *importOptions) error {
 			format = "xlsx"
 		}
 	}
-	if format == "csv" {
-		err = writeImportFolder(o, res)
-	} else {
-		err = writeImportFile(o, res, format)
+	if format != "csv" {
+		return finish(o.files, writeImportFile(o, res, format))
 	}
-	if err == nil && len(res.Articles) == 0 {
-		err = fmt.Errorf("no file could be read as an article")
+	created, err := writeImportFolder(o, res)
+	if err = finish(o.files, err); err != nil && created != nil {
+		created()
 	}
-	return finish(o.files, err)
+	return err
 }
 
 // writeImportFile writes the workbook or the JSON document.
@@ -126,12 +130,29 @@ func writeImportFile(o *importOptions, res *article.Result, format string) error
 }
 
 // writeImportFolder writes the CSV folder, creating the folder itself (not
-// its parents) when missing.
-func writeImportFolder(o *importOptions, res *article.Result) error {
-	if err := os.Mkdir(o.out, 0o755); err != nil && !os.IsExist(err) {
-		return flagError{fmt.Errorf("--out %s: %w", o.out, err)}
+// its parents) when missing. When it created the folder it returns a
+// function that removes it with the files the run wrote into it, for a
+// run that fails: a failed run leaves nothing it created behind, and the
+// files being written are removed by the run's Files already.
+func writeImportFolder(o *importOptions, res *article.Result) (created func(), err error) {
+	switch err := os.Mkdir(o.out, 0o755); {
+	case err == nil:
+		var names []string
+		created = func() {
+			for _, name := range names {
+				os.Remove(filepath.Join(o.out, name))
+			}
+			os.Remove(o.out) // only when empty: never what someone else put there
+		}
+		err = article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
+			names = append(names, name)
+			return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
+		})
+		return created, err
+	case !os.IsExist(err):
+		return nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
 	}
-	return article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
+	return nil, article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
 		return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
 	})
 }
