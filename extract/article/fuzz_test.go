@@ -67,7 +67,7 @@ func FuzzReadDOCX(f *testing.F) {
 	f.Add(docxDocument(tarticle{paras: []string{"OR = 1.80, 95% CI 1.21–2.68."}, tables: []ttable{layouts[3].table}}))
 	f.Add(`<w:document xmlns:w="x"><w:body><w:tbl><w:tr><w:tc><w:tcPr><w:gridSpan w:val="99999"/><w:vMerge/></w:tcPr></w:tc></w:tr></w:tbl></w:body></w:document>`)
 	f.Fuzz(func(t *testing.T, s string) {
-		a, err := readDOCX(strings.NewReader(s), "fuzz.docx")
+		a, err := readDOCX(strings.NewReader(s), "fuzz.docx", "word/document.xml")
 		if err != nil {
 			return
 		}

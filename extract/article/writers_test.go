@@ -223,9 +223,21 @@ func articleFormats(t testing.TB, dir, name string, a tarticle) map[string]strin
 			t.Fatal(err)
 		}
 	}
-	files[FormatDOCX] = writeZip(t, filepath.Join(dir, name+".docx"), map[string]string{
-		"[Content_Types].xml": `<?xml version="1.0"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"/>`,
-		"word/document.xml":   docxDocument(a),
-	})
+	files[FormatDOCX] = writeZip(t, filepath.Join(dir, name+".docx"), docxPackage("word/document.xml", docxDocument(a)))
 	return files
+}
+
+// docxPackage is the members of a DOCX package whose main document part,
+// named main, holds document: its content types and the package
+// relationship to it, as ECMA-376 Part 2 (§9.3, §10.1.2) has them.
+func docxPackage(main, document string) map[string]string {
+	return map[string]string{
+		"[Content_Types].xml": `<?xml version="1.0"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">` +
+			`<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/>` +
+			`<Default Extension="xml" ContentType="application/xml"/>` +
+			`<Override PartName="/` + main + `" ContentType="application/vnd.openxmlformats-officedocument.wordprocessingml.document.main+xml"/></Types>`,
+		"_rels/.rels": `<?xml version="1.0"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+			`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="` + main + `"/></Relationships>`,
+		main: document,
+	}
 }
