@@ -55,12 +55,13 @@ func TestHostileArticles(t *testing.T) {
 	for _, tt := range tests {
 		files = append(files, tt.file)
 	}
-	for _, file := range articleFormats(t, dir, "good", good) {
+	goodFiles := articleFormats(t, dir, "good", good)
+	for _, file := range goodFiles {
 		files = append(files, file)
 	}
 	res := Import(files, nil, nil)
-	if len(res.Articles) != 3 {
-		t.Errorf("%d articles read, want the 3 good ones", len(res.Articles))
+	if len(res.Articles) != len(goodFiles) {
+		t.Errorf("%d articles read, want the %d good ones", len(res.Articles), len(goodFiles))
 	}
 	failed := map[string]*Failure{}
 	for _, f := range res.Failed {
