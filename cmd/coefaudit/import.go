@@ -85,16 +85,6 @@ func runImport(o *importOptions) error {
 	if err != nil {
 		return finish(o.files, flagError{err})
 	}
-	bar := progress.New(o.stderr, "reading articles")
-	res := article.Import(files, o.stdin, bar.Update)
-	bar.Done()
-	for _, f := range res.Failed {
-		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
-	}
-	if len(res.Articles) == 0 {
-		// Nothing is created for a run that read nothing.
-		return finish(o.files, fmt.Errorf("no file could be read as an article"))
-	}
 	format := o.format
 	if format == "" {
 		format = "csv"
@@ -102,14 +92,38 @@ func runImport(o *importOptions) error {
 			format = "xlsx"
 		}
 	}
-	if format != "csv" {
-		return finish(o.files, writeImportFile(o, res, format))
+	bar := progress.New(o.stderr, "reading articles")
+	if format == "csv" {
+		// The folder's files are written as the articles are read.
+		created, res, err := writeImportFolder(o, files, bar.Update)
+		bar.Done()
+		if err == nil {
+			err = importFailures(o, res)
+		}
+		if err = finish(o.files, err); err != nil && created != nil {
+			created()
+		}
+		return err
 	}
-	created, err := writeImportFolder(o, res)
-	if err = finish(o.files, err); err != nil && created != nil {
-		created()
+	res := article.Import(files, o.stdin, bar.Update)
+	bar.Done()
+	if err := importFailures(o, res); err != nil {
+		// Nothing is created for a run that read nothing.
+		return finish(o.files, err)
 	}
-	return err
+	return finish(o.files, writeImportFile(o, res, format))
+}
+
+// importFailures names on standard error each file not read, and is an
+// error when no file could be read.
+func importFailures(o *importOptions, res *article.Result) error {
+	for _, f := range res.Failed {
+		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
+	}
+	if len(res.Articles) == 0 {
+		return fmt.Errorf("no file could be read as an article")
+	}
+	return nil
 }
 
 // writeImportFile writes the workbook or the JSON document.
@@ -129,30 +143,28 @@ func writeImportFile(o *importOptions, res *article.Result, format string) error
 	return t.Close()
 }
 
-// writeImportFolder writes the CSV folder, creating the folder itself (not
-// its parents) when missing. When it created the folder it returns a
-// function that removes it with the files the run wrote into it, for a
-// run that fails: a failed run leaves nothing it created behind, and the
-// files being written are removed by the run's Files already.
-func writeImportFolder(o *importOptions, res *article.Result) (created func(), err error) {
+// writeImportFolder reads the articles into the CSV folder
+// (article.ImportFolder), creating the folder itself (not its parents)
+// when missing. When it created the folder it returns a function that
+// removes it with the files the run wrote into it, for a run that fails:
+// a failed run leaves nothing it created behind, and the files being
+// written are removed by the run's Files already.
+func writeImportFolder(o *importOptions, files []string, progress func(done, total int)) (created func(), res *article.Result, err error) {
+	var names []string
 	switch err := os.Mkdir(o.out, 0o755); {
 	case err == nil:
-		var names []string
 		created = func() {
 			for _, name := range names {
 				os.Remove(filepath.Join(o.out, name))
 			}
 			os.Remove(o.out) // only when empty: never what someone else put there
 		}
-		err = article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
-			names = append(names, name)
-			return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
-		})
-		return created, err
 	case !os.IsExist(err):
-		return nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
+		return nil, nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
 	}
-	return nil, article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
+	res, err = article.ImportFolder(files, o.stdin, progress, func(name string) (io.WriteCloser, error) {
+		names = append(names, name)
 		return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
 	})
+	return created, res, err
 }
