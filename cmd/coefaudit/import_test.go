@@ -153,28 +153,14 @@ func TestImportFailureLeavesNothing(t *testing.T) {
 				t.Fatal("the import did not fail")
 			}
 			if out == existing {
-				if left := listDir(t, existing); len(left) != 0 {
+				if left := dirNames(t, existing); len(left) != 0 {
 					t.Errorf("the existing folder holds %v after the failed run", left)
 				}
 				return
 			}
-			if left := listDir(t, dir); len(left) != 0 {
+			if left := dirNames(t, dir); len(left) != 0 {
 				t.Errorf("the failed run left %v", left)
 			}
 		})
 	}
-}
-
-// listDir lists the names in dir.
-func listDir(t *testing.T, dir string) []string {
-	t.Helper()
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var names []string
-	for _, e := range entries {
-		names = append(names, e.Name())
-	}
-	return names
 }
