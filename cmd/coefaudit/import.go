@@ -50,7 +50,8 @@ the "to confirm" sheet. A reader never repairs a number: an estimate outside
 its own interval stays as printed, for check to flag.
 
 --out FILE.xlsx writes a workbook; --out DIR writes a folder of CSV files
-(created if missing; its files replaced); --format json writes everything
+(created if missing and removed again if the import fails; its files
+replaced); --format json writes everything
 found, with places, to --out or standard output. A file that cannot be read
 is named on standard error and on the "to confirm" sheet, and the others go
 on; the exit status is 2 only when no file could be read.`,
@@ -84,12 +85,6 @@ func runImport(o *importOptions) error {
 	if err != nil {
 		return finish(o.files, flagError{err})
 	}
-	bar := progress.New(o.stderr, "reading articles")
-	res := article.Import(files, o.stdin, bar.Update)
-	bar.Done()
-	for _, f := range res.Failed {
-		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
-	}
 	format := o.format
 	if format == "" {
 		format = "csv"
@@ -97,15 +92,38 @@ func runImport(o *importOptions) error {
 			format = "xlsx"
 		}
 	}
+	bar := progress.New(o.stderr, "reading articles")
 	if format == "csv" {
-		err = writeImportFolder(o, res)
-	} else {
-		err = writeImportFile(o, res, format)
+		// The folder's files are written as the articles are read.
+		created, res, err := writeImportFolder(o, files, bar.Update)
+		bar.Done()
+		if err == nil {
+			err = importFailures(o, res)
+		}
+		if err = finish(o.files, err); err != nil && created != nil {
+			created()
+		}
+		return err
 	}
-	if err == nil && len(res.Articles) == 0 {
-		err = fmt.Errorf("no file could be read as an article")
+	res := article.Import(files, o.stdin, bar.Update)
+	bar.Done()
+	if err := importFailures(o, res); err != nil {
+		// Nothing is created for a run that read nothing.
+		return finish(o.files, err)
 	}
-	return finish(o.files, err)
+	return finish(o.files, writeImportFile(o, res, format))
+}
+
+// importFailures names on standard error each file not read, and is an
+// error when no file could be read.
+func importFailures(o *importOptions, res *article.Result) error {
+	for _, f := range res.Failed {
+		fmt.Fprintf(o.stderr, "coefaudit: not read: %s\n", f.Message)
+	}
+	if len(res.Articles) == 0 {
+		return fmt.Errorf("no file could be read as an article")
+	}
+	return nil
 }
 
 // writeImportFile writes the workbook or the JSON document.
@@ -125,13 +143,28 @@ func writeImportFile(o *importOptions, res *article.Result, format string) error
 	return t.Close()
 }
 
-// writeImportFolder writes the CSV folder, creating the folder itself (not
-// its parents) when missing.
-func writeImportFolder(o *importOptions, res *article.Result) error {
-	if err := os.Mkdir(o.out, 0o755); err != nil && !os.IsExist(err) {
-		return flagError{fmt.Errorf("--out %s: %w", o.out, err)}
+// writeImportFolder reads the articles into the CSV folder
+// (article.ImportFolder), creating the folder itself (not its parents)
+// when missing. When it created the folder it returns a function that
+// removes it with the files the run wrote into it, for a run that fails:
+// a failed run leaves nothing it created behind, and the files being
+// written are removed by the run's Files already.
+func writeImportFolder(o *importOptions, files []string, progress func(done, total int)) (created func(), res *article.Result, err error) {
+	var names []string
+	switch err := os.Mkdir(o.out, 0o755); {
+	case err == nil:
+		created = func() {
+			for _, name := range names {
+				os.Remove(filepath.Join(o.out, name))
+			}
+			os.Remove(o.out) // only when empty: never what someone else put there
+		}
+	case !os.IsExist(err):
+		return nil, nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
 	}
-	return article.WriteFolder(res, func(name string) (io.WriteCloser, error) {
+	res, err = article.ImportFolder(files, o.stdin, progress, func(name string) (io.WriteCloser, error) {
+		names = append(names, name)
 		return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
 	})
+	return created, res, err
 }

@@ -1,12 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"coefaudit/cmd/coefaudit/internal/output"
 	"coefaudit/extract"
 	"coefaudit/fixtures"
 )
@@ -107,5 +109,58 @@ func TestCheckArticles(t *testing.T) {
 	}
 	if !strings.Contains(stdout, "read automatically") || !strings.Contains(stdout, "the demo articles") {
 		t.Errorf("demo --article lacks the caution:\n%s", stdout)
+	}
+}
+
+// TestImportFailureLeavesNothing: an import that fails leaves nothing it
+// created, neither the CSV folder it made nor a workbook, whether no
+// article was read or the writing failed (the run's files aborted before
+// the sheets were written, as an interrupt does); a folder that existed
+// before the run stays, without the run's files.
+func TestImportFailureLeavesNothing(t *testing.T) {
+	articles := demoArticleFolder(t)
+	pdf := filepath.Join(t.TempDir(), "scan.pdf")
+	if err := os.WriteFile(pdf, []byte("%PDF-1.4"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	existing := filepath.Join(t.TempDir(), "kept")
+	if err := os.Mkdir(existing, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name, input, out string
+		aborted          bool
+	}{
+		{"nothing read, new folder", pdf, "review", false},
+		{"nothing read, workbook", pdf, "review.xlsx", false},
+		{"writing fails, new folder", articles, "review", true},
+		{"writing fails, workbook", articles, "review.xlsx", true},
+		{"writing fails, existing folder", articles, existing, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			out := tc.out
+			if !filepath.IsAbs(out) {
+				out = filepath.Join(dir, out)
+			}
+			files := output.NewFiles()
+			if tc.aborted {
+				files.Abort()
+			}
+			var stderr bytes.Buffer
+			o := &importOptions{inputs: []string{tc.input}, out: out, stdout: &bytes.Buffer{}, stderr: &stderr, files: files}
+			if err := runImport(o); err == nil {
+				t.Fatal("the import did not fail")
+			}
+			if out == existing {
+				if left := dirNames(t, existing); len(left) != 0 {
+					t.Errorf("the existing folder holds %v after the failed run", left)
+				}
+				return
+			}
+			if left := dirNames(t, dir); len(left) != 0 {
+				t.Errorf("the failed run left %v", left)
+			}
+		})
 	}
 }

@@ -68,7 +68,10 @@ func contextOf(a *Article, t *Table, name string, f *Found) tableContext {
 			}
 		}
 		ctx.standardized = ctx.standardized || standardizedWords.MatchString(s)
-		if m := boldFootnote.FindStringSubmatch(s); m != nil && ctx.boldP == "" {
+		if m := boldFootnote.FindStringSubmatch(s); m != nil && ctx.boldP == "" && a.Format == FormatText {
+			// Plain text shows no bold: no estimate can be read as in it.
+			f.confirm(where(i), "the note marks significance in bold, which plain text does not show: p not read from it", s)
+		} else if m != nil && ctx.boldP == "" {
 			op, v := m[1], m[2]
 			if op == "" {
 				op, v = m[3], m[4]

@@ -1,7 +1,6 @@
 package article
 
 import (
-	"archive/zip"
 	"encoding/xml"
 	"fmt"
 	"io"
@@ -11,7 +10,7 @@ import (
 )
 
 // ReadDOCX reads a manuscript in WordprocessingML (.docx): the tables of
-// its main document part (w:tbl, rows marked w:tblHeader as header rows,
+// its main document part (found as mainPart says; w:tbl, rows marked w:tblHeader as header rows,
 // w:gridSpan and w:vMerge as spans), a "Table N" paragraph before a table
 // (and the title paragraph after it) as its label and caption, the notes
 // right after it ("Note.", "*p < .05") as its footnotes, and the other
@@ -33,21 +32,16 @@ func ReadDOCX(file string) (*Article, error) {
 		return nil, err
 	}
 	defer zr.Close()
-	var doc *zip.File
-	for _, m := range zr.File {
-		if strings.EqualFold(strings.ReplaceAll(m.Name, "\\", "/"), "word/document.xml") {
-			doc = m
-		}
-	}
-	if doc == nil {
-		return nil, fmt.Errorf("%s has no word/document.xml: a zip archive, but not a DOCX manuscript: %w", file, ErrNotArticle)
+	doc, err := mainPart(&zr.Reader, file)
+	if err != nil {
+		return nil, err
 	}
 	rc, err := doc.Open()
 	if err != nil {
 		return nil, fileError(file, err)
 	}
 	defer rc.Close()
-	a, err := readDOCX(io.LimitReader(rc, MaxArticleBytes+1), file)
+	a, err := readDOCX(io.LimitReader(rc, MaxArticleBytes+1), file, doc.Name)
 	if err != nil {
 		return nil, fileError(file, err)
 	}
@@ -73,7 +67,7 @@ type docxReader struct {
 	paras    int
 }
 
-func readDOCX(r io.Reader, file string) (*Article, error) {
+func readDOCX(r io.Reader, file, part string) (*Article, error) {
 	cr := &countingReader{r: r}
 	dec := xml.NewDecoder(cr)
 	dec.Strict = true
@@ -88,7 +82,7 @@ func readDOCX(r io.Reader, file string) (*Article, error) {
 		}
 		if err != nil {
 			line, _ := dec.InputPos()
-			return nil, fmt.Errorf("word/document.xml, line %d: %v", line, err)
+			return nil, fmt.Errorf("%s, line %d: %v", part, line, err)
 		}
 		switch el := tok.(type) {
 		case xml.StartElement:

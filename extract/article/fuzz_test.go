@@ -67,7 +67,7 @@ func FuzzReadDOCX(f *testing.F) {
 	f.Add(docxDocument(tarticle{paras: []string{"OR = 1.80, 95% CI 1.21–2.68."}, tables: []ttable{layouts[3].table}}))
 	f.Add(`<w:document xmlns:w="x"><w:body><w:tbl><w:tr><w:tc><w:tcPr><w:gridSpan w:val="99999"/><w:vMerge/></w:tcPr></w:tc></w:tr></w:tbl></w:body></w:document>`)
 	f.Fuzz(func(t *testing.T, s string) {
-		a, err := readDOCX(strings.NewReader(s), "fuzz.docx")
+		a, err := readDOCX(strings.NewReader(s), "fuzz.docx", "word/document.xml")
 		if err != nil {
 			return
 		}
@@ -78,6 +78,9 @@ func FuzzReadDOCX(f *testing.F) {
 func FuzzReadText(f *testing.F) {
 	f.Add("Girls (β = .30, p = .01) and boys (β = .10, p = .20) differed.\n\nr(198) = .45, p < .001.")
 	f.Add("OR = 1.80, 95% CI 1.21–2.68; HR = 0.9, 99% CI [0.5, 1.1]")
+	f.Add(textTableOf(layouts[0].table, false, false))
+	f.Add(textTableOf(layouts[1].table, true, true))
+	f.Add(textTableOf(correlationTable, false, true))
 	f.Fuzz(func(t *testing.T, s string) {
 		a, err := ReadText(bytes.NewReader([]byte(s)), "fuzz.txt")
 		if err != nil {

@@ -43,9 +43,9 @@ func TestHostileArticles(t *testing.T) {
 			extract.ErrInputTooLarge, "longer than"},
 		{"huge HTML cell", write("cell.html", "<html><table><tr><td>"+huge+"</td></tr></table></html>"), extract.ErrInputTooLarge, "longer than"},
 		{"huge text line", write("line.txt", huge), extract.ErrInputTooLarge, "longer than"},
-		{"zip bomb DOCX", writeZip(t, filepath.Join(dir, "bomb.docx"), map[string]string{"word/document.xml": strings.Repeat(" ", 4<<20)}),
+		{"zip bomb DOCX", writeZip(t, filepath.Join(dir, "bomb.docx"), docxPackage("word/document.xml", strings.Repeat(" ", 4<<20))),
 			extract.ErrInputTooLarge, "zip bomb"},
-		{"zip without a document", writeZip(t, filepath.Join(dir, "other.docx"), map[string]string{"a.txt": "x"}), ErrNotArticle, "word/document.xml"},
+		{"zip without a document", writeZip(t, filepath.Join(dir, "other.docx"), map[string]string{"a.txt": "x"}), ErrNotArticle, "_rels/.rels"},
 		{"XML that is no article", write("feed.xml", "<rss><channel/></rss>"), ErrNotArticle, "not <article>"},
 		{"binary", write("image.png", "\x89PNG\r\n\x1a\n\x00\x00\x00"), ErrNotArticle, "not an article"},
 		{"PDF", write("paper.pdf", "%PDF-1.7\n"), ErrNotArticle, "PDF"},
@@ -55,12 +55,13 @@ func TestHostileArticles(t *testing.T) {
 	for _, tt := range tests {
 		files = append(files, tt.file)
 	}
-	for _, file := range articleFormats(t, dir, "good", good) {
+	goodFiles := articleFormats(t, dir, "good", good)
+	for _, file := range goodFiles {
 		files = append(files, file)
 	}
 	res := Import(files, nil, nil)
-	if len(res.Articles) != 3 {
-		t.Errorf("%d articles read, want the 3 good ones", len(res.Articles))
+	if len(res.Articles) != len(goodFiles) {
+		t.Errorf("%d articles read, want the %d good ones", len(res.Articles), len(goodFiles))
 	}
 	failed := map[string]*Failure{}
 	for _, f := range res.Failed {

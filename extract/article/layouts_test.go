@@ -2,6 +2,7 @@ package article
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -212,6 +213,18 @@ func checkLayout(t *testing.T, l layout, f *Found, tl *tally) {
 	}
 }
 
+// hasBold reports a table with a cell printed bold.
+func hasBold(t ttable) bool {
+	for _, r := range append(slices.Clone(t.head), t.body...) {
+		for _, c := range r {
+			if c.bold {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 func keys(rows []CoefficientRow) []string {
 	var out []string
 	for _, c := range rows {
@@ -238,6 +251,15 @@ func TestLayoutsInEveryFormat(t *testing.T) {
 				}
 				if f.Format != format {
 					t.Errorf("format %q, want %q", f.Format, format)
+				}
+				if format == FormatText && hasBold(l.table) {
+					// Plain text cannot print bold: the p the bold meant
+					// is not read, and a line says so.
+					said := slices.ContainsFunc(f.ToConfirm, func(c Confirm) bool { return strings.Contains(c.Reason, "plain text does not show") })
+					if !said {
+						t.Errorf("no line saying bold is not shown in text: %+v", f.ToConfirm)
+					}
+					return
 				}
 				checkLayout(t, l, f, &tl)
 			})

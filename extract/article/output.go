@@ -3,7 +3,6 @@ package article
 import (
 	"encoding/json"
 	"errors"
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -20,25 +19,6 @@ func WriteJSON(w io.Writer, res *Result) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(res)
-}
-
-// WriteFolder writes the sheets as a folder of CSV files, one per sheet
-// (CSVName), each through a file create opens.
-func WriteFolder(res *Result, create func(name string) (io.WriteCloser, error)) error {
-	for _, s := range res.Sheets() {
-		w, err := create(CSVName(s.Name))
-		if err != nil {
-			return err
-		}
-		if err := WriteCSV(w, s); err != nil {
-			w.Close()
-			return fmt.Errorf("%s: %w", CSVName(s.Name), err)
-		}
-		if err := w.Close(); err != nil {
-			return err
-		}
-	}
-	return nil
 }
 
 // Caution is printed with every report of articles read automatically.

@@ -39,29 +39,70 @@ func (r *Result) Sheets() []extract.TextSheet {
 	claims := [][]string{claimHeader}
 	confirm := [][]string{confirmHeader}
 	var tables []extract.TextSheet
-	used := map[string]bool{"coefficients": true, "claims": true, ToConfirmSheet: true}
+	used := usedSheetNames()
 	for _, f := range r.Articles {
-		for _, c := range f.Coefficients {
-			coefs = append(coefs, []string{c.Study, c.Label, c.Measure, c.Outcome, c.Predictor, c.Group, c.Model, c.Estimate,
-				c.CILow, c.CIHigh, c.CI, c.CILevel, c.SE, c.Stat, c.P, c.DF, c.N, f.File + ": " + c.Source, ReadAutomatically})
-		}
-		for _, c := range f.Claims {
-			claims = append(claims, []string{c.Study, c.Claim, c.First, c.Second, c.Published, c.Basis, c.Sentence,
-				f.File + ": " + c.Source, ReadAutomatically})
-		}
-		for _, t := range f.Tables {
-			tables = append(tables, extract.TextSheet{Name: sheetName(extract.TablePrefix+f.Study+" "+t.Name, used), Rows: t.Rows})
-		}
-		for _, c := range f.ToConfirm {
-			confirm = append(confirm, []string{c.File, c.Place, c.Reason, c.Text})
-		}
+		coefs = append(coefs, coefficientRows(f)...)
+		claims = append(claims, claimRows(f)...)
+		tables = append(tables, tableSheets(f, used)...)
+		confirm = append(confirm, confirmRows(f)...)
 	}
-	for _, fl := range r.Failed {
-		confirm = append(confirm, []string{fl.File, "", "not read: " + fl.Message, ""})
-	}
+	confirm = append(confirm, failedRows(r.Failed)...)
 	out := []extract.TextSheet{{Name: "coefficients", Rows: coefs}, {Name: "claims", Rows: claims}}
 	out = append(out, tables...)
 	return append(out, extract.TextSheet{Name: ToConfirmSheet, Rows: confirm})
+}
+
+// usedSheetNames are the names of the sheets every import writes, which a
+// table's sheet may not take.
+func usedSheetNames() map[string]bool {
+	return map[string]bool{"coefficients": true, "claims": true, ToConfirmSheet: true}
+}
+
+// coefficientRows are an article's rows of the coefficients sheet.
+func coefficientRows(f *Found) [][]string {
+	out := make([][]string, 0, len(f.Coefficients))
+	for _, c := range f.Coefficients {
+		out = append(out, []string{c.Study, c.Label, c.Measure, c.Outcome, c.Predictor, c.Group, c.Model, c.Estimate,
+			c.CILow, c.CIHigh, c.CI, c.CILevel, c.SE, c.Stat, c.P, c.DF, c.N, f.File + ": " + c.Source, ReadAutomatically})
+	}
+	return out
+}
+
+// claimRows are an article's rows of the claims sheet.
+func claimRows(f *Found) [][]string {
+	out := make([][]string, 0, len(f.Claims))
+	for _, c := range f.Claims {
+		out = append(out, []string{c.Study, c.Claim, c.First, c.Second, c.Published, c.Basis, c.Sentence,
+			f.File + ": " + c.Source, ReadAutomatically})
+	}
+	return out
+}
+
+// tableSheets are an article's "table …" sheets, named apart from used.
+func tableSheets(f *Found, used map[string]bool) []extract.TextSheet {
+	var out []extract.TextSheet
+	for _, t := range f.Tables {
+		out = append(out, extract.TextSheet{Name: sheetName(extract.TablePrefix+f.Study+" "+t.Name, used), Rows: t.Rows})
+	}
+	return out
+}
+
+// confirmRows are an article's rows of the to confirm sheet.
+func confirmRows(f *Found) [][]string {
+	out := make([][]string, 0, len(f.ToConfirm))
+	for _, c := range f.ToConfirm {
+		out = append(out, []string{c.File, c.Place, c.Reason, c.Text})
+	}
+	return out
+}
+
+// failedRows are the to confirm sheet's rows of the files not read.
+func failedRows(failed []*Failure) [][]string {
+	out := make([][]string, 0, len(failed))
+	for _, fl := range failed {
+		out = append(out, []string{fl.File, "", "not read: " + fl.Message, ""})
+	}
+	return out
 }
 
 // sheetName makes a valid, unused sheet name: without the characters a

@@ -12,33 +12,30 @@ import (
 )
 
 // ReadText reads plain text (a pasted results section): paragraphs are
-// separated by blank lines, lines within one are joined. Tables laid out
-// in plain text are not read as tables; their sentences are read as
-// sentences. The text must be UTF-8; a line may hold at most MaxTextBytes
-// and the text at most MaxArticleBytes (extract.ErrInputTooLarge beyond).
+// separated by blank lines, lines within one are joined. A table laid out
+// in plain text (lines whose cells are separated by tabs or by two or more
+// spaces, with a header line of column headings such as B, SE, β, t, p, or
+// a correlation triangle's numbered columns; see tableRun) is read as a
+// table, like the tables of the other formats: its label and caption from
+// a line "Table 1. …" just before it, its footnotes from the note lines
+// after it, and "text table at line N" as its label when no caption names
+// it. The text must be UTF-8; a line may hold at most MaxTextBytes and the
+// text at most MaxArticleBytes (extract.ErrInputTooLarge beyond).
 func ReadText(r io.Reader, file string) (*Article, error) {
-	a := &Article{File: file, Format: FormatText, Study: studyKey("", "", "", file)}
+	tr := &textReader{art: &Article{File: file, Format: FormatText, Study: studyKey("", "", "", file)}}
 	sc := bufio.NewScanner(io.LimitReader(r, MaxArticleBytes+1))
 	sc.Buffer(make([]byte, 0, 64<<10), MaxTextBytes)
-	var para []string
+	var block []textLine
 	var total int64
+	n := 0
 	flush := func() error {
-		if len(para) == 0 {
-			return nil
-		}
-		text := squeeze(strings.Join(para, " "))
-		para = para[:0]
-		if len(text) > MaxTextBytes {
-			return errTextTooLong
-		}
-		if len(a.Paragraphs) >= MaxTableCells {
-			return errTooManyItems
-		}
-		a.Paragraphs = append(a.Paragraphs, Paragraph{Place: fmt.Sprintf("paragraph %d", len(a.Paragraphs)+1), Text: text})
-		return nil
+		err := tr.block(block)
+		block = block[:0]
+		return err
 	}
 	for sc.Scan() {
 		line := sc.Text()
+		n++
 		if total += int64(len(line)) + 1; total > MaxArticleBytes {
 			return nil, fileError(file, fmt.Errorf("the text is larger than %d MiB: %w", MaxArticleBytes>>20, extract.ErrInputTooLarge))
 		}
@@ -51,7 +48,7 @@ func ReadText(r io.Reader, file string) (*Article, error) {
 			}
 			continue
 		}
-		para = append(para, line)
+		block = append(block, textLine{n: n, text: line})
 	}
 	if err := sc.Err(); err != nil {
 		if err == bufio.ErrTooLong {
@@ -62,7 +59,7 @@ func ReadText(r io.Reader, file string) (*Article, error) {
 	if err := flush(); err != nil {
 		return nil, fileError(file, err)
 	}
-	return a, nil
+	return tr.art, nil
 }
 
 // tableLabel matches a table's label at the start of its caption:

@@ -6,8 +6,10 @@ import (
 	"html"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
+	"unicode/utf8"
 )
 
 // The tests write invented articles in every format from one description,
@@ -207,8 +209,65 @@ func writeZip(t testing.TB, path string, members map[string]string) string {
 	return path
 }
 
-// textArticle writes the paragraphs as plain text.
-func textArticle(a tarticle) string { return strings.Join(a.paras, "\n\n") + "\n" }
+// textArticle writes the paragraphs as plain text, and the tables as a
+// pasted results section shows them: columns aligned by spaces, the
+// caption line above and the notes below, in one block of lines.
+func textArticle(a tarticle) string {
+	parts := slices.Clone(a.paras)
+	for _, t := range a.tables {
+		parts = append(parts, textTableOf(t, false, false))
+	}
+	return strings.Join(parts, "\n\n") + "\n"
+}
+
+// textTableOf writes a table as text: its cells separated by tabs, or
+// aligned by spaces (each column as wide as its widest cell, two spaces
+// between columns, a heading spanning columns printed over the first);
+// its caption line apart, a paragraph of its own, when apart is true.
+func textTableOf(t ttable, tabs, apart bool) string {
+	var grid [][]string
+	width := 0
+	for _, r := range append(slices.Clone(t.head), t.body...) {
+		var row []string
+		for _, c := range r {
+			row = append(row, c.text)
+			for range max(c.span, 1) - 1 {
+				row = append(row, "")
+			}
+		}
+		grid = append(grid, row)
+		width = max(width, len(row))
+	}
+	widths := make([]int, width)
+	for _, row := range grid {
+		for j, s := range row {
+			widths[j] = max(widths[j], utf8.RuneCountInString(s))
+		}
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s. %s\n", t.label, t.caption)
+	if apart {
+		b.WriteString("\n")
+	}
+	for _, row := range grid {
+		var line strings.Builder
+		for j, s := range row {
+			switch {
+			case tabs && j > 0:
+				line.WriteString("\t" + s)
+			case tabs:
+				line.WriteString(s)
+			default:
+				line.WriteString(s + strings.Repeat(" ", widths[j]-utf8.RuneCountInString(s)+2))
+			}
+		}
+		b.WriteString(strings.TrimRight(line.String(), " ") + "\n")
+	}
+	for _, f := range t.foot {
+		b.WriteString(f + "\n")
+	}
+	return strings.TrimRight(b.String(), "\n")
+}
 
 // articleFormats writes an article in each format with tables into dir
 // and returns the files by format.
@@ -218,14 +277,27 @@ func articleFormats(t testing.TB, dir, name string, a tarticle) map[string]strin
 		FormatJATS: filepath.Join(dir, name+".xml"),
 		FormatHTML: filepath.Join(dir, name+".html"),
 	}
-	for format, body := range map[string]string{FormatJATS: jatsArticle(a), FormatHTML: htmlArticle(a)} {
+	files[FormatText] = filepath.Join(dir, name+".txt")
+	for format, body := range map[string]string{FormatJATS: jatsArticle(a), FormatHTML: htmlArticle(a), FormatText: textArticle(a)} {
 		if err := os.WriteFile(files[format], []byte(body), 0o600); err != nil {
 			t.Fatal(err)
 		}
 	}
-	files[FormatDOCX] = writeZip(t, filepath.Join(dir, name+".docx"), map[string]string{
-		"[Content_Types].xml": `<?xml version="1.0"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"/>`,
-		"word/document.xml":   docxDocument(a),
-	})
+	files[FormatDOCX] = writeZip(t, filepath.Join(dir, name+".docx"), docxPackage("word/document.xml", docxDocument(a)))
 	return files
+}
+
+// docxPackage is the members of a DOCX package whose main document part,
+// named main, holds document: its content types and the package
+// relationship to it, as ECMA-376 Part 2 (§9.3, §10.1.2) has them.
+func docxPackage(main, document string) map[string]string {
+	return map[string]string{
+		"[Content_Types].xml": `<?xml version="1.0"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">` +
+			`<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/>` +
+			`<Default Extension="xml" ContentType="application/xml"/>` +
+			`<Override PartName="/` + main + `" ContentType="application/vnd.openxmlformats-officedocument.wordprocessingml.document.main+xml"/></Types>`,
+		"_rels/.rels": `<?xml version="1.0"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+			`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="` + main + `"/></Relationships>`,
+		main: document,
+	}
 }
