@@ -420,7 +420,7 @@ func cellProblems(errs []*extract.CellError) []Problem {
 	}
 	ps := make([]Problem, len(errs))
 	for i, e := range errs {
-		ps[i] = Problem{Sheet: e.Sheet, Row: e.Row, Column: e.Column, Message: e.Err.Error()}
+		ps[i] = problemAt(e.Position, e.Column, e.Err.Error())
 	}
 	return ps
 }
@@ -434,6 +434,11 @@ func cellMessage(e *extract.CellError) string {
 
 // baseName is a file's name without its folder, for notes: the reader
 // knows which input it gave, and a temporary folder says nothing.
+// problemAt places a problem at pos (its column replaced by column).
+func problemAt(pos extract.Position, column, message string) Problem {
+	return Problem{File: baseName(pos.File), Sheet: pos.Sheet, Row: pos.Row, Column: column, Message: message}
+}
+
 func baseName(path string) string {
 	if path == "" {
 		return ""

@@ -23,8 +23,7 @@ import (
 func consistencyProblems(c *extract.Coefficient) []Problem {
 	var out []Problem
 	add := func(column, format string, a ...any) {
-		out = append(out, Problem{Sheet: c.Sheet, Row: c.Row, Column: column,
-			Message: fmt.Sprintf("coefficient %s: ", c.Label) + fmt.Sprintf(format, a...)})
+		out = append(out, problemAt(c.Position, column, fmt.Sprintf("coefficient %s: ", c.Label)+fmt.Sprintf(format, a...)))
 	}
 	ratio := extract.IsRatioMeasure(c.Measure)
 	scale := func(x float64) float64 {

@@ -24,10 +24,11 @@ type corrSource struct {
 	sd    []extract.Printed
 	mean  []extract.Printed
 	vars  []string
-	// sheet and row place the source for problems (row 0 for a table
-	// sheet, the first row of the sample in the long sheet); study and
-	// group are as printed, group after the rule for a table without one.
-	sheet        string
+	// file, sheet and row place the source for problems (row 0 for a
+	// table sheet, the first row of the sample in the long sheet); study
+	// and group are as printed, group after the rule for a table without
+	// one.
+	file, sheet  string
 	row          int
 	study, group string
 	// used is set when a claim's test used the source; why holds the
@@ -154,9 +155,9 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 				name = "the correlations given" // typed, not read from a workbook
 			}
 			s = &corrSource{name: name, index: map[string]int{}, n: math.NaN(),
-				sheet: c.Sheet, row: c.Row, study: c.Study, group: group}
+				file: c.File, sheet: c.Sheet, row: c.Row, study: c.Study, group: group}
 			if _, msg := sampleOf(groups, c.Study, c.Group, fmt.Sprintf("the correlations sheet (from row %d)", c.Row)); msg != "" {
-				problems = append(problems, Problem{Sheet: c.Sheet, Row: c.Row, Column: "group", Message: msg})
+				problems = append(problems, problemAt(c.Position, "group", msg))
 				s.used = true // its problem is said; not again as unused
 			}
 			long[k] = s
@@ -176,7 +177,7 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 	for _, k := range order {
 		s := long[k]
 		if s.checkDefinite(); !math.IsNaN(s.minEigen) {
-			problems = append(problems, Problem{Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf(
+			problems = append(problems, Problem{File: baseName(s.file), Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf(
 				"the correlations of study %q, group %q are not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper",
 				s.study, s.group, s.minEigen)})
 		}
@@ -189,11 +190,11 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 		}
 		group, msg := sampleOf(groups, t.Study, t.Group, fmt.Sprintf("the correlation table %q", t.Name))
 		if msg != "" {
-			problems = append(problems, Problem{Sheet: t.Sheet, Column: "group", Message: msg})
+			problems = append(problems, problemAt(t.Position, "group", msg))
 			continue
 		}
 		s := &corrSource{name: fmt.Sprintf("sheet %q", t.Sheet), index: map[string]int{}, n: math.NaN(), vars: t.Variables,
-			sheet: t.Sheet, study: t.Study, group: group}
+			file: t.File, sheet: t.Sheet, study: t.Study, group: group}
 		for j, v := range t.Variables {
 			s.index[varKey(v)] = j
 		}
@@ -205,8 +206,8 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 			}
 		}
 		if old := out[sampleKey(t.Study, group)]; old != nil && old.name != "the correlations sheet" {
-			problems = append(problems, Problem{Sheet: t.Sheet, Column: "group",
-				Message: fmt.Sprintf("the correlation table %q describes the same sample (study %q, group %q) as %s, which is used instead", t.Name, t.Study, group, old.name)})
+			problems = append(problems, problemAt(t.Position, "group",
+				fmt.Sprintf("the correlation table %q describes the same sample (study %q, group %q) as %s, which is used instead", t.Name, t.Study, group, old.name)))
 			continue
 		} else if old != nil {
 			old.used = true // the table wins; the rows are not "unused"
@@ -236,10 +237,10 @@ func unusedProblems(srcs map[[2]string]*corrSource, study string) []Problem {
 		if why == "" {
 			why = fmt.Sprintf("no claim compares two estimates from its sample (study %q, group %q)", s.study, s.group)
 		}
-		out = append(out, Problem{Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf("%s was not used: %s, because %s", s.what(), s.summary(), strings.TrimSuffix(why, "."))})
+		out = append(out, Problem{File: baseName(s.file), Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf("%s was not used: %s, because %s", s.what(), s.summary(), strings.TrimSuffix(why, "."))})
 	}
 	slices.SortFunc(out, func(a, b Problem) int {
-		return cmp.Or(cmp.Compare(a.Sheet, b.Sheet), cmp.Compare(a.Row, b.Row))
+		return cmp.Or(cmp.Compare(a.File, b.File), cmp.Compare(a.Sheet, b.Sheet), cmp.Compare(a.Row, b.Row))
 	})
 	return out
 }
@@ -325,7 +326,7 @@ func tableProblems(in *extract.Input) []Problem {
 		m := (&modelTable{r: t.R}).point().r
 		var npd *regress.NotPositiveDefiniteError
 		if err := regress.CheckCorrelationMatrix(m); errors.As(err, &npd) {
-			out = append(out, Problem{Sheet: t.Sheet, Message: fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)})
+			out = append(out, Problem{File: baseName(t.File), Sheet: t.Sheet, Message: fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)})
 		}
 	}
 	return out
@@ -353,7 +354,7 @@ func (a *auditor) tableContradicts(c *extract.Coefficient) []Problem {
 		return nil
 	}
 	src.used = true // its contradiction is listed; it is not also "unused"
-	return []Problem{{Sheet: c.Sheet, Row: c.Row, Column: "estimate", Message: fmt.Sprintf(
+	return []Problem{problemAt(c.Position, "estimate", fmt.Sprintf(
 		"coefficient %s is printed as r = %s, but %s gives %s for %s and %s: the two printed values differ beyond rounding",
-		c.Label, c.Estimate.Text, src.name, cell.Text, c.Outcome, c.Predictor)}}
+		c.Label, c.Estimate.Text, src.name, cell.Text, c.Outcome, c.Predictor))}
 }

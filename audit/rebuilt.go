@@ -148,5 +148,5 @@ func (a *auditor) addRebuiltProblem(c *extract.Coefficient, column, msg string) 
 	if a.rebuilt == nil {
 		a.rebuilt = map[*extract.Coefficient][]Problem{}
 	}
-	a.rebuilt[c] = append(a.rebuilt[c], Problem{Sheet: c.Sheet, Row: c.Row, Column: column, Message: msg})
+	a.rebuilt[c] = append(a.rebuilt[c], problemAt(c.Position, column, msg))
 }

@@ -163,8 +163,11 @@ func (a *AdjustedPValues) By(method string) (Number, bool) {
 	return nan, false
 }
 
-// Problem is a problem with the input, placed by sheet, row and column.
+// Problem is a problem with the input, placed by file, sheet, row and
+// column. File is the base name of the input file the row stands in (an
+// article of a folder, a workbook), "" when the problem is not of a row.
 type Problem struct {
+	File    string `json:"file,omitempty"`
 	Sheet   string `json:"sheet"`
 	Row     int    `json:"row"`
 	Column  string `json:"column"`

@@ -140,10 +140,15 @@ func adjustedP(c *audit.ClaimResult, method string) audit.Number {
 	return q
 }
 
-// problemText places a problem: `sheet "claims", row 4, column "p": …`,
-// or `file "claims.csv", row 4, …` for a CSV, whose sheet is its file name.
+// problemText places a problem: `review.xlsx, sheet "claims", row 4,
+// column "p": …`, or `file "claims.csv", row 4, …` for a CSV, whose sheet
+// is its file name. The file is named when the problem has one, so that
+// the problems of a folder of articles say which article each is of.
 func problemText(p audit.Problem) string {
 	var loc []string
+	if p.File != "" && p.File != p.Sheet { // a CSV's sheet is its file
+		loc = append(loc, p.File)
+	}
 	switch {
 	case strings.HasSuffix(strings.ToLower(p.Sheet), ".csv"):
 		loc = append(loc, fmt.Sprintf("file %q", p.Sheet))

@@ -409,10 +409,10 @@ func (x *xlsxWriter) writeSummary(s *xlsxSheet, sum audit.Summary, problems int)
 }
 
 func writeProblemsSheet(s *xlsxSheet, st *xlsxStyles, problems []audit.Problem) error {
-	if err := s.columns([]float64{18, 8, 16, 100}, true); err != nil {
+	if err := s.columns([]float64{18, 18, 8, 16, 100}, true); err != nil {
 		return err
 	}
-	if err := s.header(st, []string{"sheet", "row", "column", "message"}, -1); err != nil {
+	if err := s.header(st, []string{"file", "sheet", "row", "column", "message"}, -1); err != nil {
 		return err
 	}
 	for _, p := range problems {
@@ -420,11 +420,11 @@ func writeProblemsSheet(s *xlsxSheet, st *xlsxStyles, problems []audit.Problem) 
 		if p.Row > 0 {
 			row = excelize.Cell{StyleID: st.count, Value: p.Row}
 		}
-		if err := s.add(st.textCell(p.Sheet), row, st.textCell(p.Column), st.textCell(p.Message)); err != nil {
+		if err := s.add(st.textCell(p.File), st.textCell(p.Sheet), row, st.textCell(p.Column), st.textCell(p.Message)); err != nil {
 			return err
 		}
 	}
-	return s.filter(4)
+	return s.filter(5)
 }
 
 func overlapProportion(c *audit.ClaimResult) audit.Number {

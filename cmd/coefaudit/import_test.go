@@ -164,3 +164,28 @@ func TestImportFailureLeavesNothing(t *testing.T) {
 		})
 	}
 }
+
+// TestCheckArticlesNamesTheFile: a problem of a folder of articles names
+// the article it is in, since the row alone does not say which. Each
+// sentence prints a p that its own estimate and SE contradict (0.41/0.12
+// gives z = 3.4, p < .001).
+func TestCheckArticlesNamesTheFile(t *testing.T) {
+	dir := t.TempDir()
+	for name, text := range map[string]string{
+		"alpha.txt": "Results\n\nSleep predicted mood, b = 0.41, SE = 0.12, p = .600.\n",
+		"beta.txt":  "Results\n\nExercise predicted mood, b = 0.35, SE = 0.13, p = .900.\n",
+	} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	stdout, stderr, code := runCLI(t, "check", dir, "--format", "md", "--fail-on", "none")
+	if code != exitOK {
+		t.Fatalf("check %s: exit %d: %s", dir, code, stderr)
+	}
+	for _, want := range []string{`- alpha.txt, sheet "coefficients", row 2, column "p": coefficient Sleep`, `- beta.txt, sheet "coefficients", row 2, column "p": coefficient Exercise`} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("the problems do not name the article: want a line starting %q in\n%s", want, stdout)
+		}
+	}
+}
