@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"coefaudit/audit"
+	"coefaudit/extract"
 	"coefaudit/pool"
 
 	"github.com/xuri/excelize/v2"
@@ -173,8 +174,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 		Description: strings.Join(doc.Cautions, " ")}); err != nil {
 		return fmt.Errorf("xlsx pooling report: %w", err)
 	}
-	_, err = f.WriteTo(w)
-	return err
+	return extract.WriteXLSX(f, w)
 }
 
 // poolXLSXP is a p cell as journals print it, ".043" or "< .001", a text

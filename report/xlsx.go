@@ -300,7 +300,7 @@ func (x *xlsxWriter) End(f Footer) error {
 		Description: strings.Join(x.h.cautions(), " ")}); err != nil {
 		return fmt.Errorf("xlsx report: %w", err)
 	}
-	if _, err := x.f.WriteTo(x.w); err != nil {
+	if err := extract.WriteXLSX(x.f, x.w); err != nil {
 		return fmt.Errorf("xlsx report: %w", err)
 	}
 	return nil

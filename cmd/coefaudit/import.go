@@ -105,13 +105,13 @@ func runImport(o *importOptions) error {
 		}
 		return err
 	}
-	res := article.Import(files, o.stdin, bar.Update)
+	res, err := writeImportFile(o, files, format, bar.Update)
 	bar.Done()
-	if err := importFailures(o, res); err != nil {
-		// Nothing is created for a run that read nothing.
-		return finish(o.files, err)
+	if err == nil {
+		// Nothing is kept of a run that read nothing.
+		err = importFailures(o, res)
 	}
-	return finish(o.files, writeImportFile(o, res, format))
+	return finish(o.files, err)
 }
 
 // importFailures names on standard error each file not read, and is an
@@ -126,21 +126,28 @@ func importFailures(o *importOptions, res *article.Result) error {
 	return nil
 }
 
-// writeImportFile writes the workbook or the JSON document.
-func writeImportFile(o *importOptions, res *article.Result, format string) error {
+// writeImportFile reads the articles into the workbook
+// (article.ImportWorkbook) or the JSON document (article.ImportJSON),
+// each article written as soon as it is read.
+func writeImportFile(o *importOptions, files []string, format string, progress func(done, total int)) (*article.Result, error) {
 	t, err := o.files.Open(o.stdout, o.out, o.inputs[0])
 	if err != nil {
-		return flagError{err}
+		return nil, flagError{err}
 	}
+	var res *article.Result
 	if format == "xlsx" {
-		err = article.WriteWorkbook(t, res.Sheets())
+		var dir string
+		if dir, err = o.files.TempDir(); err != nil {
+			return nil, err
+		}
+		res, err = article.ImportWorkbook(files, o.stdin, progress, t, dir)
 	} else {
-		err = article.WriteJSON(t, res)
+		res, err = article.ImportJSON(files, o.stdin, progress, t)
 	}
 	if err != nil {
-		return err
+		return nil, err
 	}
-	return t.Close()
+	return res, t.Close()
 }
 
 // writeImportFolder reads the articles into the CSV folder

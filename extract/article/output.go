@@ -1,6 +1,7 @@
 package article
 
 import (
+	"bufio"
 	"encoding/json"
 	"errors"
 	"io"
@@ -12,13 +13,46 @@ import (
 	"coefaudit/extract"
 )
 
-// WriteJSON writes everything the import found, with places, as one JSON
-// document: each article's coefficients, claims, correlation tables and
-// lines to confirm, then the files not read.
-func WriteJSON(w io.Writer, res *Result) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(res)
+// ImportJSON reads every file as Import does and writes everything found,
+// with places, as one JSON document to w: {"articles": [...], "failed":
+// [...]}, each article's coefficients, claims, correlation tables and
+// lines to confirm, then the files not read. Each article is encoded
+// through encoding/json as soon as it is read and then dropped, so that
+// memory stays flat over a folder of any number of articles. Nothing is
+// written when no article was read. The Result is as ImportFolder's.
+func ImportJSON(files []string, stdin io.Reader, progress func(done, total int), w io.Writer) (*Result, error) {
+	bw := bufio.NewWriter(w)
+	res := &Result{}
+	var err error
+	importEach(files, stdin, progress, func(file string, f *Found, ferr error) bool {
+		if ferr != nil {
+			res.Failed = append(res.Failed, &Failure{File: file, Err: ferr, Message: ferr.Error()})
+			return true
+		}
+		sep := ",\n    "
+		if len(res.Articles) == 0 {
+			sep = "{\n  \"articles\": [\n    "
+		}
+		res.Articles = append(res.Articles, &Found{File: f.File, Format: f.Format, Study: f.Study, ConfirmCount: len(f.ToConfirm)})
+		var b []byte
+		if b, err = json.MarshalIndent(f, "    ", "  "); err != nil {
+			return false
+		}
+		bw.WriteString(sep)
+		_, err = bw.Write(b)
+		return err == nil
+	})
+	if err != nil || len(res.Articles) == 0 {
+		return res, err
+	}
+	failed, err := json.MarshalIndent(res.Failed, "  ", "  ")
+	if err != nil {
+		return nil, err
+	}
+	bw.WriteString("\n  ],\n  \"failed\": ")
+	bw.Write(failed)
+	bw.WriteString("\n}\n")
+	return res, bw.Flush()
 }
 
 // Caution is printed with every report of articles read automatically.

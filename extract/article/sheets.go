@@ -7,8 +7,6 @@ import (
 	"strings"
 
 	"coefaudit/extract"
-
-	"github.com/xuri/excelize/v2"
 )
 
 // ToConfirmSheet is the name of the sheet listing what the reviewer must
@@ -31,9 +29,10 @@ var (
 const maxSheetName = 31
 
 // Sheets lays the result out as the sheets of the input contract:
-// coefficients and claims with their source and read columns, one
-// "table …" sheet per correlation table, and the "to confirm" sheet, which
-// also lists the files that could not be read.
+// coefficients and claims with their source and read columns, the "to
+// confirm" sheet, which also lists the files that could not be read, and
+// one "table …" sheet per correlation table (in that order, the order in
+// which ImportWorkbook makes them as it streams).
 func (r *Result) Sheets() []extract.TextSheet {
 	coefs := [][]string{coefficientHeader}
 	claims := [][]string{claimHeader}
@@ -47,9 +46,8 @@ func (r *Result) Sheets() []extract.TextSheet {
 		confirm = append(confirm, confirmRows(f)...)
 	}
 	confirm = append(confirm, failedRows(r.Failed)...)
-	out := []extract.TextSheet{{Name: "coefficients", Rows: coefs}, {Name: "claims", Rows: claims}}
-	out = append(out, tables...)
-	return append(out, extract.TextSheet{Name: ToConfirmSheet, Rows: confirm})
+	out := []extract.TextSheet{{Name: "coefficients", Rows: coefs}, {Name: "claims", Rows: claims}, {Name: ToConfirmSheet, Rows: confirm}}
+	return append(out, tables...)
 }
 
 // usedSheetNames are the names of the sheets every import writes, which a
@@ -128,64 +126,6 @@ func sheetName(name string, used map[string]bool) string {
 	}
 	used[strings.ToLower(cand)] = true
 	return cand
-}
-
-// WriteWorkbook writes the sheets as an .xlsx workbook to w, every cell a
-// text cell in the text number format, so that "0.40" keeps its zero and
-// "=…" is never a formula, with the header rows bold and frozen.
-func WriteWorkbook(w io.Writer, sheets []extract.TextSheet) error {
-	f := excelize.NewFile()
-	defer f.Close()
-	text, err := f.NewStyle(&excelize.Style{NumFmt: 49})
-	if err != nil {
-		return err
-	}
-	bold, err := f.NewStyle(&excelize.Style{NumFmt: 49, Font: &excelize.Font{Bold: true}})
-	if err != nil {
-		return err
-	}
-	for i, s := range sheets {
-		if i == 0 {
-			err = f.SetSheetName("Sheet1", s.Name)
-		} else {
-			_, err = f.NewSheet(s.Name)
-		}
-		if err != nil {
-			return fmt.Errorf("sheet %q: %w", s.Name, err)
-		}
-		if err := writeSheet(f, s, text, bold); err != nil {
-			return fmt.Errorf("sheet %q: %w", s.Name, err)
-		}
-	}
-	return f.Write(w)
-}
-
-func writeSheet(f *excelize.File, s extract.TextSheet, text, bold int) error {
-	sw, err := f.NewStreamWriter(s.Name)
-	if err != nil {
-		return err
-	}
-	table := strings.HasPrefix(s.Name, extract.TablePrefix)
-	if !table {
-		if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
-			return err
-		}
-	}
-	for r, row := range s.Rows {
-		style := text
-		if r == 0 && !table {
-			style = bold
-		}
-		cells := make([]any, len(row))
-		for j, v := range row {
-			cells[j] = excelize.Cell{StyleID: style, Value: v}
-		}
-		cell, _ := excelize.CoordinatesToCellName(1, r+1)
-		if err := sw.SetRow(cell, cells); err != nil {
-			return err
-		}
-	}
-	return sw.Flush()
 }
 
 // CSVName is the file name of a sheet in a folder of CSV files.

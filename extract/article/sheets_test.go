@@ -13,6 +13,17 @@ import (
 // and imports it.
 func importAll(t *testing.T) *Result {
 	t.Helper()
+	res := Import(allLayoutsArticle(t), nil, nil)
+	if len(res.Failed) > 0 {
+		t.Fatal(res.Failed[0].Err)
+	}
+	return res
+}
+
+// allLayoutsArticle writes a JATS article with a table in every layout
+// and a correlation table, and returns its file as a list of one.
+func allLayoutsArticle(t *testing.T) []string {
+	t.Helper()
 	dir := t.TempDir()
 	a := tarticle{author: "Quillon", year: "2026", paras: []string{
 		"Garden hours predicted wellbeing for girls (β = .34, 95% CI [.21, .47], p < .001) and for boys (β = .12, 95% CI [.01, .23], p = .03); the association was stronger for girls than for boys.",
@@ -25,11 +36,7 @@ func importAll(t *testing.T) *Result {
 	if err := os.WriteFile(file, []byte(jatsArticle(a)), 0o600); err != nil {
 		t.Fatal(err)
 	}
-	res := Import([]string{file}, nil, nil)
-	if len(res.Failed) > 0 {
-		t.Fatal(res.Failed[0].Err)
-	}
-	return res
+	return []string{file}
 }
 
 // TestSheetsReadBackCleanly reads the sheets an import writes through
@@ -72,14 +79,15 @@ func TestSheetsReadBackCleanly(t *testing.T) {
 	}
 }
 
-// TestWorkbookAndFolderReadBack writes the sheets as a workbook and as a
-// folder of CSV files and reads both with extract.Read: the same rows.
+// TestWorkbookAndFolderReadBack writes the sheets as a workbook (streamed
+// by ImportWorkbook) and as a folder of CSV files and reads both with
+// extract.Read: the rows of the sheets in memory.
 func TestWorkbookAndFolderReadBack(t *testing.T) {
-	res := importAll(t)
-	sheets := res.Sheets()
+	files := allLayoutsArticle(t)
+	sheets := Import(files, nil, nil).Sheets()
 	dir := t.TempDir()
 	var buf bytes.Buffer
-	if err := WriteWorkbook(&buf, sheets); err != nil {
+	if _, err := ImportWorkbook(files, nil, nil, &buf, t.TempDir()); err != nil {
 		t.Fatal(err)
 	}
 	book := filepath.Join(dir, "review.xlsx")
