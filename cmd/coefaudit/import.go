@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -95,15 +94,12 @@ func runImport(o *importOptions) error {
 	bar := progress.New(o.stderr, "reading articles")
 	if format == "csv" {
 		// The folder's files are written as the articles are read.
-		created, res, err := writeImportFolder(o, files, bar.Update)
+		res, err := writeImportFolder(o, files, bar.Update)
 		bar.Done()
 		if err == nil {
 			err = importFailures(o, res)
 		}
-		if err = finish(o.files, err); err != nil && created != nil {
-			created()
-		}
-		return err
+		return finish(o.files, err)
 	}
 	res, err := writeImportFile(o, files, format, bar.Update)
 	bar.Done()
@@ -152,26 +148,13 @@ func writeImportFile(o *importOptions, files []string, format string, progress f
 
 // writeImportFolder reads the articles into the CSV folder
 // (article.ImportFolder), creating the folder itself (not its parents)
-// when missing. When it created the folder it returns a function that
-// removes it with the files the run wrote into it, for a run that fails:
-// a failed run leaves nothing it created behind, and the files being
-// written are removed by the run's Files already.
-func writeImportFolder(o *importOptions, files []string, progress func(done, total int)) (created func(), res *article.Result, err error) {
-	var names []string
-	switch err := os.Mkdir(o.out, 0o755); {
-	case err == nil:
-		created = func() {
-			for _, name := range names {
-				os.Remove(filepath.Join(o.out, name))
-			}
-			os.Remove(o.out) // only when empty: never what someone else put there
-		}
-	case !os.IsExist(err):
-		return nil, nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
+// when missing. A run that fails or is interrupted leaves nothing it
+// created: its files, and the folder when it made it (output.Files).
+func writeImportFolder(o *importOptions, files []string, progress func(done, total int)) (*article.Result, error) {
+	if err := o.files.Mkdir(o.out); err != nil {
+		return nil, flagError{fmt.Errorf("--out %s: %w", o.out, err)}
 	}
-	res, err = article.ImportFolder(files, o.stdin, progress, func(name string) (io.WriteCloser, error) {
-		names = append(names, name)
+	return article.ImportFolder(files, o.stdin, progress, func(name string) (io.WriteCloser, error) {
 		return o.files.Open(nil, filepath.Join(o.out, name), o.inputs[0])
 	})
-	return created, res, err
 }

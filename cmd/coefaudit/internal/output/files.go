@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"slices"
 	"sync"
@@ -25,6 +26,7 @@ var ErrCommitted = errors.New("the run's files were already kept")
 type Files struct {
 	mu      sync.Mutex
 	targets []*Target
+	dirs    []string // folders Mkdir made, removed again by Abort
 	tmpDir  string
 	done    error // ErrCommitted or ErrAborted once the run has ended
 }
@@ -57,6 +59,30 @@ func (f *Files) add(open func() (*Target, error)) (*Target, error) {
 	t.files = f
 	f.targets = append(f.targets, t)
 	return t, nil
+}
+
+// Mkdir makes the folder path (not its parents) for the run's Targets when
+// it does not exist. Abort removes a folder Mkdir made once the Targets in
+// it are gone, and only when it is then empty, so that a failed or
+// interrupted run leaves no folder of its own behind and never takes
+// anything someone else put there.
+func (f *Files) Mkdir(path string) error {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	if f.done != nil {
+		return f.done
+	}
+	switch err := os.Mkdir(path, 0o755); {
+	case err == nil:
+		f.dirs = append(f.dirs, path)
+	case errors.Is(err, fs.ErrExist):
+		if fi, serr := os.Stat(path); serr != nil || !fi.IsDir() {
+			return fmt.Errorf("%s: not a folder", path)
+		}
+	default:
+		return err
+	}
+	return nil
 }
 
 // TempDir returns the run's private folder for temporary files, creating
@@ -123,7 +149,8 @@ func (f *Files) Commit() error {
 }
 
 // Abort discards the run's files: every temporary file is removed, every
-// destination written in place closed, the temporary folder removed. It
+// destination written in place closed, the folders Mkdir made removed when
+// empty, the temporary folder removed. It
 // returns false, and does nothing, when Commit has already kept them.
 func (f *Files) Abort() bool {
 	f.mu.Lock()
@@ -136,6 +163,10 @@ func (f *Files) Abort() bool {
 		t.Abort()
 	}
 	f.targets = nil
+	for _, dir := range slices.Backward(f.dirs) {
+		os.Remove(dir) // only when empty
+	}
+	f.dirs = nil
 	f.removeTempDir()
 	return true
 }

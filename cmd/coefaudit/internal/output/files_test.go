@@ -121,6 +121,48 @@ func TestFilesAbort(t *testing.T) {
 	}
 }
 
+// TestFilesMkdir: Abort removes a folder Mkdir made, with the run's files
+// in it, and leaves one that existed, with what someone else put there;
+// Commit keeps the folder made; a path that is a file is refused.
+func TestFilesMkdir(t *testing.T) {
+	f, dir := filesWithBuffer(t)
+	made, existing := filepath.Join(dir, "review"), filepath.Join(dir, "shared")
+	if err := os.Mkdir(existing, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(existing, "notes.txt"), []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range []string{made, existing} {
+		if err := f.Mkdir(d); err != nil {
+			t.Fatal(err)
+		}
+		openWritten(t, f, filepath.Join(d, "claims.csv"), "a,b")
+	}
+	f.Abort()
+	if _, err := os.Stat(made); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the folder the run made is still there after Abort: %v", err)
+	}
+	if got := names(t, existing); !slices.Equal(got, []string{"notes.txt"}) {
+		t.Errorf("the folder that existed holds %q after Abort, want notes.txt only", got)
+	}
+
+	g := NewFiles()
+	if err := g.Mkdir(made); err != nil {
+		t.Fatal(err)
+	}
+	openWritten(t, g, filepath.Join(made, "claims.csv"), "a,b")
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := names(t, made); !slices.Equal(got, []string{"claims.csv"}) {
+		t.Errorf("after Commit the folder holds %q, want claims.csv", got)
+	}
+	if err := NewFiles().Mkdir(filepath.Join(existing, "notes.txt")); err == nil {
+		t.Error("Mkdir of a file: no error")
+	}
+}
+
 // TestFilesAbortWhileWriting: a run that goes on opening and writing files
 // while it is aborted from another goroutine (a signal's) leaves nothing:
 // Abort waits for an Open under way, and every later Open fails.
