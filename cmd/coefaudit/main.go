@@ -6,5 +6,6 @@ package main
 import "os"
 
 func main() {
+	setCollector(os.Getenv)
 	os.Exit(int(run(os.Args[1:], os.Stdout, os.Stderr)))
 }
