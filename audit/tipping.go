@@ -3,6 +3,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"coefaudit/extract"
 	"coefaudit/infer"
@@ -85,7 +86,7 @@ func (tp tipping) note(r *ClaimResult) string {
 		side, other = "below", "above"
 	}
 	s := fmt.Sprintf("At the printed values the difference is significant at α = %s if the two estimates correlate %s %s, and not %s it (the tipping correlation); the paper did not print their correlation.",
-		FormatAlpha(r.Alpha), side, formatCorr(tp.rho), other)
+		FormatAlpha(r.Alpha), side, formatTippingCorr(tp.rho), other)
 	if math.IsNaN(tp.implied) {
 		return s
 	}
@@ -99,6 +100,21 @@ func (tp tipping) note(r *ClaimResult) string {
 	}
 	return s + fmt.Sprintf(" The correlation table (%s) gives the model's predictors: for two coefficients of one OLS model the sampling correlation is minus the predictors' partial correlation, here %s (exact for unstandardized coefficients, an approximation for standardized ones), at which the difference is %s.",
 		tp.from, formatCorr(tp.implied), verdict)
+}
+
+// formatTippingCorr writes a tipping correlation as formatCorr does, but
+// with as many more decimals (up to 6) as it takes to tell it from ±1:
+// two estimates with nearly equal SEs tip near 1, and "above 1.00" would
+// name no correlation at all.
+func formatTippingCorr(x float64) string {
+	s := formatCorr(x)
+	for d := 3; d <= 6 && math.Abs(x) < 1; d++ {
+		if v, _ := strconv.ParseFloat(s, 64); math.Abs(v) < 1 {
+			break
+		}
+		s = strconv.FormatFloat(x, 'f', d, 64)
+	}
+	return s
 }
 
 // formatCorr writes a correlation with two decimals, as papers print them.

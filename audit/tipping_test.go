@@ -56,3 +56,27 @@ func TestIssue17TippingCorrelation(t *testing.T) {
 		t.Errorf("decided claim has tipping_corr %v", r.TippingCorr)
 	}
 }
+
+// TestFormatTippingCorr: a tipping correlation that rounds to ±1.00 at two
+// decimals gets the decimals that tell it from ±1. 0.243 (SE 0.6014) vs
+// 0.32 (SE 0.5994) at α = .05 tip at ρ = (s₁² + s₂² − (0.077/1.959964)²)/
+// (2·s₁·s₂) = 0.99786 (the formula of infer.TippingCorrelation, worked by
+// hand).
+func TestFormatTippingCorr(t *testing.T) {
+	s1, s2, d := 0.6014, 0.5994, 0.077
+	rho := (s1*s1 + s2*s2 - math.Pow(d/1.959964, 2)) / (2 * s1 * s2)
+	for _, tc := range []struct {
+		rho  float64
+		want string
+	}{
+		{rho, "0.998"},
+		{-0.2853, "-0.29"},
+		{-0.999996, "-0.999996"},
+		{-0.9999996, "-1.000000"}, // beyond 6 decimals: as close as it is printed
+		{0.004, "0.00"},
+	} {
+		if got := formatTippingCorr(tc.rho); got != tc.want {
+			t.Errorf("formatTippingCorr(%v) = %q, want %q", tc.rho, got, tc.want)
+		}
+	}
+}
