@@ -18,15 +18,13 @@ import (
 // rows a worksheet holds (excelize.TotalRows, 1,048,576 with the header).
 var ErrSheetFull = errors.New("more rows than a worksheet holds")
 
-// MaxXLSXClaims is the most claims an xlsx report holds. A workbook is
-// written for people to read, and excelize holds much of a large one in
-// memory while it writes, beside the input's sheets: 100,000 paired claims
-// took 348 MB at their peak, a workbook of 100,000 claims and 200,000
-// coefficients 644 MB and 500,000 paired claims 1.0 GB (/usr/bin/time -v,
-// see the README), beyond the 500 MB any input within the size limits may
-// take. A larger input stops with ErrTooManyForXLSX and leaves no file;
-// csv and json have no such limit.
-const MaxXLSXClaims = 50000
+// MaxXLSXClaims is the most claims an xlsx report holds: the rows of its
+// claims sheet below the header (excelize.TotalRows, 1,048,576 rows a
+// worksheet). A larger input stops with ErrTooManyForXLSX and leaves no
+// file; so does one whose coefficients pass a sheet's rows (ErrSheetFull:
+// a paired CSV of more than 524,287 claims, two coefficients each). csv
+// and json have no such limit.
+const MaxXLSXClaims = excelize.TotalRows - 1
 
 // ErrTooManyForXLSX is returned past MaxXLSXClaims claims.
 var ErrTooManyForXLSX = errors.New("more claims than an xlsx report holds")
@@ -55,10 +53,11 @@ var ErrTooManyForXLSX = errors.New("more claims than an xlsx report holds")
 // methods sheets are written as the claims arrive; the input sheets, the
 // problems and a count per study are held until End (the coefficients
 // sheet's header names the unknown columns of every coefficient row, known
-// only then; heldCoefficients keeps them compact), so memory grows with
-// the input's coefficients, not its claims. The report holds at
-// most MaxXLSXClaims claims, and a sheet at most 1,048,575 rows below its
-// header (ErrSheetFull, for an input whose coefficients alone pass it).
+// only then; heldCoefficients keeps the rows in a temporary file), so that
+// memory grows with neither the claims nor the coefficients. The report
+// holds at most MaxXLSXClaims claims, and a sheet at most 1,048,575 rows
+// below its header (ErrSheetFull, for an input whose coefficients alone
+// pass it).
 //
 // The input sheets keep the names and columns the reader knows, so the
 // workbook can be read back and audited again; the audit's own columns are
@@ -95,7 +94,7 @@ type xlsxWriter struct {
 // tmpDir (the system's temporary folder when empty).
 func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
 	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{},
-		maxClaims: MaxXLSXClaims}
+		coefficients: heldCoefficients{dir: tmpDir}, maxClaims: MaxXLSXClaims}
 }
 
 // Begin implements Writer: the workbook, its styles, and the headers of
@@ -228,6 +227,7 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 // excelize keeps long sheets. End closes the writer; a run that fails
 // before End must (Check and Write do).
 func (x *xlsxWriter) Close() error {
+	x.coefficients.close()
 	if x.f == nil {
 		return nil
 	}

@@ -1,9 +1,11 @@
 package report
 
 import (
-	"bytes"
+	"bufio"
 	"encoding/csv"
+	"fmt"
 	"io"
+	"os"
 	"strconv"
 	"strings"
 
@@ -22,12 +24,17 @@ var (
 
 // heldCoefficients keeps the coefficients rows of the input until the
 // workbook's end, when their sheet's header can name every pass-through
-// column: each row as one CSV record in one buffer, its cells as printed,
-// its sheet and row, then its unknown columns as name and value pairs. A
-// row takes some 70 bytes so, a fifth of the coefficient it came from
-// (measured with a heap profile of 200,000 rows).
+// column: each row as one CSV record in a temporary file of dir (the
+// system's temporary folder when empty), its cells as printed, its sheet
+// and row, then its unknown columns as name and value pairs. Why a file:
+// held in memory, even packed so (some 70 bytes a row, a fifth of the
+// coefficient it came from), they took the xlsx report of 500,000 paired
+// claims to 291 MB (/usr/bin/time -v), and the report is to hold as many
+// claims as a sheet has rows within 150 MB.
 type heldCoefficients struct {
-	buf   bytes.Buffer
+	dir   string
+	file  *os.File
+	bw    *bufio.Writer
 	w     *csv.Writer
 	rows  int
 	extra []string        // the unknown columns, in first-seen order
@@ -37,13 +44,44 @@ type heldCoefficients struct {
 	bad map[int][]badCell
 }
 
+// close removes the temporary file.
+func (h *heldCoefficients) close() {
+	if h.file != nil {
+		h.file.Close()
+		os.Remove(h.file.Name())
+		h.file = nil
+	}
+}
+
+// records returns a reader of the held records from the first.
+func (h *heldCoefficients) records() (*csv.Reader, error) {
+	h.w.Flush()
+	if err := h.w.Error(); err != nil {
+		return nil, err
+	}
+	if err := h.bw.Flush(); err != nil {
+		return nil, err
+	}
+	if _, err := h.file.Seek(0, io.SeekStart); err != nil {
+		return nil, err
+	}
+	r := csv.NewReader(bufio.NewReader(h.file))
+	r.FieldsPerRecord = -1
+	return r, nil
+}
+
 // heldSheetPosition is the number of cells before a record's pass-through
 // pairs: the sheet's input columns, then the row's sheet and row number.
 const heldSheetPosition = 16
 
 func (h *heldCoefficients) add(c *extract.Coefficient) error {
 	if h.w == nil {
-		h.w = csv.NewWriter(&h.buf)
+		f, err := os.CreateTemp(h.dir, "coefficients-*.csv")
+		if err != nil {
+			return fmt.Errorf("a temporary file for the input's coefficients: %w", err)
+		}
+		h.file, h.bw = f, bufio.NewWriter(f)
+		h.w = csv.NewWriter(h.bw)
 		h.seen = nameSet(coefficientInputColumns, rowResultColumns)
 	}
 	level := ""
@@ -93,12 +131,10 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 	if held.w == nil {
 		return nil
 	}
-	held.w.Flush()
-	if err := held.w.Error(); err != nil {
+	r, err := held.records()
+	if err != nil {
 		return err
 	}
-	r := csv.NewReader(&held.buf)
-	r.FieldsPerRecord = -1
 	for k := 0; ; k++ {
 		rec, err := r.Read()
 		if err == io.EOF {

@@ -403,3 +403,39 @@ func TestXLSXClaimLimit(t *testing.T) {
 		}
 	}
 }
+
+// TestHeldCoefficientsInAFile: the input's coefficients wait for the end
+// of the xlsx report in a temporary file of the writer's folder, not in
+// memory, are read back as written (a cell with a comma, a quote and a
+// line break included), and close removes the file.
+func TestHeldCoefficientsInAFile(t *testing.T) {
+	dir := t.TempDir()
+	h := heldCoefficients{dir: dir}
+	defer h.close()
+	c := extract.Coefficient{Position: extract.Position{Sheet: "coefficients", Row: 7}, Study: "Quillon 2026",
+		Label: "sleep, \"hours\"\nweekdays", Measure: "b", Estimate: extract.Printed{Text: "0.41"}}
+	for range 3 {
+		if err := h.add(&c); err != nil {
+			t.Fatal(err)
+		}
+	}
+	files, _ := filepath.Glob(filepath.Join(dir, "*"))
+	if len(files) != 1 {
+		t.Fatalf("files in the writer's folder: %v, want the held coefficients' one", files)
+	}
+	r, err := h.records()
+	if err != nil {
+		t.Fatal(err)
+	}
+	recs, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(recs) != 3 || recs[2][1] != c.Label || recs[2][7] != "0.41" || recs[2][heldSheetPosition+1] != "7" {
+		t.Errorf("read back %q", recs)
+	}
+	h.close()
+	if files, _ := filepath.Glob(filepath.Join(dir, "*")); len(files) != 0 {
+		t.Errorf("close left %v", files)
+	}
+}

@@ -141,9 +141,9 @@ or second-larger (signed), first-stronger or second-stronger (magnitude).
 Formats: table (the terminal), json (the output contract), csv, md (one
 Markdown document: a table and each claim's methods paragraph), xlsx (the
 input sheets with the audit's columns beside each claim, a summary and the
-methods text; needs --out; at most 50,000 claims) and html (one
-self-contained page with a line for every claim and, for the first 500
-flagged claims, a card with a chart, to publish or print).
+methods text; needs --out; at most 1,048,575 claims, a sheet's rows) and
+html (one self-contained page with a line for every claim and, for the
+first 500 flagged claims, a card with a chart, to publish or print).
 
 Exit status: 0 when no claim has an outcome listed in --fail-on, 1 when one
 has (the report is written either way), 2 for a usage error or an input
