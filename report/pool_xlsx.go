@@ -32,17 +32,20 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 	if err != nil {
 		return fmt.Errorf("xlsx pooling report: %w", err)
 	}
-	dec := map[int]int{}
-	for d := 2; d <= 5; d++ { // 5 is for τ², weights' percentages are below
-		format := "0." + strings.Repeat("0", d)
-		if d == 5 {
-			format = "0.0%"
-		}
-		if dec[d], err = f.NewStyle(&excelize.Style{CustomNumFmt: &format, Alignment: &excelize.Alignment{Vertical: "top"}}); err != nil {
+	numberStyle := func(format string) (int, error) {
+		return f.NewStyle(&excelize.Style{CustomNumFmt: &format, Alignment: &excelize.Alignment{Vertical: "top"}})
+	}
+	dec := map[int]int{} // a style for each number of decimals an estimate is written with
+	for d := audit.MinDecimals; d <= audit.MaxDecimals; d++ {
+		if dec[d], err = numberStyle("0." + strings.Repeat("0", d)); err != nil {
 			return fmt.Errorf("xlsx pooling report: %w", err)
 		}
 	}
-	tau, share := dec[4], dec[5]
+	share, err := numberStyle("0.0%") // the weights' percentages
+	if err != nil {
+		return fmt.Errorf("xlsx pooling report: %w", err)
+	}
+	tau := dec[audit.MaxDecimals] // τ²
 	pct := poolLevelText(doc.Level)
 	sheets := []struct {
 		name   string
@@ -71,7 +74,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 			[]string{"topic", "row", "study", "claim", "first", "second", "difference", "se", "ci_low " + pct, "ci_high " + pct, "weight_fixed", "weight_random", "outcome"},
 			func(add func(...any) error) error {
 				for _, t := range doc.Topics {
-					d := dec[max(2, min(4, t.Decimals))]
+					d := dec[max(audit.MinDecimals, min(audit.MaxDecimals, t.Decimals))]
 					for _, s := range t.Studies {
 						if err := add(st.textCell(t.Topic), s.Row, st.textCell(s.Study), st.textCell(s.Claim), st.textCell(s.First), st.textCell(s.Second),
 							st.number(s.Estimate, d), st.number(s.SE, d), st.number(s.CI[0], d), st.number(s.CI[1], d),
@@ -86,7 +89,7 @@ func WritePoolXLSX(w io.Writer, doc PoolDocument) (err error) {
 			[]string{"topic", "without_row", "study", "claim", "estimate", "ci_low " + pct, "ci_high " + pct, "tau2", "q", "i2"},
 			func(add func(...any) error) error {
 				for _, t := range doc.Topics {
-					d := dec[max(2, min(4, t.Decimals))]
+					d := dec[max(audit.MinDecimals, min(audit.MaxDecimals, t.Decimals))]
 					for _, l := range t.LeaveOneOut {
 						if err := add(st.textCell(t.Topic), l.Row, st.textCell(l.Study), st.textCell(l.Claim), st.number(l.Estimate, d),
 							st.number(l.CI[0], d), st.number(l.CI[1], d), st.number(l.Tau2, tau), st.number(l.Q, st.stat), st.number(l.I2, st.share)); err != nil {
@@ -190,7 +193,7 @@ func poolXLSXP(st *xlsxStyles, p audit.Number) any {
 // poolXLSXPooled writes the rows of the pooled sheet.
 func poolXLSXPooled(doc PoolDocument, st *xlsxStyles, dec map[int]int, add func(...any) error) error {
 	for _, t := range doc.Topics {
-		d := dec[max(2, min(4, t.Decimals))]
+		d := dec[max(audit.MinDecimals, min(audit.MaxDecimals, t.Decimals))]
 		line := func(what string, k int, p *pool.Estimate) error {
 			if p == nil {
 				return nil

@@ -6,6 +6,8 @@ import (
 	"strings"
 	"unicode"
 
+	"coefaudit/audit"
+
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 )
@@ -26,13 +28,10 @@ func boundText(x float64, decimals int) string {
 	return formatNumber(x, decimals)
 }
 
-// formatNumber prints x with a typographic minus and without "-0".
+// formatNumber prints x as the reports do (audit.FormatFixed: no "-0"),
+// with a typographic minus.
 func formatNumber(x float64, decimals int) string {
-	s := strconv.FormatFloat(x, 'f', decimals, 64)
-	if strings.Trim(s, "-0.") == "" {
-		s = strings.TrimPrefix(s, "-")
-	}
-	return strings.Replace(s, "-", "−", 1)
+	return strings.Replace(audit.FormatFixed(x, decimals), "-", "−", 1)
 }
 
 // cleanText makes a label safe to draw and to put into XML: valid UTF-8,
