@@ -50,10 +50,11 @@ its own interval stays as printed, for check to flag.
 
 --out FILE.xlsx writes a workbook; --out DIR writes a folder of CSV files
 (created if missing and removed again if the import fails; its files
-replaced); --format json writes everything
-found, with places, to --out or standard output. A file that cannot be read
-is named on standard error and on the "to confirm" sheet, and the others go
-on; the exit status is 2 only when no file could be read.`,
+replaced); --format json writes everything found, with places, to --out or
+standard output. Each article is written as soon as it is read, so a folder
+of any size is imported in flat memory. A file that cannot be read is named
+on standard error and on the "to confirm" sheet, and the others go on; the
+exit status is 2 only when no file could be read.`,
 		Example: `  coefaudit import article.xml --out review.xlsx
   coefaudit import articles/ --out review/            # a folder of CSV files
   coefaudit import manuscript.docx --format json
