@@ -1,6 +1,7 @@
 package article
 
 import (
+	"slices"
 	"strings"
 	"testing"
 )
@@ -135,4 +136,62 @@ func TestSentenceCorrelationN(t *testing.T) {
 	if !found {
 		t.Errorf("the derived n is not listed to confirm: %+v", f.ToConfirm)
 	}
+}
+
+// TestSentenceResultsInEveryFormat writes invented results sections in
+// every format, reads them back and checks every result the sentences
+// print: recall (printed results found) and precision (results reported
+// that were printed, with every number as printed), reported in the log.
+// A test statistic without an estimate ("t(120) = 3.20") and numbers that
+// are no statistics yield nothing.
+func TestSentenceResultsInEveryFormat(t *testing.T) {
+	type result struct{ measure, estimate, ci, se, stat, df, p string }
+	printed := []result{
+		{"beta", ".34", "[.21, .47]", "", "", "", "< .001"},
+		{"beta", ".12", "[.01, .23]", "", "", "", ".03"},
+		{"b", "0.41", "", "0.12", "3.20", "120", ".002"},
+		{"r", "−.45", "", "", "", "198", "< .001"},
+		{"or", "1.80", "1.21–2.68", "", "", "", ""},
+		{"hr", "1.45", "1.13 to 1.86", "", "", "", ""},
+		{"b", "-0.27", "", "0.09", "", "", ".003"},
+	}
+	a := tarticle{author: "Marrow", year: "2025", paras: []string{
+		"Outdoor time predicted attention for girls (β = .34, 95% CI [.21, .47], p < .001) and for boys (β = .12, 95% CI [.01, .23], p = .03).",
+		"Sleep was associated with mood, b = 0.41, SE = 0.12, t(120) = 3.20, p = .002.",
+		"Stress correlated with sleep, r(198) = −.45, p < .001.",
+		"Daily play lowered the odds of problems (OR = 1.80, 95% CI 1.21–2.68). Hazard was higher in cohort A (HR = 1.45, 95% CI 1.13 to 1.86).",
+		"Screen time lowered reading scores, b = -0.27, SE = 0.09, p = .003.",
+		"The groups differed, t(120) = 3.20, p = .002. Only 3 groups and 12 schools took part in 2019.",
+	}}
+	var found, printedN, right, reported int
+	for format, file := range articleFormats(t, t.TempDir(), "marrow", a) {
+		f, err := ReadFile(file, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", format, err)
+		}
+		got := map[result]bool{}
+		for _, c := range f.Coefficients {
+			reported++
+			r := result{c.Measure, c.Estimate, c.CI, c.SE, c.Stat, c.DF, c.P}
+			if slices.Contains(printed, r) && strings.Contains(c.Source, "sentence") {
+				right++
+				got[r] = true
+			} else {
+				t.Errorf("%s: %+v was not printed so", format, c)
+			}
+		}
+		for _, r := range printed {
+			printedN++
+			if got[r] {
+				found++
+			} else {
+				t.Errorf("%s: %+v not found", format, r)
+			}
+		}
+	}
+	if printedN == 0 || reported == 0 {
+		t.Fatal("no result was checked")
+	}
+	t.Logf("sentences: recall %d/%d = %.3f, precision %d/%d = %.3f", found, printedN, float64(found)/float64(printedN),
+		right, reported, float64(right)/float64(reported))
 }
