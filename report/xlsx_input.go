@@ -34,8 +34,7 @@ var (
 type heldCoefficients struct {
 	dir   string
 	file  *os.File
-	bw    *bufio.Writer
-	w     *csv.Writer
+	w     *csv.Writer // buffered, over file
 	rows  int
 	extra []string        // the unknown columns, in first-seen order
 	seen  map[string]bool // their names, lower case, and the sheet's own
@@ -59,9 +58,6 @@ func (h *heldCoefficients) records() (*csv.Reader, error) {
 	if err := h.w.Error(); err != nil {
 		return nil, err
 	}
-	if err := h.bw.Flush(); err != nil {
-		return nil, err
-	}
 	if _, err := h.file.Seek(0, io.SeekStart); err != nil {
 		return nil, err
 	}
@@ -80,8 +76,7 @@ func (h *heldCoefficients) add(c *extract.Coefficient) error {
 		if err != nil {
 			return fmt.Errorf("a temporary file for the input's coefficients: %w", err)
 		}
-		h.file, h.bw = f, bufio.NewWriter(f)
-		h.w = csv.NewWriter(h.bw)
+		h.file, h.w = f, csv.NewWriter(f)
 		h.seen = nameSet(coefficientInputColumns, rowResultColumns)
 	}
 	level := ""
