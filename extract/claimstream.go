@@ -38,7 +38,12 @@ func openSheets(s *inputSheets) (*Source, error) {
 		s.close()
 		return nil, err
 	}
-	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close)}
+	claims := 0
+	for _, n := range counts {
+		claims += n
+	}
+	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close),
+		claimRows: claims, coefficientRows: len(held.rows), counted: true}
 	src.studies = func(yield func(*Study, error) bool) {
 		c := counts
 		counts = nil // spent by the assembler: the sequence is ranged once

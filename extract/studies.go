@@ -57,6 +57,10 @@ type Source struct {
 	// pieces, for an input whose studies interleave, yields its claims
 	// rows in runs of one study (Pieces).
 	pieces func(yield func(*Study, error) bool)
+	// claimRows and coefficientRows are the rows counted when the input
+	// was opened; counted is false when they were not (Rows).
+	claimRows, coefficientRows int
+	counted                    bool
 }
 
 // Open opens an input in any of its forms, chosen by what path is (see
@@ -102,7 +106,8 @@ func Open(path string) (*Source, error) {
 // gives them: each study is copied out of the input when its last claims
 // row has come, with the rows of the other sheets that belong to it.
 func FromInput(in *Input) *Source {
-	s := &Source{Path: in.Source, problems: in.Problems}
+	s := &Source{Path: in.Source, problems: in.Problems,
+		claimRows: len(in.Claims), coefficientRows: len(in.Coefficients), counted: true}
 	s.ClaimColumns = unknownClaimColumns(in.Claims)
 	s.studies = func(yield func(*Study, error) bool) {
 		counts := map[string]int{}
@@ -122,6 +127,15 @@ func FromInput(in *Input) *Source {
 		}
 	}
 	return s
+}
+
+// Rows returns the number of claims rows and of coefficients rows of the
+// input, as counted when it was opened (a paired CSV's row carries two
+// coefficients), so that a writer that holds at most so many rows can
+// refuse an input before it is audited; ok is false when they were not
+// counted beforehand (a source of articles, read one at a time).
+func (s *Source) Rows() (claims, coefficients int, ok bool) {
+	return s.claimRows, s.coefficientRows, s.counted
 }
 
 // Studies returns the studies of the input, one at a time. An error ends
@@ -190,11 +204,12 @@ func openPaired(path string) (*Source, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &Source{Path: path, ClaimColumns: extra, problems: headerProblems}
 	total := 0
 	for _, n := range counts {
 		total += n
 	}
+	s := &Source{Path: path, ClaimColumns: extra, problems: headerProblems,
+		claimRows: total, coefficientRows: 2 * total, counted: true}
 	if total == 0 {
 		s.problems = append(s.problems, &CellError{Position: csvPosition(path),
 			Err: fmt.Errorf("the file has a header but no claims: %w", ErrMissingValue)})

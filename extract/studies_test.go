@@ -205,3 +205,33 @@ func names(sts []*Study) []string {
 	}
 	return out
 }
+
+// TestSourceRows: Open counts each form's claims and coefficients rows
+// before any study is read, as many as reading the input whole gives (a
+// paired CSV's row carries two coefficients); a source of inputs read one
+// after another has no count.
+func TestSourceRows(t *testing.T) {
+	for _, path := range []string{filepath.Join("..", "fixtures", "demo-review.xlsx"), filepath.Join("testdata", "folder"),
+		filepath.Join("testdata", "paired.csv")} {
+		in, err := Read(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		src, err := Open(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		claims, coefs, ok := src.Rows()
+		src.Close()
+		if !ok || claims != len(in.Claims) || coefs != len(in.Coefficients) || claims == 0 {
+			t.Errorf("%s: Rows() = %d claims, %d coefficients, %v; reading it whole gives %d and %d", path, claims, coefs, ok,
+				len(in.Claims), len(in.Coefficients))
+		}
+		if claims, coefs, ok := FromInput(in).Rows(); !ok || claims != len(in.Claims) || coefs != len(in.Coefficients) {
+			t.Errorf("%s in memory: Rows() = %d, %d, %v", path, claims, coefs, ok)
+		}
+	}
+	if _, _, ok := FromInputs("articles", nil, func(func(*Input, error) bool) {}).Rows(); ok {
+		t.Error("a source of inputs read one after another says it counted its rows")
+	}
+}

@@ -27,6 +27,11 @@ type Header struct {
 	// Cautions are printed with every report a person reads; audit.Cautions
 	// when empty.
 	Cautions []string
+	// ClaimRows and CoefficientRows are the input's rows as counted when it
+	// was opened (extract.Source.Rows), when RowsKnown: a writer that holds
+	// at most so many rows refuses the input before it is audited.
+	ClaimRows, CoefficientRows int
+	RowsKnown                  bool
 }
 
 // cautions returns the header's cautions, or the audit's.
@@ -155,6 +160,7 @@ func run(src *extract.Source, wr Writer, format string, o Options) (audit.Summar
 	if h.Source == "" {
 		h.Source = src.Path
 	}
+	h.ClaimRows, h.CoefficientRows, h.RowsKnown = src.Rows()
 	if h.Adjust == "" {
 		h.Adjust = audit.DefaultOptions.Adjust
 	}

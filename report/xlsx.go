@@ -1,7 +1,6 @@
 package report
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -13,21 +12,6 @@ import (
 
 	"github.com/xuri/excelize/v2"
 )
-
-// ErrSheetFull is returned when a sheet of the xlsx report would pass the
-// rows a worksheet holds (excelize.TotalRows, 1,048,576 with the header).
-var ErrSheetFull = errors.New("more rows than a worksheet holds")
-
-// MaxXLSXClaims is the most claims an xlsx report holds: the rows of its
-// claims sheet below the header (excelize.TotalRows, 1,048,576 rows a
-// worksheet). A larger input stops with ErrTooManyForXLSX and leaves no
-// file; so does one whose coefficients pass a sheet's rows (ErrSheetFull:
-// a paired CSV of more than 524,287 claims, two coefficients each). csv
-// and json have no such limit.
-const MaxXLSXClaims = excelize.TotalRows - 1
-
-// ErrTooManyForXLSX is returned past MaxXLSXClaims claims.
-var ErrTooManyForXLSX = errors.New("more claims than an xlsx report holds")
 
 // xlsxWriter writes the report as a workbook a review can publish:
 //
@@ -101,6 +85,13 @@ func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
 // the claims and methods sheets.
 func (x *xlsxWriter) Begin(h Header) error {
 	x.h = h
+	// An input counted beforehand is refused before any work on it.
+	switch {
+	case h.RowsKnown && h.ClaimRows > x.maxClaims:
+		return x.errTooManyClaims()
+	case h.RowsKnown && h.CoefficientRows >= excelize.TotalRows:
+		return errSheetFull()
+	}
 	x.f = excelize.NewFile(excelize.Options{TmpDir: x.tmpDir})
 	st, err := newXLSXStyles(x.f)
 	if err != nil {
@@ -172,8 +163,7 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 		}
 	}
 	if max(x.coefficients.rows, len(x.correlations)) >= excelize.TotalRows {
-		return fmt.Errorf("xlsx report: the input's coefficients or correlations pass %d rows: %w; write csv or json for an input this large",
-			excelize.TotalRows-1, ErrSheetFull)
+		return errSheetFull()
 	}
 	return nil
 }
@@ -181,7 +171,7 @@ func (x *xlsxWriter) Input(st *extract.Study) error {
 // Study implements Writer: the claims' rows and methods paragraphs.
 func (x *xlsxWriter) Study(res audit.StudyResult) error {
 	if x.written += len(res.Claims); x.written > x.maxClaims {
-		return fmt.Errorf("the input has more than %d claims: %w; write csv or json for an input this large", x.maxClaims, ErrTooManyForXLSX)
+		return x.errTooManyClaims()
 	}
 	x.problems.add(res.Problems)
 	x.tally.add(res.Claims)

@@ -439,3 +439,27 @@ func TestHeldCoefficientsInAFile(t *testing.T) {
 		t.Errorf("close left %v", files)
 	}
 }
+
+// TestXLSXRefusesCountedInputAtBegin: an input whose rows were counted
+// when it was opened is refused by Begin, before any of it is audited,
+// when its claims pass the limit or its coefficients a sheet's rows; at
+// the limits, and when the rows were not counted, Begin goes on.
+func TestXLSXRefusesCountedInputAtBegin(t *testing.T) {
+	for _, tc := range []struct {
+		h    Header
+		want error
+	}{
+		{Header{RowsKnown: true, ClaimRows: 11, CoefficientRows: 22}, ErrTooManyForXLSX},
+		{Header{RowsKnown: true, ClaimRows: 10, CoefficientRows: excelize.TotalRows}, ErrSheetFull},
+		{Header{RowsKnown: true, ClaimRows: 10, CoefficientRows: excelize.TotalRows - 1}, nil},
+		{Header{ClaimRows: 11, CoefficientRows: excelize.TotalRows}, nil},
+	} {
+		wr := newXLSXWriter(io.Discard, t.TempDir())
+		wr.maxClaims = 10
+		err := wr.Begin(tc.h)
+		wr.Close()
+		if !errors.Is(err, tc.want) || (tc.want == nil) != (err == nil) {
+			t.Errorf("Begin(%+v) = %v, want %v", tc.h, err, tc.want)
+		}
+	}
+}
