@@ -432,13 +432,13 @@ func cellMessage(e *extract.CellError) string {
 	return e.Err.Error()
 }
 
-// baseName is a file's name without its folder, for notes: the reader
-// knows which input it gave, and a temporary folder says nothing.
 // problemAt places a problem at pos (its column replaced by column).
 func problemAt(pos extract.Position, column, message string) Problem {
 	return Problem{File: baseName(pos.File), Sheet: pos.Sheet, Row: pos.Row, Column: column, Message: message}
 }
 
+// baseName is a file's name without its folder, for notes: the reader
+// knows which input it gave, and a temporary folder says nothing.
 func baseName(path string) string {
 	if path == "" {
 		return ""

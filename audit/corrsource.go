@@ -24,12 +24,10 @@ type corrSource struct {
 	sd    []extract.Printed
 	mean  []extract.Printed
 	vars  []string
-	// file, sheet and row place the source for problems (row 0 for a
-	// table sheet, the first row of the sample in the long sheet); study
-	// and group are as printed, group after the rule for a table without
-	// one.
-	file, sheet  string
-	row          int
+	// pos places the source for problems (a table sheet's, or the first
+	// row of the sample in the long sheet); study and group are as
+	// printed, group after the rule for a table without one.
+	pos          extract.Position
 	study, group string
 	// used is set when a claim's test used the source; why holds the
 	// first reason a claim that tried it could not.
@@ -155,7 +153,7 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 				name = "the correlations given" // typed, not read from a workbook
 			}
 			s = &corrSource{name: name, index: map[string]int{}, n: math.NaN(),
-				file: c.File, sheet: c.Sheet, row: c.Row, study: c.Study, group: group}
+				pos: c.Position, study: c.Study, group: group}
 			if _, msg := sampleOf(groups, c.Study, c.Group, fmt.Sprintf("the correlations sheet (from row %d)", c.Row)); msg != "" {
 				problems = append(problems, problemAt(c.Position, "group", msg))
 				s.used = true // its problem is said; not again as unused
@@ -177,9 +175,9 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 	for _, k := range order {
 		s := long[k]
 		if s.checkDefinite(); !math.IsNaN(s.minEigen) {
-			problems = append(problems, Problem{File: baseName(s.file), Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf(
+			problems = append(problems, problemAt(s.pos, "", fmt.Sprintf(
 				"the correlations of study %q, group %q are not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper",
-				s.study, s.group, s.minEigen)})
+				s.study, s.group, s.minEigen)))
 		}
 		out[k] = s
 	}
@@ -194,7 +192,7 @@ func correlationSources(in *extract.Input) (map[[2]string]*corrSource, []Problem
 			continue
 		}
 		s := &corrSource{name: fmt.Sprintf("sheet %q", t.Sheet), index: map[string]int{}, n: math.NaN(), vars: t.Variables,
-			file: t.File, sheet: t.Sheet, study: t.Study, group: group}
+			pos: t.Position, study: t.Study, group: group}
 		for j, v := range t.Variables {
 			s.index[varKey(v)] = j
 		}
@@ -237,7 +235,7 @@ func unusedProblems(srcs map[[2]string]*corrSource, study string) []Problem {
 		if why == "" {
 			why = fmt.Sprintf("no claim compares two estimates from its sample (study %q, group %q)", s.study, s.group)
 		}
-		out = append(out, Problem{File: baseName(s.file), Sheet: s.sheet, Row: s.row, Message: fmt.Sprintf("%s was not used: %s, because %s", s.what(), s.summary(), strings.TrimSuffix(why, "."))})
+		out = append(out, problemAt(s.pos, "", fmt.Sprintf("%s was not used: %s, because %s", s.what(), s.summary(), strings.TrimSuffix(why, "."))))
 	}
 	slices.SortFunc(out, func(a, b Problem) int {
 		return cmp.Or(cmp.Compare(a.File, b.File), cmp.Compare(a.Sheet, b.Sheet), cmp.Compare(a.Row, b.Row))
@@ -247,7 +245,7 @@ func unusedProblems(srcs map[[2]string]*corrSource, study string) []Problem {
 
 // what names the source for a problem.
 func (s *corrSource) what() string {
-	if s.sheet == "" {
+	if s.pos.Sheet == "" {
 		return s.name
 	}
 	if s.name == "the correlations sheet" {
@@ -326,7 +324,7 @@ func tableProblems(in *extract.Input) []Problem {
 		m := (&modelTable{r: t.R}).point().r
 		var npd *regress.NotPositiveDefiniteError
 		if err := regress.CheckCorrelationMatrix(m); errors.As(err, &npd) {
-			out = append(out, Problem{File: baseName(t.File), Sheet: t.Sheet, Message: fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)})
+			out = append(out, problemAt(t.Position, "", fmt.Sprintf("the correlation table %q is not positive definite (smallest eigenvalue %.3g): no sample can have all these correlations; check the printed values, or pairwise deletion in the paper", t.Name, npd.MinEigenvalue)))
 		}
 	}
 	return out
