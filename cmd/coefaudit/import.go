@@ -92,17 +92,14 @@ func runImport(o *importOptions) error {
 			format = "xlsx"
 		}
 	}
+	// Each article is written as soon as it is read.
 	bar := progress.New(o.stderr, "reading articles")
+	var res *article.Result
 	if format == "csv" {
-		// The folder's files are written as the articles are read.
-		res, err := writeImportFolder(o, files, bar.Update)
-		bar.Done()
-		if err == nil {
-			err = importFailures(o, res)
-		}
-		return finish(o.files, err)
+		res, err = writeImportFolder(o, files, bar.Update)
+	} else {
+		res, err = writeImportFile(o, files, format, bar.Update)
 	}
-	res, err := writeImportFile(o, files, format, bar.Update)
 	bar.Done()
 	if err == nil {
 		// Nothing is kept of a run that read nothing.

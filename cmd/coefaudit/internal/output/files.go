@@ -150,8 +150,8 @@ func (f *Files) Commit() error {
 
 // Abort discards the run's files: every temporary file is removed, every
 // destination written in place closed, the folders Mkdir made removed when
-// empty, the temporary folder removed. It
-// returns false, and does nothing, when Commit has already kept them.
+// empty, the temporary folder removed. It returns false, and does nothing,
+// when Commit has already kept them.
 func (f *Files) Abort() bool {
 	f.mu.Lock()
 	defer f.mu.Unlock()
