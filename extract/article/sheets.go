@@ -34,21 +34,35 @@ const maxSheetName = 31
 // one "table …" sheet per correlation table (in that order, the order in
 // which ImportWorkbook makes them as it streams).
 func (r *Result) Sheets() []extract.TextSheet {
-	coefs := [][]string{coefficientHeader}
-	claims := [][]string{claimHeader}
-	confirm := [][]string{confirmHeader}
-	var tables []extract.TextSheet
-	used := usedSheetNames()
+	var sheets []*memorySheet
+	l, _ := newSheetLayout(func(name string, header []string) (sheetWriter, error) {
+		s := &memorySheet{TextSheet: extract.TextSheet{Name: name}}
+		if header != nil {
+			s.Rows = [][]string{header}
+		}
+		sheets = append(sheets, s)
+		return s, nil
+	})
 	for _, f := range r.Articles {
-		coefs = append(coefs, coefficientRows(f)...)
-		claims = append(claims, claimRows(f)...)
-		tables = append(tables, tableSheets(f, used)...)
-		confirm = append(confirm, confirmRows(f)...)
+		l.article(f) // a sheet in memory takes every row
 	}
-	confirm = append(confirm, failedRows(r.Failed)...)
-	out := []extract.TextSheet{{Name: "coefficients", Rows: coefs}, {Name: "claims", Rows: claims}, {Name: ToConfirmSheet, Rows: confirm}}
-	return append(out, tables...)
+	l.finish(r.Failed, true)
+	out := make([]extract.TextSheet, len(sheets))
+	for i, s := range sheets {
+		out[i] = s.TextSheet
+	}
+	return out
 }
+
+// memorySheet is a sheet of Sheets, its rows held.
+type memorySheet struct{ extract.TextSheet }
+
+func (m *memorySheet) write(rows [][]string) error {
+	m.Rows = append(m.Rows, rows...)
+	return nil
+}
+
+func (m *memorySheet) close() error { return nil }
 
 // usedSheetNames are the names of the sheets every import writes, which a
 // table's sheet may not take.

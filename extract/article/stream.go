@@ -161,79 +161,104 @@ func ImportWorkbook(files []string, stdin io.Reader, progress func(done, total i
 	return res, extract.WriteXLSX(f, w)
 }
 
-// importSheets reads every file as Import does and hands the rows of the
-// sheets Sheets lays out to sheets made by open (header nil for a table's
-// sheet, whose rows are all its own), an article's rows as soon as it is
-// read. The coefficients, claims and to confirm sheets are open for the
-// whole import; a table's sheet is finished at once, so that what is open
-// stays three however many tables there are. An error of open or of a
-// write ends the import; every sheet opened is closed in any case.
+// importSheets reads every file as Import does and hands the sheets
+// Sheets lays out to sheets made by open (sheetLayout), an article's rows
+// as soon as it is read. An error of open or of a write ends the import;
+// every sheet opened is closed in any case.
 func importSheets(files []string, stdin io.Reader, progress func(done, total int), open func(sheet string, header []string) (sheetWriter, error)) (*Result, error) {
-	var opened []sheetWriter
-	closeAll := func() error {
-		var first error
-		for _, s := range opened {
-			if err := s.close(); err != nil && first == nil {
-				first = err
-			}
-		}
-		return first
+	l, err := newSheetLayout(open)
+	if err != nil {
+		return nil, err
 	}
-	var main [3]sheetWriter
-	for i, s := range []struct {
-		name   string
-		header []string
-	}{{"coefficients", coefficientHeader}, {"claims", claimHeader}, {ToConfirmSheet, confirmHeader}} {
-		w, err := open(s.name, s.header)
-		if w != nil {
-			opened = append(opened, w)
-		}
-		if err != nil {
-			closeAll()
-			return nil, err
-		}
-		main[i] = w
-	}
-	coefs, claims, confirm := main[0], main[1], main[2]
 	res := &Result{}
-	used := usedSheetNames()
-	var err error
 	importEach(files, stdin, progress, func(file string, f *Found, ferr error) bool {
 		if ferr != nil {
 			res.Failed = append(res.Failed, &Failure{File: file, Err: ferr, Message: ferr.Error()})
 			return true
 		}
 		res.Articles = append(res.Articles, &Found{File: f.File, Format: f.Format, Study: f.Study, ConfirmCount: len(f.ToConfirm)})
-		if err = coefs.write(coefficientRows(f)); err != nil {
-			return false
-		}
-		if err = claims.write(claimRows(f)); err != nil {
-			return false
-		}
-		for _, s := range tableSheets(f, used) {
-			var t sheetWriter
-			if t, err = open(s.Name, nil); err != nil {
-				return false
-			}
-			if err = t.write(s.Rows); err != nil {
-				t.close()
-				return false
-			}
-			if err = t.close(); err != nil {
-				return false
-			}
-		}
-		err = confirm.write(confirmRows(f))
+		err = l.article(f)
 		return err == nil
 	})
-	if err == nil {
-		err = confirm.write(failedRows(res.Failed))
-	}
-	if cerr := closeAll(); err == nil {
-		err = cerr
+	if ferr := l.finish(res.Failed, err == nil); err == nil {
+		err = ferr
 	}
 	if err != nil {
 		return nil, err
 	}
 	return res, nil
+}
+
+// sheetLayout lays articles out as the sheets of the input contract, for
+// Sheets and for the imports that write as they read: the coefficients,
+// claims and to confirm sheets, open from the start to the finish, and a
+// sheet of its own for each correlation table, made by open (header nil:
+// a table's rows are all its own) and finished at once, so that what is
+// open stays three however many tables there are.
+type sheetLayout struct {
+	open                   func(sheet string, header []string) (sheetWriter, error)
+	coefs, claims, confirm sheetWriter
+	opened                 []sheetWriter
+	used                   map[string]bool // sheet names taken
+}
+
+// newSheetLayout opens the three sheets every import writes; on an error
+// it closes what it opened.
+func newSheetLayout(open func(sheet string, header []string) (sheetWriter, error)) (*sheetLayout, error) {
+	l := &sheetLayout{open: open, used: usedSheetNames()}
+	for _, s := range []struct {
+		w      *sheetWriter
+		name   string
+		header []string
+	}{{&l.coefs, "coefficients", coefficientHeader}, {&l.claims, "claims", claimHeader}, {&l.confirm, ToConfirmSheet, confirmHeader}} {
+		w, err := open(s.name, s.header)
+		if w != nil {
+			l.opened = append(l.opened, w)
+		}
+		if err != nil {
+			l.finish(nil, false)
+			return nil, err
+		}
+		*s.w = w
+	}
+	return l, nil
+}
+
+// article writes an article's rows.
+func (l *sheetLayout) article(f *Found) error {
+	if err := l.coefs.write(coefficientRows(f)); err != nil {
+		return err
+	}
+	if err := l.claims.write(claimRows(f)); err != nil {
+		return err
+	}
+	for _, s := range tableSheets(f, l.used) {
+		t, err := l.open(s.Name, nil)
+		if err != nil {
+			return err
+		}
+		if err := t.write(s.Rows); err != nil {
+			t.close()
+			return err
+		}
+		if err := t.close(); err != nil {
+			return err
+		}
+	}
+	return l.confirm.write(confirmRows(f))
+}
+
+// finish ends the to confirm sheet with the files not read, when write,
+// and closes the sheets, returning the first error.
+func (l *sheetLayout) finish(failed []*Failure, write bool) error {
+	var first error
+	if write {
+		first = l.confirm.write(failedRows(failed))
+	}
+	for _, s := range l.opened {
+		if err := s.close(); err != nil && first == nil {
+			first = err
+		}
+	}
+	return first
 }
