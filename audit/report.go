@@ -46,80 +46,81 @@ var nan = Number(math.NaN())
 
 // Side is one of the two coefficients of a claim, as the report shows it.
 type Side struct {
-	Label    string `json:"label"`
-	Estimate Number `json:"estimate"`
-	SE       Number `json:"se"`
-	SEFrom   string `json:"se_from"`
+	Label    string
+	Estimate Number
+	SE       Number
+	SEFrom   string
 }
 
 // OverlapResult is the confidence-interval overlap of the two estimates.
 type OverlapResult struct {
-	Proportion Number `json:"proportion"`
-	ImpliedP   Number `json:"implied_p"`
+	Proportion Number
+	ImpliedP   Number
 	// marginRatio is the larger facing margin of error over the smaller.
 	marginRatio float64
 }
 
 // Alternative is a second method's result for the same comparison.
 type Alternative struct {
-	Method    string `json:"method"`
-	Statistic Number `json:"statistic"`
-	P         Number `json:"p"`
+	Method    string
+	Statistic Number
+	P         Number
 }
 
-// ClaimResult is the audit of one claims row.
+// ClaimResult is the audit of one claims row. Package report writes it in
+// every format; the JSON contract's names are report's jsonClaim.
 type ClaimResult struct {
-	Study string `json:"study"`
-	Claim string `json:"claim"`
-	Row   int    `json:"row"`
+	Study string
+	Claim string
+	Row   int
 	// Index is the claim's place among the input's claims rows, from 0.
-	Index        int            `json:"-"`
-	First        Side           `json:"first"`
-	Second       Side           `json:"second"`
-	Relation     string         `json:"relation"`
-	Method       string         `json:"method"`
-	Difference   Number         `json:"difference"`
-	DifferenceSE Number         `json:"difference_se"`
-	DifferenceCI [2]Number      `json:"difference_ci"`
-	Statistic    Number         `json:"statistic"`
-	DF           Number         `json:"df"`
-	P            Number         `json:"p"`
-	PRange       [2]Number      `json:"p_range"`
-	Published    string         `json:"published"`
-	Recomputed   string         `json:"recomputed"`
-	Outcome      string         `json:"outcome"`
-	Notes        []string       `json:"notes"`
-	Overlap      *OverlapResult `json:"overlap"`
+	Index        int
+	First        Side
+	Second       Side
+	Relation     string
+	Method       string
+	Difference   Number
+	DifferenceSE Number
+	DifferenceCI [2]Number
+	Statistic    Number
+	DF           Number
+	P            Number
+	PRange       [2]Number
+	Published    string
+	Recomputed   string
+	Outcome      string
+	Notes        []string
+	Overlap      *OverlapResult
 	// TippingCorr holds the sampling correlation of the two estimates at
 	// which the verdict flips, for a claim indeterminate because that
 	// correlation was not printed.
-	TippingCorr  []Number      `json:"tipping_corr,omitempty"`
-	Alternatives []Alternative `json:"alternatives,omitempty"`
+	TippingCorr  []Number
+	Alternatives []Alternative
 
 	// Alpha is the claim's significance level; Basis how the paper reached
 	// its verdict; Measure the coefficients' measure. Shown in tables and CSV.
-	Alpha   float64 `json:"-"`
-	Basis   string  `json:"-"`
-	Measure string  `json:"-"`
+	Alpha   float64
+	Basis   string
+	Measure string
 	// Scale is the scale the difference is on ("log" for ratio measures).
-	Scale string `json:"-"`
+	Scale string
 	// PoolEstimate and PoolSE are the difference and its SE on the scale
 	// claims are pooled on (PoolScale): the analysis scale for coefficients
 	// (log for ratio measures), Fisher's z for correlations. NaN when the
 	// claim's difference has no SE (an unknown covariance, or incomplete).
-	PoolEstimate, PoolSE Number `json:"-"`
-	PoolScale            string `json:"-"`
+	PoolEstimate, PoolSE Number
+	PoolScale            string
 	// AdjustedP holds the claim's p adjusted within its study; nil when the
 	// claim has no p.
-	AdjustedP *AdjustedPValues `json:"p_adjusted,omitempty"`
+	AdjustedP *AdjustedPValues
 	// Unreadable is true when the claims row itself could not be read.
-	Unreadable bool `json:"-"`
+	Unreadable bool
 	// Topic is the claim's topic; claims sharing one are pooled.
-	Topic string `json:"-"`
+	Topic string
 	// ExtraNames and ExtraValues are the claims row's unknown columns,
 	// passed through to the CSV output.
-	ExtraNames  []string `json:"-"`
-	ExtraValues []string `json:"-"`
+	ExtraNames  []string
+	ExtraValues []string
 
 	// dec is what the outcome is decided from, once the multiplicity
 	// adjustment is known, when decided (held by value: it is set for
@@ -146,8 +147,8 @@ type ClaimResult struct {
 // of its study: Holm's step-down (Holm 1979) and Benjamini–Hochberg's
 // step-up (Benjamini & Hochberg 1995).
 type AdjustedPValues struct {
-	BH   Number `json:"bh"`
-	Holm Number `json:"holm"`
+	BH   Number
+	Holm Number
 }
 
 // By returns the p adjusted by method (AdjustHolm or AdjustBH).

@@ -17,14 +17,15 @@ import (
 //	{…}
 //	],"summary":{"claims":N,"consistent":…},"problems":[…]}
 //
-// Each claim is one line, encoded by encoding/json from audit.ClaimResult's
-// tags (numbers that are not known are null); the summary and the problems,
+// Each claim is one line, encoded by encoding/json from jsonClaim (numbers
+// that are not known are null); the summary and the problems,
 // known only at the end, follow the claims. HTML characters are not
 // escaped: the document is data, not a page.
 type jsonWriter struct {
 	bw       *bufio.Writer
 	buf      bytes.Buffer // one encoded claim
 	enc      *json.Encoder
+	claim    jsonClaimBuffer
 	claims   int
 	problems heldProblems
 }
@@ -66,7 +67,7 @@ func (j *jsonWriter) Study(res audit.StudyResult) error {
 		}
 		j.claims++
 		j.bw.WriteString(sep)
-		if err := j.encode(&res.Claims[i]); err != nil {
+		if err := j.encode(j.claim.set(&res.Claims[i])); err != nil {
 			return err
 		}
 	}
