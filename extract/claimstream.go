@@ -45,9 +45,14 @@ func openSheets(s *inputSheets) (*Source, error) {
 	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close),
 		claimRows: claims, coefficientRows: len(held.rows), counted: true}
 	src.studies = func(yield func(*Study, error) bool) {
-		c := counts
-		counts = nil // spent by the assembler: the sequence is ranged once
-		streamClaims(s, sheet, c, newRowIndex(in, held), yield)
+		// The sequence is ranged once: the counts are spent by the
+		// assembler, and the input's other sheets by the index, which goes
+		// when the sequence ends. Kept for the writer's end, they took the
+		// xlsx report of BenchmarkReadWorkbook100k's workbook past its
+		// memory target (/usr/bin/time -v).
+		c, idx := counts, newRowIndex(in, held)
+		counts, in, held = nil, nil, nil
+		streamClaims(s, sheet, c, idx, yield)
 	}
 	return src, nil
 }

@@ -33,12 +33,14 @@ import (
 // numeric cells with fixed formats (p to 4 decimals, in scientific
 // notation below 0.0001).
 //
-// Every sheet is written with excelize's StreamWriter. The claims and
-// methods sheets are written as the claims arrive; the input sheets, the
-// problems and a count per study are held until End (the coefficients
-// sheet's header names the unknown columns of every coefficient row, known
-// only then; heldCoefficients keeps the rows in a temporary file), so that
-// memory grows with neither the claims nor the coefficients. The report
+// Every sheet is written with excelize's StreamWriter, which keeps each
+// sheet's buffer until the workbook is written. The claims sheet is
+// written as the claims arrive; the methods paragraphs (heldMethods) and
+// the input's coefficients (heldCoefficients) wait in temporary files, the
+// other input sheets, the problems and a count per study in memory, until
+// End (the coefficients sheet's header names the unknown columns of every
+// coefficient row, known only then), so that memory grows with neither
+// the claims nor the coefficients. The report
 // holds at most MaxXLSXClaims claims, and a sheet at most 1,048,575 rows
 // below its header (ErrSheetFull, for an input whose coefficients alone
 // pass it).
@@ -55,7 +57,8 @@ type xlsxWriter struct {
 	h      Header
 
 	claims, methods *xlsxSheet
-	extra           []string // the claims rows' unknown columns, in the claims sheet
+	extra           []string    // the claims rows' unknown columns, in the claims sheet
+	methodRows      heldMethods // the methods sheet's rows, written at End
 
 	// inputs are the claims rows of the studies handed to Input and not
 	// yet written, by Index.
@@ -78,7 +81,7 @@ type xlsxWriter struct {
 // tmpDir (the system's temporary folder when empty).
 func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
 	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{},
-		coefficients: heldCoefficients{dir: tmpDir}, maxClaims: MaxXLSXClaims}
+		coefficients: heldCoefficients{dir: tmpDir}, methodRows: heldMethods{dir: tmpDir}, maxClaims: MaxXLSXClaims}
 }
 
 // Begin implements Writer: the workbook, its styles, and the headers of
@@ -200,13 +203,8 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 		if err := x.claims.commentBad(bad); err != nil {
 			return fmt.Errorf("xlsx report, sheet %q: %w", "claims", err)
 		}
-		methods := strings.TrimSpace(methodsText(c))
-		cell := any(excelize.Cell{StyleID: st.wrap, Value: methods})
-		if methods == "" {
-			cell = excelize.Cell{StyleID: st.note, Value: "No methods paragraph was written for this claim; its notes are on the claims sheet."}
-		}
-		if err := x.methods.add(excelize.Cell{StyleID: st.count, Value: c.Row}, st.textCell(c.Study), st.textCell(c.Claim),
-			st.outcomeCell(c.Outcome), cell); err != nil {
+		if err := x.methodRows.add(methodsRow{Row: c.Row, Study: c.Study, Claim: c.Claim, Outcome: c.Outcome,
+			Methods: strings.TrimSpace(methodsText(c))}); err != nil {
 			return fmt.Errorf("xlsx report, sheet %q: %w", "methods", err)
 		}
 	}
@@ -218,6 +216,7 @@ func (x *xlsxWriter) Study(res audit.StudyResult) error {
 // before End must (Check and Write do).
 func (x *xlsxWriter) Close() error {
 	x.coefficients.close()
+	x.methodRows.close()
 	if x.f == nil {
 		return nil
 	}
@@ -241,7 +240,7 @@ func (x *xlsxWriter) End(f Footer) error {
 		{x.claims, func(s *xlsxSheet) error {
 			return s.filter(len(claimInputColumns) + len(x.extra) + len(claimResultColumns))
 		}},
-		{x.methods, x.methodsCautions},
+		{x.methods, x.writeMethods},
 	}
 	add := func(name string, write func(*xlsxSheet) error) error {
 		s, err := x.sheet(name)
@@ -250,7 +249,14 @@ func (x *xlsxWriter) End(f Footer) error {
 		}
 		return err
 	}
-	if err := add("summary", func(s *xlsxSheet) error { return x.writeSummary(s, f.Summary, len(problems)) }); err != nil {
+	if err := add("summary", func(s *xlsxSheet) error {
+		err := x.writeSummary(s, f.Summary, len(problems))
+		// Written: the sheets after it need the memory. Kept, the counts
+		// took the xlsx report of BenchmarkReadWorkbook100k's workbook of
+		// 140,000 claims to its memory target (/usr/bin/time -v).
+		x.tally = tallies{}
+		return err
+	}); err != nil {
 		return err
 	}
 	if x.shownInput {
@@ -319,8 +325,21 @@ func (x *xlsxWriter) claimsHeader() error {
 	return x.claims.header(x.st, names, len(claimInputColumns)+len(x.extra))
 }
 
-// methodsCautions ends the methods sheet with the cautions.
-func (x *xlsxWriter) methodsCautions(s *xlsxSheet) error {
+// writeMethods writes the methods sheet's rows, held until the end, and
+// the cautions after them.
+func (x *xlsxWriter) writeMethods(s *xlsxSheet) error {
+	st := x.st
+	err := x.methodRows.each(func(r methodsRow) error {
+		cell := any(excelize.Cell{StyleID: st.wrap, Value: r.Methods})
+		if r.Methods == "" {
+			cell = excelize.Cell{StyleID: st.note, Value: "No methods paragraph was written for this claim; its notes are on the claims sheet."}
+		}
+		return s.add(excelize.Cell{StyleID: st.count, Value: r.Row}, st.textCell(r.Study), st.textCell(r.Claim),
+			st.outcomeCell(r.Outcome), cell)
+	})
+	if err != nil {
+		return err
+	}
 	if err := s.add(); err != nil {
 		return err
 	}

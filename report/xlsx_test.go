@@ -440,6 +440,41 @@ func TestHeldCoefficientsInAFile(t *testing.T) {
 	}
 }
 
+// TestHeldMethodsInAFile: the methods sheet's rows wait for the end of
+// the xlsx report in a temporary file of the writer's folder, are read
+// back as written (a "\r\n", which a CSV reader would change, and empty
+// texts included), and close removes the file.
+func TestHeldMethodsInAFile(t *testing.T) {
+	dir := t.TempDir()
+	h := heldMethods{dir: dir}
+	defer h.close()
+	rows := []methodsRow{
+		{Row: 7, Study: "Quillon 2026", Claim: "c1", Outcome: audit.Consistent, Methods: "Fisher's z,\r\n\"two-sided\"."},
+		{Row: 8, Outcome: audit.Incomplete},
+		{Row: 9, Study: "Quillon 2026", Claim: "c3", Outcome: audit.Consistent, Methods: "x"},
+	}
+	for _, r := range rows {
+		if err := h.add(r); err != nil {
+			t.Fatal(err)
+		}
+	}
+	files, _ := filepath.Glob(filepath.Join(dir, "*"))
+	if len(files) != 1 {
+		t.Fatalf("files in the writer's folder: %v, want the held methods' one", files)
+	}
+	var got []methodsRow
+	if err := h.each(func(r methodsRow) error { got = append(got, r); return nil }); err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(got, rows) {
+		t.Errorf("read back %#v, want %#v", got, rows)
+	}
+	h.close()
+	if files, _ := filepath.Glob(filepath.Join(dir, "*")); len(files) != 0 {
+		t.Errorf("close left %v", files)
+	}
+}
+
 // TestXLSXRefusesCountedInputAtBegin: an input whose rows were counted
 // when it was opened is refused by Begin, before any of it is audited,
 // when its claims pass the limit or its coefficients a sheet's rows; at
