@@ -156,11 +156,12 @@ func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, r
 	} else if others := a.otherSamples(c1.Study); len(others) > 0 {
 		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q would settle it", strings.Join(others, "; "), need, c1.Group)
 	}
-	sample := fmt.Sprintf("One sample (study %q, group %q)", c1.Study, c1.Group)
-	if c1.Sheet == "" {
-		sample = "One sample" // typed, not read from a workbook
+	// The study is on the claim's row in every report; the group is not.
+	sample := "One sample"
+	if c1.Group != "" {
+		sample = fmt.Sprintf("One sample (group %q)", c1.Group)
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("%s, covariance not printed: p is taken over every admissible correlation of the two estimates, −1 to 1; %s.", sample, settle))
+	r.Notes = append(r.Notes, fmt.Sprintf("%s, covariance not printed: p is taken over every admissible correlation of the two estimates; %s.", sample, settle))
 	if c1.Group == "" && c1.Sheet != "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

@@ -85,7 +85,7 @@ func (tp tipping) note(r *ClaimResult) string {
 	if !tp.above {
 		side, other = "below", "above"
 	}
-	s := fmt.Sprintf("At the printed values the difference is significant at α = %s if the two estimates correlate %s %s, and not %s it (the tipping correlation); the paper did not print their correlation.",
+	s := fmt.Sprintf("At the printed values the difference is significant at α = %s if the two estimates correlate %s %s, not %s (the tipping correlation).",
 		FormatAlpha(r.Alpha), side, formatTippingCorr(tp.rho), other)
 	if math.IsNaN(tp.implied) {
 		return s

@@ -106,7 +106,7 @@ func (k rangeKind) phrase() string {
 	case rangeGrid:
 		return "Within the rounding of the printed numbers (evaluated on a grid of their extremes and midpoints) p"
 	case rangeAdmissible:
-		return "Over every admissible correlation of the two estimates and the rounding of the printed numbers, p"
+		return "Over every admissible correlation of the two estimates and the rounding, p"
 	}
 	return "Within the rounding of the printed numbers p"
 }
@@ -182,7 +182,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges %s, on both sides of α = %s: whether the verdict stands turns on what the paper did not print.",
+		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges %s, on both sides of α = %s: the verdict turns on what was not printed.",
 			dc.how.phrase(), PSpan(pr.Lo, pr.Hi), FormatAlpha(r.Alpha)))
 		if r.hasTip {
 			r.TippingCorr = []Number{Number(r.tip.rho)}
