@@ -44,25 +44,17 @@ type pairedCells struct {
 // BenchmarkPairedFileGocsv maps the rows of BenchmarkPairedFile's file into
 // pairedCells with gocsv, and nothing more.
 func BenchmarkPairedFileGocsv(b *testing.B) {
-	path := writeBenchPaired(b, benchPairedRows)
-	b.ReportAllocs()
-	rows := 0
-	m := startPerRow()
-	for b.Loop() {
-		f, err := os.Open(path)
-		if err != nil {
-			b.Fatal(err)
-		}
-		err = gocsv.UnmarshalToCallback(bufio.NewReaderSize(f, csvBufferSize), func(c pairedCells) {
+	benchPairedPasses(b, func(f *os.File) int {
+		rows := 0
+		err := gocsv.UnmarshalToCallback(bufio.NewReaderSize(f, csvBufferSize), func(c pairedCells) {
 			if c.Study == "" {
 				b.Fatalf("row %d has no study", rows+2)
 			}
 			rows++
 		})
-		f.Close()
 		if err != nil {
 			b.Fatal(err)
 		}
-	}
-	m.report(b, rows)
+		return rows
+	})
 }
