@@ -57,8 +57,8 @@ type xlsxWriter struct {
 	h      Header
 
 	claims, methods *xlsxSheet
-	extra           []string    // the claims rows' unknown columns, in the claims sheet
-	methodRows      heldMethods // the methods sheet's rows, written at End
+	extra           []string          // the claims rows' unknown columns, in the claims sheet
+	methodRows      spool[methodsRow] // the methods sheet's rows, written at End
 
 	// inputs are the claims rows of the studies handed to Input and not
 	// yet written, by Index.
@@ -81,7 +81,7 @@ type xlsxWriter struct {
 // tmpDir (the system's temporary folder when empty).
 func newXLSXWriter(w io.Writer, tmpDir string) *xlsxWriter {
 	return &xlsxWriter{w: w, tmpDir: tmpDir, inputs: map[int]*extract.Claim{}, seenRow: map[extract.Position]bool{}, seenTable: map[string]bool{},
-		coefficients: heldCoefficients{dir: tmpDir}, methodRows: heldMethods{dir: tmpDir}, maxClaims: MaxXLSXClaims}
+		coefficients: heldCoefficients{records: spool[[]string]{dir: tmpDir, what: "the input's coefficients"}}, methodRows: spool[methodsRow]{dir: tmpDir, what: "the methods sheet"}, maxClaims: MaxXLSXClaims}
 }
 
 // Begin implements Writer: the workbook, its styles, and the headers of

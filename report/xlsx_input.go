@@ -1,11 +1,6 @@
 package report
 
 import (
-	"bufio"
-	"encoding/csv"
-	"fmt"
-	"io"
-	"os"
 	"strconv"
 	"strings"
 
@@ -24,59 +19,32 @@ var (
 
 // heldCoefficients keeps the coefficients rows of the input until the
 // workbook's end, when their sheet's header can name every pass-through
-// column: each row as one CSV record in a temporary file of dir (the
-// system's temporary folder when empty), its cells as printed, its sheet
-// and row, then its unknown columns as name and value pairs. Why a file:
+// column: each row as one record in a spool (a temporary file), its cells
+// as printed, its sheet and row, then its unknown columns as name and value
+// pairs. Why a file:
 // held in memory, even packed so (some 70 bytes a row, a fifth of the
 // coefficient it came from), they took the xlsx report of 500,000 paired
 // claims to 291 MB (/usr/bin/time -v), and the report is to hold as many
 // claims as a sheet has rows within 150 MB.
 type heldCoefficients struct {
-	dir   string
-	file  *os.File
-	w     *csv.Writer // buffered, over file
-	rows  int
-	extra []string        // the unknown columns, in first-seen order
-	seen  map[string]bool // their names, lower case, and the sheet's own
+	records spool[[]string]
+	rows    int
+	extra   []string        // the unknown columns, in first-seen order
+	seen    map[string]bool // their names, lower case, and the sheet's own
 	// bad holds the cells of a row that could not be read, by the row's
 	// place among the held rows; only rows with such cells are in it.
 	bad map[int][]badCell
 }
 
 // close removes the temporary file.
-func (h *heldCoefficients) close() {
-	if h.file != nil {
-		h.file.Close()
-		os.Remove(h.file.Name())
-		h.file = nil
-	}
-}
-
-// records returns a reader of the held records from the first.
-func (h *heldCoefficients) records() (*csv.Reader, error) {
-	h.w.Flush()
-	if err := h.w.Error(); err != nil {
-		return nil, err
-	}
-	if _, err := h.file.Seek(0, io.SeekStart); err != nil {
-		return nil, err
-	}
-	r := csv.NewReader(bufio.NewReader(h.file))
-	r.FieldsPerRecord = -1
-	return r, nil
-}
+func (h *heldCoefficients) close() { h.records.close() }
 
 // heldSheetPosition is the number of cells before a record's pass-through
 // pairs: the sheet's input columns, then the row's sheet and row number.
 const heldSheetPosition = 16
 
 func (h *heldCoefficients) add(c *extract.Coefficient) error {
-	if h.w == nil {
-		f, err := os.CreateTemp(h.dir, "coefficients-*.csv")
-		if err != nil {
-			return fmt.Errorf("a temporary file for the input's coefficients: %w", err)
-		}
-		h.file, h.w = f, csv.NewWriter(f)
+	if h.seen == nil {
 		h.seen = nameSet(coefficientInputColumns, rowResultColumns)
 	}
 	level := ""
@@ -105,7 +73,7 @@ func (h *heldCoefficients) add(c *extract.Coefficient) error {
 		}
 	}
 	h.rows++
-	return h.w.Write(rec)
+	return h.records.add(rec)
 }
 
 // writeCoefficientsSheet writes the first of the xlsx report's input
@@ -123,21 +91,9 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 	if err := s.header(st, names, len(coefficientInputColumns)+len(held.extra)); err != nil {
 		return err
 	}
-	if held.w == nil {
-		return nil
-	}
-	r, err := held.records()
-	if err != nil {
-		return err
-	}
-	for k := 0; ; k++ {
-		rec, err := r.Read()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			return err
-		}
+	k := -1
+	err := held.records.each(func(rec []string) error {
+		k++
 		row := make([]any, 0, len(names))
 		for _, cell := range rec[:heldSheetPosition] {
 			row = append(row, st.textCell(cell))
@@ -154,9 +110,10 @@ func writeCoefficientsSheet(s *xlsxSheet, st *xlsxStyles, held *heldCoefficients
 		if err := s.add(row...); err != nil {
 			return err
 		}
-		if err := s.commentBad(held.bad[k]); err != nil {
-			return err
-		}
+		return s.commentBad(held.bad[k])
+	})
+	if err != nil {
+		return err
 	}
 	return s.filter(len(names))
 }

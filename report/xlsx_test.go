@@ -406,14 +406,15 @@ func TestXLSXClaimLimit(t *testing.T) {
 
 // TestHeldCoefficientsInAFile: the input's coefficients wait for the end
 // of the xlsx report in a temporary file of the writer's folder, not in
-// memory, are read back as written (a cell with a comma, a quote and a
-// line break included), and close removes the file.
+// memory, are read back as written (a cell with a comma, a quote and line
+// breaks, "\r\n" included, which a CSV reader would change), and close
+// removes the file.
 func TestHeldCoefficientsInAFile(t *testing.T) {
 	dir := t.TempDir()
-	h := heldCoefficients{dir: dir}
+	h := heldCoefficients{records: spool[[]string]{dir: dir, what: "coefficients"}}
 	defer h.close()
 	c := extract.Coefficient{Position: extract.Position{Sheet: "coefficients", Row: 7}, Study: "Quillon 2026",
-		Label: "sleep, \"hours\"\nweekdays", Measure: "b", Estimate: extract.Printed{Text: "0.41"}}
+		Label: "sleep, \"hours\"\nweekdays\r\nweekends", Measure: "b", Estimate: extract.Printed{Text: "0.41"}}
 	for range 3 {
 		if err := h.add(&c); err != nil {
 			t.Fatal(err)
@@ -423,12 +424,8 @@ func TestHeldCoefficientsInAFile(t *testing.T) {
 	if len(files) != 1 {
 		t.Fatalf("files in the writer's folder: %v, want the held coefficients' one", files)
 	}
-	r, err := h.records()
-	if err != nil {
-		t.Fatal(err)
-	}
-	recs, err := r.ReadAll()
-	if err != nil {
+	var recs [][]string
+	if err := h.records.each(func(rec []string) error { recs = append(recs, rec); return nil }); err != nil {
 		t.Fatal(err)
 	}
 	if len(recs) != 3 || recs[2][1] != c.Label || recs[2][7] != "0.41" || recs[2][heldSheetPosition+1] != "7" {
@@ -440,13 +437,16 @@ func TestHeldCoefficientsInAFile(t *testing.T) {
 	}
 }
 
-// TestHeldMethodsInAFile: the methods sheet's rows wait for the end of
-// the xlsx report in a temporary file of the writer's folder, are read
-// back as written (a "\r\n", which a CSV reader would change, and empty
-// texts included), and close removes the file.
-func TestHeldMethodsInAFile(t *testing.T) {
+// TestSpoolMethodsRows: the methods sheet's rows are read back from their
+// spool as written ("\r\n" and empty texts included), an empty spool makes
+// no file and reads as nothing, and close removes the file.
+func TestSpoolMethodsRows(t *testing.T) {
 	dir := t.TempDir()
-	h := heldMethods{dir: dir}
+	empty := spool[methodsRow]{dir: dir, what: "methods"}
+	if err := empty.each(func(methodsRow) error { t.Error("an empty spool gave a row"); return nil }); err != nil {
+		t.Fatal(err)
+	}
+	h := spool[methodsRow]{dir: dir, what: "methods"}
 	defer h.close()
 	rows := []methodsRow{
 		{Row: 7, Study: "Quillon 2026", Claim: "c1", Outcome: audit.Consistent, Methods: "Fisher's z,\r\n\"two-sided\"."},
@@ -460,7 +460,7 @@ func TestHeldMethodsInAFile(t *testing.T) {
 	}
 	files, _ := filepath.Glob(filepath.Join(dir, "*"))
 	if len(files) != 1 {
-		t.Fatalf("files in the writer's folder: %v, want the held methods' one", files)
+		t.Fatalf("files in the writer's folder: %v, want the spool's one", files)
 	}
 	var got []methodsRow
 	if err := h.each(func(r methodsRow) error { got = append(got, r); return nil }); err != nil {
