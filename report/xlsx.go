@@ -35,8 +35,8 @@ import (
 //
 // Every sheet is written with excelize's StreamWriter, which keeps each
 // sheet's buffer until the workbook is written. The claims sheet is
-// written as the claims arrive; the methods paragraphs (heldMethods) and
-// the input's coefficients (heldCoefficients) wait in temporary files, the
+// written as the claims arrive; the methods sheet's rows (methodsRow) and
+// the input's coefficients (heldCoefficients) wait in spools, the
 // other input sheets, the problems and a count per study in memory, until
 // End (the coefficients sheet's header names the unknown columns of every
 // coefficient row, known only then), so that memory grows with neither
