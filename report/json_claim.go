@@ -70,11 +70,8 @@ func (h *jsonClaimBuffer) of(x audit.Number) *float64 {
 	if !x.Known() {
 		return nil
 	}
-	if len(h.held) == cap(h.held) {
-		// A full slice is not grown: pointers already handed out point into
-		// it, so a new one is started.
-		h.held = make([]float64, 0, max(32, 2*cap(h.held)))
-	}
+	// When append moves the slice, the pointers handed out before still
+	// point at their values in the old array, which they keep alive.
 	h.held = append(h.held, float64(x))
 	return &h.held[len(h.held)-1]
 }
