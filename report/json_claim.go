@@ -4,7 +4,7 @@ import "coefaudit/audit"
 
 // jsonClaim is one claim as the JSON contract (DESIGN.md) shows it. Its
 // numbers are pointers, nil for a number that is not known (null), into the
-// writer's jsonNumbers: encoding/json writes a *float64 itself, but an
+// writer's jsonClaimBuffer: encoding/json writes a *float64 itself, but an
 // audit.Number through its MarshalJSON and a second scan of what that
 // returned, which kept BenchmarkCheckMillionJSON off its aim.
 type jsonClaim struct {
