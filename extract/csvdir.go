@@ -178,12 +178,27 @@ func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error
 	if why := notText(head); why != "" {
 		return nil, fmt.Errorf("%s %s; save it as CSV UTF-8: %w", file, why, ErrUnsupportedInput)
 	}
-	cr := csv.NewReader(br)
-	cr.Comma = sniffDelimiter(head)
+	return &csvSource{file: file, lim: lim, r: newCSVReader(br, sniffDelimiter(head)), closer: closer}, nil
+}
+
+// newCSVReader reads CSV records from r as every csvSource does: strict
+// quotes, ragged rows, records reused.
+func newCSVReader(r io.Reader, comma rune) *csv.Reader {
+	cr := csv.NewReader(r)
+	cr.Comma = comma
 	cr.FieldsPerRecord = -1
 	cr.ReuseRecord = true
 	cr.LazyQuotes = false
-	return &csvSource{file: file, lim: lim, r: cr, closer: closer}, nil
+	return cr
+}
+
+// csvPart reads the records of a part of a CSV file that starts at a line
+// end, not at the file's start: no byte order mark or delimiter to find,
+// the delimiter is the header's (comma), and line numbers count from the
+// part's start, so that it is used where no position is reported.
+func csvPart(r io.Reader, file string, comma rune) *csvSource {
+	lim := &limitReader{r: &lineEndReader{r: r}, line: 1}
+	return &csvSource{file: file, lim: lim, r: newCSVReader(bufio.NewReaderSize(lim, csvBufferSize), comma)}
 }
 
 // notText says why the first bytes of a file are not text, or returns "".

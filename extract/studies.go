@@ -1,14 +1,11 @@
 package extract
 
 import (
-	"encoding/csv"
 	"errors"
 	"fmt"
-	"hash/maphash"
 	"io"
 	"iter"
 	"os"
-	"slices"
 	"strings"
 )
 
@@ -336,117 +333,4 @@ func yieldPaired(st *Study, yield func(*Study, error) bool) bool {
 func yieldChecked(st *Study, yield func(*Study, error) bool) bool {
 	checkDuplicateClaims(st.Claims)
 	return yield(st, nil)
-}
-
-// countPaired is the first pass over a paired CSV: the claims rows of each
-// study, the claims' unknown columns and the header's problems. It reads
-// the study cell of each row and parses nothing else.
-//
-// It also finds whether studies interleave, and, when they do, which claim
-// keys may be used twice (repeatedKeys), so that the pieces (Source.
-// Pieces) need hold only those keys to find duplicates across a study.
-func countPaired(path string) (counts map[string]int, interleaved bool, repeated *repeatedKeys, extra []string, problems []*CellError, err error) {
-	pr, f, err := openPairedReader(path)
-	if err != nil {
-		return nil, false, nil, nil, nil, err
-	}
-	defer f.Close()
-	rows := rowCounts{}
-	last := ""
-	keys := &repeatedKeys{seed: maphash.MakeSeed()}
-	var hashes []uint64
-	for {
-		study, claim, err := pr.nextKey()
-		if errors.Is(err, io.EOF) {
-			break
-		}
-		if err != nil {
-			return nil, false, nil, nil, nil, err
-		}
-		hashes = append(hashes, keys.hash(study, claim))
-		if rows.add(study) > 1 && study != last {
-			interleaved = true
-		}
-		last = study
-	}
-	counts = rows.totals()
-	if interleaved {
-		keys.find(hashes)
-		repeated = keys
-	}
-	return counts, interleaved, repeated, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
-}
-
-// repeatedKeys knows which claim keys (study, claim) of a file more than
-// one row may have: those whose hash more than one row has. Holding every
-// key of a shuffled file of a million rows, to find the few used twice,
-// would take more memory than the rest of its reading; the hashes of the
-// first pass, sorted, take 8 bytes a row for that pass alone.
-type repeatedKeys struct {
-	seed  maphash.Seed
-	twice map[uint64]bool
-}
-
-// hash is the hash of a claim key.
-func (k *repeatedKeys) hash(study, claim string) uint64 {
-	var h maphash.Hash
-	h.SetSeed(k.seed)
-	h.WriteString(study)
-	h.WriteByte(0)
-	h.WriteString(claim)
-	return h.Sum64()
-}
-
-// find keeps the hashes that occur more than once in hashes, which it sorts.
-func (k *repeatedKeys) find(hashes []uint64) {
-	slices.Sort(hashes)
-	k.twice = map[uint64]bool{}
-	for i := 1; i < len(hashes); i++ {
-		if hashes[i] == hashes[i-1] {
-			k.twice[hashes[i]] = true
-		}
-	}
-}
-
-// may reports whether the claim key may be used by more than one row.
-func (k *repeatedKeys) may(study, claim string) bool { return k.twice[k.hash(study, claim)] }
-
-// nextKey returns the study and claim cells of the next row that has
-// either, as Next would read them, without copying or checking the row's
-// cells. A row the CSV
-// parser rejects counts under what could be read of it; if the second pass
-// reads it otherwise, that study is yielded at the end (studyAssembler.unfinished).
-func (p *PairedReader) nextKey() (study, claim string, err error) {
-	cell := func(rec []string, i int) string {
-		if i >= 0 && i < len(rec) {
-			return trimSpace(rec[i])
-		}
-		return ""
-	}
-	for {
-		rec, err := p.src.r.Read()
-		p.src.lim.recordStart = p.src.r.InputOffset() // as fill does
-		var pe *csv.ParseError
-		switch {
-		case err == io.EOF:
-			return "", "", io.EOF
-		case err != nil && !errors.As(err, &pe):
-			return "", "", p.src.readError(err, nil, &p.row)
-		}
-		study, claim = cell(rec, p.claim.study), cell(rec, p.claim.claim)
-		if study != "" || claim != "" || !recordIsBlank(rec) {
-			return study, claim, nil
-		}
-	}
-}
-
-// recordIsBlank reports whether every field of a record is blank, as a blank
-// row is.
-func recordIsBlank(rec []string) bool {
-	for _, f := range rec {
-		if trimSpace(f) != "" {
-			return false
-		}
-	}
-	return true
 }
