@@ -38,10 +38,7 @@ func openSheets(s *inputSheets) (*Source, error) {
 		s.close()
 		return nil, err
 	}
-	claims := 0
-	for _, n := range counts {
-		claims += n
-	}
+	claims := counts.total()
 	src := &Source{Path: s.path, ClaimColumns: extra, problems: append(in.Problems, problems...), closer: closeFunc(s.close),
 		claimRows: claims, coefficientRows: len(held.rows), counted: true}
 	src.studies = func(yield func(*Study, error) bool) {
@@ -135,7 +132,7 @@ func claimSheetProblems(cols *columns, pos Position, rows int) []*CellError {
 
 // countClaims is the first pass over the claims sheet: the claims rows of
 // each study, the claims' unknown columns and the sheet's problems.
-func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*CellError, error) {
+func countClaims(s *inputSheets, sheet string) (rowCounts, []string, []*CellError, error) {
 	counts := rowCounts{}
 	rows := 0
 	cols, err := claimRows(s, sheet, func(rr *rowReading, cc *claimColumns) bool {
@@ -151,13 +148,13 @@ func countClaims(s *inputSheets, sheet string) (map[string]int, []string, []*Cel
 		extra = append(extra, cols.extraNames...)
 	}
 	problems := claimSheetProblems(cols, s.where(sheet), rows)
-	return counts.totals(), extra, problems, nil
+	return counts, extra, problems, nil
 }
 
 // streamClaims is the second pass: it reads the claims rows and yields each
 // study when its last row is read (studyAssembler), then the studies that
 // have rows on the other sheets but no claims.
-func streamClaims(s *inputSheets, sheet string, counts map[string]int, idx *rowIndex, yield func(*Study, error) bool) {
+func streamClaims(s *inputSheets, sheet string, counts rowCounts, idx *rowIndex, yield func(*Study, error) bool) {
 	a := newStudyAssembler(counts)
 	stopped := false
 	_, err := claimRows(s, sheet, func(rr *rowReading, cc *claimColumns) bool {

@@ -25,7 +25,7 @@ import (
 // in parts at once, one per CPU, each from a line end on (countParts):
 // BenchmarkCheckMillionCSV in package report misses its target with the
 // pass read in one piece.
-func countPaired(path string) (counts map[string]int, interleaved bool, repeated *repeatedKeys, extra []string, problems []*CellError, err error) {
+func countPaired(path string) (counts rowCounts, interleaved bool, repeated *repeatedKeys, extra []string, problems []*CellError, err error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, false, nil, nil, nil, err
@@ -52,7 +52,7 @@ func countPaired(path string) (counts map[string]int, interleaved bool, repeated
 		keys.find(total.hashes)
 		repeated = keys
 	}
-	return total.rows.totals(), total.interleaved, repeated, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
+	return total.rows, total.interleaved, repeated, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
 }
 
 // minCountPart is the fewest bytes a part of the first pass has: twice the

@@ -56,10 +56,10 @@ func TestCountPartsAgreesWithOnePiece(t *testing.T) {
 				}
 				t.Fatalf("trial %d, parts %v: %v", trial, bounds, err)
 			}
-			if !maps.Equal(parts.rows.totals(), whole.rows.totals()) || parts.interleaved != whole.interleaved ||
+			if !maps.Equal(countsOf(parts.rows), countsOf(whole.rows)) || parts.interleaved != whole.interleaved ||
 				fmt.Sprint(parts.hashes) != fmt.Sprint(whole.hashes) {
 				t.Fatalf("trial %d, parts %v: counts %v interleaved %v, one piece %v %v\n%s",
-					trial, bounds, parts.rows.totals(), parts.interleaved, whole.rows.totals(), whole.interleaved, text)
+					trial, bounds, countsOf(parts.rows), parts.interleaved, countsOf(whole.rows), whole.interleaved, text)
 			}
 		}
 		if strings.Contains(text, "\"multi\nline\"") && refused == 0 {
@@ -111,4 +111,13 @@ func TestPartBounds(t *testing.T) {
 	if got := partBounds(bytes.NewReader([]byte("no line end at all")), 18, 4); len(got) != 2 {
 		t.Errorf("a file without line ends is cut: %v", got)
 	}
+}
+
+// countsOf reads the counts of a first pass.
+func countsOf(c rowCounts) map[string]int {
+	out := map[string]int{}
+	for k, n := range c {
+		out[k] = *n
+	}
+	return out
 }

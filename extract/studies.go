@@ -107,9 +107,9 @@ func FromInput(in *Input) *Source {
 		claimRows: len(in.Claims), coefficientRows: len(in.Coefficients), counted: true}
 	s.ClaimColumns = unknownClaimColumns(in.Claims)
 	s.studies = func(yield func(*Study, error) bool) {
-		counts := map[string]int{}
+		counts := rowCounts{}
 		for i := range in.Claims {
-			counts[in.Claims[i].Study]++
+			counts.add(in.Claims[i].Study)
 		}
 		a, idx := newStudyAssembler(counts), newRowIndex(in, newInputCoefficients(in.Coefficients))
 		for i := range in.Claims {
@@ -201,10 +201,7 @@ func openPaired(path string) (*Source, error) {
 	if err != nil {
 		return nil, err
 	}
-	total := 0
-	for _, n := range counts {
-		total += n
-	}
+	total := counts.total()
 	s := &Source{Path: path, ClaimColumns: extra, problems: headerProblems,
 		claimRows: total, coefficientRows: 2 * total, counted: true}
 	if total == 0 {
@@ -231,8 +228,8 @@ func openPaired(path string) (*Source, error) {
 	if interleaved {
 		long := map[string]int{} // Studies spends counts
 		for k, n := range counts {
-			if n > MaxFamily {
-				long[k] = n
+			if *n > MaxFamily {
+				long[k] = *n
 			}
 		}
 		s.pieces = func(yield func(*Study, error) bool) { pairedPieces(path, long, repeated, yield) }
