@@ -206,16 +206,16 @@ func relationOf(c1, c2 *extract.Coefficient) string {
 	}
 }
 
-// claim audits one claims row.
-func (a *auditor) claim(cl *extract.Claim) ClaimResult {
-	r := ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Index: cl.Index, Published: cl.Published,
+// claim audits one claims row into r, whose notes start in notes (empty,
+// with room for a claim's usual few).
+func (a *auditor) claim(r *ClaimResult, cl *extract.Claim, notes []string) {
+	*r = ClaimResult{Study: cl.Study, Claim: cl.Claim, Row: cl.Row, Index: cl.Index, Published: cl.Published,
 		Alpha: cl.Alpha, Basis: cl.Basis, Difference: nan, DifferenceSE: nan,
 		DifferenceCI: [2]Number{nan, nan}, Statistic: nan, DF: nan, P: nan, PRange: [2]Number{nan, nan},
 		First: Side{Label: cl.First, Estimate: nan, SE: nan}, Second: Side{Label: cl.Second, Estimate: nan, SE: nan},
-		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: []string{},
+		ExtraNames: cl.Extra.Names, ExtraValues: cl.Extra.Values, Notes: notes,
 		Topic: cl.Topic, PoolEstimate: nan, PoolSE: nan}
-	a.audit(&r, cl)
-	return r
+	a.audit(r, cl)
 }
 
 // audit fills in the claim's result.
