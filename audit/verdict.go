@@ -215,7 +215,6 @@ func (s *outcomeSet) add(o string) {
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 	test := r.testResult(pr)
-	alpha := FormatAlpha(r.Alpha)
 	switch r.Outcome {
 	case Consistent:
 		return "The verdict stands: " + test + "."
@@ -224,11 +223,11 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 			return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but " + test +
 				": within what was not printed the test shows either no difference or the opposite direction, never the published one."
 		}
-		return "The paper reports a difference, but " + test + ", not below α = " + alpha + ": the printed numbers do not show one."
+		return "The paper reports a difference, but " + test + ", not below α = " + FormatAlpha(r.Alpha) + ": the printed numbers do not show one."
 	case Missed:
-		return "The paper reports no difference, but " + test + ", below α = " + alpha + "."
+		return "The paper reports no difference, but " + test + ", below α = " + FormatAlpha(r.Alpha) + "."
 	case Reversed:
-		return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but the test shows the opposite direction at α = " + alpha + ": " + test + "."
+		return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but the test shows the opposite direction at α = " + FormatAlpha(r.Alpha) + ": " + test + "."
 	case Indeterminate:
 		return "The verdict cannot be decided: " + test + "."
 	case Conflict:
@@ -241,9 +240,9 @@ func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
 // and its interval, or the range of p when there is no point p.
 func (r *ClaimResult) testResult(pr infer.Range) string {
 	if r.P.Known() {
-		return fmt.Sprintf("the test of the difference gives %s (%s)", PStatement(float64(r.P)), r.DifferenceText())
+		return "the test of the difference gives " + PStatement(float64(r.P)) + " (" + r.DifferenceText() + ")"
 	}
-	return fmt.Sprintf("the %s has p %s", r.DifferenceText(), PSpan(pr.Lo, pr.Hi))
+	return "the " + r.DifferenceText() + " has p " + PSpan(pr.Lo, pr.Hi)
 }
 
 // directionWords says which estimate is ahead in direction dir, in the
@@ -285,10 +284,11 @@ func FormatP(p float64) string {
 
 // PStatement writes "p = .043", "p < .001" or "p > .999".
 func PStatement(p float64) string {
-	if s := FormatP(p); strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
+	s := FormatP(p)
+	if strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
 		return "p " + s
 	}
-	return "p = " + FormatP(p)
+	return "p = " + s
 }
 
 // FormatAlpha writes a significance level as given (0.05).
