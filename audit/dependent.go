@@ -25,7 +25,7 @@ const undetermined = "undetermined"
 // do not give: the table may still test the claim, and otherwise it is
 // incomplete with those notes.
 func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, missingSE []string) {
-	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	src := a.corrOf(c1.Study, c1.Group)
 	if msg := src.contradictionFor(r); msg != "" {
 		r.Notes = append(r.Notes, msg)
 		r.conflict = true
@@ -56,7 +56,7 @@ func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.C
 // of one sample whatever its printed SEs: dependent correlations, or two
 // coefficients of one regression rebuilt from the table.
 func (a *auditor) tableMayTest(r *ClaimResult, c1, c2 *extract.Coefficient) bool {
-	if r.Relation == Independent || a.corr[sampleKey(c1.Study, c1.Group)] == nil ||
+	if r.Relation == Independent || a.corrOf(c1.Study, c1.Group) == nil ||
 		!c1.Estimate.IsExact() || !c2.Estimate.IsExact() {
 		return false
 	}
@@ -151,7 +151,7 @@ func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, r
 		need += ", or the correlation table of the model's variables with SDs and n"
 	}
 	settle := need + " would settle it"
-	if src := a.corr[sampleKey(c1.Study, c1.Group)]; src != nil {
+	if src := a.corrOf(c1.Study, c1.Group); src != nil {
 		settle = fmt.Sprintf("%s is printed but could not be used for this claim (see above); %s would settle it", src.what(), need)
 	} else if others := a.otherSamples(c1.Study); len(others) > 0 {
 		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q would settle it", strings.Join(others, "; "), need, c1.Group)

@@ -51,7 +51,7 @@ func (a *auditor) tippingOf(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc
 // (regress.CoefficientCorrelation), and the table's name; NaN when the
 // table does not give every predictor of the model.
 func (a *auditor) impliedEstimateCorr(r *ClaimResult, c1, c2 *extract.Coefficient) (float64, string) {
-	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	src := a.corrOf(c1.Study, c1.Group)
 	if src == nil || r.Relation != SameModel || !extract.IsRegressionMeasure(r.Measure) {
 		return math.NaN(), ""
 	}
