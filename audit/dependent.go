@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 
 	"coefaudit/extract"
@@ -159,9 +160,9 @@ func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, r
 	// The study is on the claim's row in every report; the group is not.
 	sample := "One sample"
 	if c1.Group != "" {
-		sample = fmt.Sprintf("One sample (group %q)", c1.Group)
+		sample = "One sample (group " + strconv.Quote(c1.Group) + ")" // as %q writes it
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("%s, covariance not printed: p is taken over every admissible correlation of the two estimates; %s.", sample, settle))
+	r.Notes = append(r.Notes, sample+", covariance not printed: p is taken over every admissible correlation of the two estimates; "+settle+".")
 	if c1.Group == "" && c1.Sheet != "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
@@ -182,8 +181,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges %s, on both sides of α = %s: the verdict turns on what was not printed.",
-			dc.how.phrase(), PSpan(pr.Lo, pr.Hi), FormatAlpha(r.Alpha)))
+		r.Notes = append(r.Notes, dc.how.phrase()+" ranges "+PSpan(pr.Lo, pr.Hi)+", on both sides of α = "+FormatAlpha(r.Alpha)+": the verdict turns on what was not printed.")
 		if r.hasTip {
 			r.TippingCorr = []Number{Number(r.tip.rho)}
 			r.Notes = append(r.Notes, r.tip.note(r))
