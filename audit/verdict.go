@@ -212,35 +212,37 @@ func (s *outcomeSet) add(o string) {
 }
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
-	test := r.testResult(pr)
 	switch r.Outcome {
 	case Consistent:
-		return "The verdict stands: " + test + "."
+		return r.testResult(pr, "The verdict stands: ", ".")
 	case Unsupported:
 		if !r.P.Known() && pr.Lo < r.Alpha {
-			return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but " + test +
-				": within what was not printed the test shows either no difference or the opposite direction, never the published one."
+			return r.testResult(pr, "The paper says "+r.directionWords(wantedDirection(r.Published))+", but ",
+				": within what was not printed the test shows either no difference or the opposite direction, never the published one.")
 		}
-		return "The paper reports a difference, but " + test + ", not below α = " + FormatAlpha(r.Alpha) + ": the printed numbers do not show one."
+		return r.testResult(pr, "The paper reports a difference, but ", ", not below α = "+FormatAlpha(r.Alpha)+": the printed numbers do not show one.")
 	case Missed:
-		return "The paper reports no difference, but " + test + ", below α = " + FormatAlpha(r.Alpha) + "."
+		return r.testResult(pr, "The paper reports no difference, but ", ", below α = "+FormatAlpha(r.Alpha)+".")
 	case Reversed:
-		return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but the test shows the opposite direction at α = " + FormatAlpha(r.Alpha) + ": " + test + "."
+		return r.testResult(pr, "The paper says "+r.directionWords(wantedDirection(r.Published))+", but the test shows the opposite direction at α = "+FormatAlpha(r.Alpha)+": ", ".")
 	case Indeterminate:
-		return "The verdict cannot be decided: " + test + "."
+		return r.testResult(pr, "The verdict cannot be decided: ", ".")
 	case Conflict:
-		return "Taking the printed numbers at face value, " + test + "; but they contradict each other, so the verdict cannot be checked as printed."
+		return r.testResult(pr, "Taking the printed numbers at face value, ", "; but they contradict each other, so the verdict cannot be checked as printed.")
 	}
-	return capitalize(test) + "."
+	return capitalize(r.testResult(pr, "", "."))
 }
 
-// testResult says what the test of the difference gives: p, the difference
-// and its interval, or the range of p when there is no point p.
-func (r *ClaimResult) testResult(pr infer.Range) string {
+// testResult says what the test of the difference gives, between the
+// words before and after it: p, the difference and its interval, or the
+// range of p when there is no point p. The sentence is one concatenation,
+// so that the test's words are not first built on their own: nearly every
+// claim has such a note (BenchmarkAuditMillion in package report).
+func (r *ClaimResult) testResult(pr infer.Range, before, after string) string {
 	if r.P.Known() {
-		return "the test of the difference gives " + PStatement(float64(r.P)) + " (" + r.DifferenceText() + ")"
+		return before + "the test of the difference gives " + PStatement(float64(r.P)) + " (" + r.DifferenceText() + ")" + after
 	}
-	return "the " + r.DifferenceText() + " has p " + PSpan(pr.Lo, pr.Hi)
+	return before + "the " + r.DifferenceText() + " has p " + PSpan(pr.Lo, pr.Hi) + after
 }
 
 // directionWords says which estimate is ahead in direction dir, in the
