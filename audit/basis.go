@@ -3,6 +3,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"coefaudit/extract"
@@ -49,23 +50,25 @@ func dfOrInf(df float64) float64 {
 }
 
 func significanceSplitNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
-	var own []string
-	for _, rc := range [2]*extract.Reconstructed{rc1, rc2} {
-		switch p, below := ownP(rc); {
-		case below && p <= r.Alpha:
-			own = append(own, fmt.Sprintf("%s: p < %s, significant", rc.Label, formatPBound(p)))
-		case below:
-			own = append(own, fmt.Sprintf("%s: p < %s, not known whether significant", rc.Label, formatPBound(p)))
-		case math.IsNaN(p):
-			own = append(own, rc.Label+": own p not known")
-		case p < r.Alpha:
-			own = append(own, rc.Label+": "+PStatement(p)+", significant")
-		default:
-			own = append(own, rc.Label+": "+PStatement(p)+", not significant")
-		}
-	}
-	return "The paper's verdict rests on one estimate being significant and the other not (here " + strings.Join(own, "; ") +
+	return "The paper's verdict rests on one estimate being significant and the other not (here " + ownSignificance(r, rc1) + "; " + ownSignificance(r, rc2) +
 		"). That does not test their difference: the difference between significant and not significant need not itself be significant (Gelman & Stern 2006). The test of the difference is given instead."
+}
+
+// ownSignificance says an estimate's own p and whether it is significant
+// at the claim's α.
+func ownSignificance(r *ClaimResult, rc *extract.Reconstructed) string {
+	switch p, below := ownP(rc); {
+	case below && p <= r.Alpha:
+		return rc.Label + ": p < " + formatPBound(p) + ", significant"
+	case below:
+		return rc.Label + ": p < " + formatPBound(p) + ", not known whether significant"
+	case math.IsNaN(p):
+		return rc.Label + ": own p not known"
+	case p < r.Alpha:
+		return rc.Label + ": " + PStatement(p) + ", significant"
+	default:
+		return rc.Label + ": " + PStatement(p) + ", not significant"
+	}
 }
 
 // overlapNote reads the two intervals as Cumming & Finch (2005) do and says
@@ -96,14 +99,15 @@ func overlapNote(r *ClaimResult, rc1, rc2 *extract.Reconstructed) string {
 		}
 	}
 	if o.marginRatio > 2 {
-		unmet = append(unmet, fmt.Sprintf("the margins of error differ by a factor of %.2f, more than 2", o.marginRatio))
+		unmet = append(unmet, "the margins of error differ by a factor of "+strconv.FormatFloat(o.marginRatio, 'f', 2, 64)+", more than 2")
 	}
 	conditions := "The rule's conditions hold (independent estimates, n ≥ 10 each, margins within a factor of 2)."
 	if len(unmet) > 0 {
 		conditions = "The rule's conditions do not all hold: " + strings.Join(unmet, "; ") + "."
 	}
-	return fmt.Sprintf("The paper read the overlap of the two intervals. The proportion overlap is %.2f of the mean margin of error, which implies p ≈ %s for independent estimates; the rule of eye (Cumming & Finch 2005) says %s. %s The proper test of the difference decides the outcome.",
-		float64(o.Proportion), FormatP(float64(o.ImpliedP)), rule, conditions)
+	return "The paper read the overlap of the two intervals. The proportion overlap is " + strconv.FormatFloat(float64(o.Proportion), 'f', 2, 64) +
+		" of the mean margin of error, which implies p ≈ " + FormatP(float64(o.ImpliedP)) + " for independent estimates; the rule of eye (Cumming & Finch 2005) says " +
+		rule + ". " + conditions + " The proper test of the difference decides the outcome."
 }
 
 // publishedPNote compares the paper's p for the difference with the

@@ -81,6 +81,17 @@ func (s *corrSource) contradiction() string {
 	return fmt.Sprintf("The correlations in %s are not positive definite (smallest eigenvalue %.3g): no sample can have them all, so the printed numbers contradict each other and no verdict is drawn from them.", s.name, s.minEigen)
 }
 
+// corrOf is the correlation source of a sample, nil when there is none.
+// Most studies print no correlations: their sample's key, which lowers the
+// case of the study's name anew each time, is then not made at all
+// (BenchmarkAuditMillion in package report).
+func (a *auditor) corrOf(study, group string) *corrSource {
+	if len(a.corr) == 0 {
+		return nil
+	}
+	return a.corr[sampleKey(study, group)]
+}
+
 func sampleKey(study, group string) [2]string {
 	return [2]string{strings.ToLower(strings.TrimSpace(study)), strings.ToLower(strings.TrimSpace(group))}
 }
@@ -338,7 +349,7 @@ func (a *auditor) tableContradicts(c *extract.Coefficient) []Problem {
 	if c.Measure != extract.MeasureR || !c.Estimate.IsExact() || c.Outcome == "" || c.Predictor == "" {
 		return nil
 	}
-	src := a.corr[sampleKey(c.Study, c.Group)]
+	src := a.corrOf(c.Study, c.Group)
 	if src == nil {
 		return nil
 	}

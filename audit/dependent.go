@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 
 	"coefaudit/extract"
@@ -25,7 +26,7 @@ const undetermined = "undetermined"
 // do not give: the table may still test the claim, and otherwise it is
 // incomplete with those notes.
 func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.Coefficient, rc1, rc2 *extract.Reconstructed, missingSE []string) {
-	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	src := a.corrOf(c1.Study, c1.Group)
 	if msg := src.contradictionFor(r); msg != "" {
 		r.Notes = append(r.Notes, msg)
 		r.conflict = true
@@ -56,7 +57,7 @@ func (a *auditor) dependent(r *ClaimResult, cl *extract.Claim, c1, c2 *extract.C
 // of one sample whatever its printed SEs: dependent correlations, or two
 // coefficients of one regression rebuilt from the table.
 func (a *auditor) tableMayTest(r *ClaimResult, c1, c2 *extract.Coefficient) bool {
-	if r.Relation == Independent || a.corr[sampleKey(c1.Study, c1.Group)] == nil ||
+	if r.Relation == Independent || a.corrOf(c1.Study, c1.Group) == nil ||
 		!c1.Estimate.IsExact() || !c2.Estimate.IsExact() {
 		return false
 	}
@@ -146,22 +147,26 @@ func (a *auditor) admissible(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, r
 	need := "their sampling correlation"
 	switch {
 	case r.Measure == extract.MeasureR:
-		need += ", or all the correlations among the variables with n"
+		need = "their sampling correlation, or all the correlations among the variables with n"
 	case r.Relation == SameModel:
-		need += ", or the correlation table of the model's variables with SDs and n"
+		need = "their sampling correlation, or the correlation table of the model's variables with SDs and n"
 	}
-	settle := need + " would settle it"
-	if src := a.corr[sampleKey(c1.Study, c1.Group)]; src != nil {
-		settle = fmt.Sprintf("%s is printed but could not be used for this claim (see above); %s would settle it", src.what(), need)
+	// What would settle it, short of the closing " would settle it" that
+	// the note adds: the usual settle is then need itself, not a string
+	// built for each claim (BenchmarkAuditMillion in package report, on
+	// same-sample claims).
+	settle := need
+	if src := a.corrOf(c1.Study, c1.Group); src != nil {
+		settle = fmt.Sprintf("%s is printed but could not be used for this claim (see above); %s", src.what(), need)
 	} else if others := a.otherSamples(c1.Study); len(others) > 0 {
-		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q would settle it", strings.Join(others, "; "), need, c1.Group)
+		settle = fmt.Sprintf("the study's correlations (%s) describe another sample; %s for group %q", strings.Join(others, "; "), need, c1.Group)
 	}
 	// The study is on the claim's row in every report; the group is not.
 	sample := "One sample"
 	if c1.Group != "" {
-		sample = fmt.Sprintf("One sample (group %q)", c1.Group)
+		sample = "One sample (group " + strconv.Quote(c1.Group) + ")" // as %q writes it
 	}
-	r.Notes = append(r.Notes, fmt.Sprintf("%s, covariance not printed: p is taken over every admissible correlation of the two estimates; %s.", sample, settle))
+	r.Notes = append(r.Notes, sample+", covariance not printed: p is taken over every admissible correlation of the two estimates; "+settle+" would settle it.")
 	if c1.Group == "" && c1.Sheet != "" {
 		r.Notes = append(r.Notes, "The group column is blank for both estimates, which reads as one sample; if they come from different samples, give them different groups.")
 	}

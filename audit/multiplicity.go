@@ -10,8 +10,8 @@ import (
 // adjustFamily adds Holm and Benjamini–Hochberg adjusted p-values to every
 // claim of one study that has a p; the family is those claims.
 func adjustFamily(claims []ClaimResult) {
-	var idx []int
-	var p []float64
+	idx := make([]int, 0, len(claims))
+	p := make([]float64, 0, len(claims))
 	for i := range claims {
 		if c := &claims[i]; c.P.Known() && c.decided {
 			idx = append(idx, i)
@@ -23,8 +23,10 @@ func adjustFamily(claims []ClaimResult) {
 	}
 	holm := infer.HolmAdjust(p)
 	bh := infer.BenjaminiHochbergAdjust(p)
+	adjusted := make([]AdjustedPValues, len(idx)) // one allocation for the study's claims
 	for k, i := range idx {
-		claims[i].AdjustedP = &AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
+		adjusted[k] = AdjustedPValues{Holm: Number(holm[k]), BH: Number(bh[k])}
+		claims[i].AdjustedP = &adjusted[k]
 		claims[i].family = len(idx)
 	}
 }

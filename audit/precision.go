@@ -61,8 +61,8 @@ func FormatFixed(x float64, decimals int) string {
 		return s
 	}
 	s := strconv.FormatFloat(x, 'f', decimals, 64)
-	if strings.Trim(s, "-0.") == "" {
-		return strings.TrimPrefix(s, "-")
+	if s[0] == '-' && strings.Trim(s[1:], "0.") == "" {
+		return s[1:]
 	}
 	return s
 }
@@ -173,11 +173,10 @@ const ScaleCorrelation = "correlation"
 // "difference 0.24, 95% CI 0.06 to 0.42".
 func (r *ClaimResult) DifferenceText() string {
 	s := r.Shown()
-	text := s.Name + " " + r.FormatEstimate(s.Estimate)
-	if !math.IsNaN(s.Low) && !math.IsNaN(s.High) {
-		text += ", " + formatLevel(r.Alpha) + "% CI " + r.FormatEstimate(s.Low) + " to " + r.FormatEstimate(s.High)
+	if math.IsNaN(s.Low) || math.IsNaN(s.High) {
+		return s.Name + " " + r.FormatEstimate(s.Estimate)
 	}
-	return text
+	return s.Name + " " + r.FormatEstimate(s.Estimate) + ", " + formatLevel(r.Alpha) + "% CI " + r.FormatEstimate(s.Low) + " to " + r.FormatEstimate(s.High)
 }
 
 // ConfidenceLevel writes the confidence level 100(1 − α) of the claim's

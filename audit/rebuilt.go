@@ -61,10 +61,13 @@ func (res tableResult) ownP() []float64 {
 }
 
 // rebuiltCoef is a claim's coefficient with what its printed numbers give
-// and its index among the rebuilt model's predictors.
+// and its index among the rebuilt model's predictors. It holds rc by
+// value: a pointer here would take every claim's reconstructed
+// coefficients to the heap, the rare claim rebuilt from a table or not
+// (BenchmarkAuditMillion in package report, -benchmem).
 type rebuiltCoef struct {
 	c  *extract.Coefficient
-	rc *extract.Reconstructed
+	rc extract.Reconstructed
 	k  int
 }
 

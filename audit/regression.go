@@ -139,7 +139,7 @@ func (a *auditor) regressionFromTable(r *ClaimResult, c1, c2 *extract.Coefficien
 	if r.reflected {
 		box.reflect(j)
 	}
-	a.checkPrinted(r, src, key, box, rebuiltCoef{c1, rc1, i}, rebuiltCoef{c2, rc2, j})
+	a.checkPrinted(r, src, key, box, rebuiltCoef{c1, *rc1, i}, rebuiltCoef{c2, *rc2, j})
 	return true
 }
 

@@ -51,7 +51,7 @@ func (a *auditor) tippingOf(r *ClaimResult, c1, c2 *extract.Coefficient, rc1, rc
 // (regress.CoefficientCorrelation), and the table's name; NaN when the
 // table does not give every predictor of the model.
 func (a *auditor) impliedEstimateCorr(r *ClaimResult, c1, c2 *extract.Coefficient) (float64, string) {
-	src := a.corr[sampleKey(c1.Study, c1.Group)]
+	src := a.corrOf(c1.Study, c1.Group)
 	if src == nil || r.Relation != SameModel || !extract.IsRegressionMeasure(r.Measure) {
 		return math.NaN(), ""
 	}
@@ -85,8 +85,8 @@ func (tp tipping) note(r *ClaimResult) string {
 	if !tp.above {
 		side, other = "below", "above"
 	}
-	s := fmt.Sprintf("At the printed values the difference is significant at α = %s if the two estimates correlate %s %s, not %s (the tipping correlation).",
-		FormatAlpha(r.Alpha), side, formatTippingCorr(tp.rho), other)
+	s := "At the printed values the difference is significant at α = " + FormatAlpha(r.Alpha) + " if the two estimates correlate " +
+		side + " " + formatTippingCorr(tp.rho) + ", not " + other + " (the tipping correlation)."
 	if math.IsNaN(tp.implied) {
 		return s
 	}
@@ -119,7 +119,7 @@ func formatTippingCorr(x float64) string {
 
 // formatCorr writes a correlation with two decimals, as papers print them.
 func formatCorr(x float64) string {
-	s := fmt.Sprintf("%.2f", x)
+	s := strconv.FormatFloat(x, 'f', 2, 64) // as %.2f writes it
 	if s == "-0.00" {
 		s = "0.00"
 	}

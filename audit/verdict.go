@@ -1,7 +1,6 @@
 package audit
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
@@ -182,8 +181,7 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 	}
 	if seen.n > 1 && seen.has(Consistent) {
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, fmt.Sprintf("%s ranges %s, on both sides of α = %s: the verdict turns on what was not printed.",
-			dc.how.phrase(), PSpan(pr.Lo, pr.Hi), FormatAlpha(r.Alpha)))
+		r.Notes = append(r.Notes, dc.how.phrase()+" ranges "+PSpan(pr.Lo, pr.Hi)+", on both sides of α = "+FormatAlpha(r.Alpha)+": the verdict turns on what was not printed.")
 		if r.hasTip {
 			r.TippingCorr = []Number{Number(r.tip.rho)}
 			r.Notes = append(r.Notes, r.tip.note(r))
@@ -214,36 +212,37 @@ func (s *outcomeSet) add(o string) {
 }
 
 func (r *ClaimResult) outcomeNote(dir int, pr infer.Range) string {
-	test := r.testResult(pr)
-	alpha := FormatAlpha(r.Alpha)
 	switch r.Outcome {
 	case Consistent:
-		return "The verdict stands: " + test + "."
+		return r.testResult(pr, "The verdict stands: ", ".")
 	case Unsupported:
 		if !r.P.Known() && pr.Lo < r.Alpha {
-			return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but " + test +
-				": within what was not printed the test shows either no difference or the opposite direction, never the published one."
+			return r.testResult(pr, "The paper says "+r.directionWords(wantedDirection(r.Published))+", but ",
+				": within what was not printed the test shows either no difference or the opposite direction, never the published one.")
 		}
-		return "The paper reports a difference, but " + test + ", not below α = " + alpha + ": the printed numbers do not show one."
+		return r.testResult(pr, "The paper reports a difference, but ", ", not below α = "+FormatAlpha(r.Alpha)+": the printed numbers do not show one.")
 	case Missed:
-		return "The paper reports no difference, but " + test + ", below α = " + alpha + "."
+		return r.testResult(pr, "The paper reports no difference, but ", ", below α = "+FormatAlpha(r.Alpha)+".")
 	case Reversed:
-		return "The paper says " + r.directionWords(wantedDirection(r.Published)) + ", but the test shows the opposite direction at α = " + alpha + ": " + test + "."
+		return r.testResult(pr, "The paper says "+r.directionWords(wantedDirection(r.Published))+", but the test shows the opposite direction at α = "+FormatAlpha(r.Alpha)+": ", ".")
 	case Indeterminate:
-		return "The verdict cannot be decided: " + test + "."
+		return r.testResult(pr, "The verdict cannot be decided: ", ".")
 	case Conflict:
-		return "Taking the printed numbers at face value, " + test + "; but they contradict each other, so the verdict cannot be checked as printed."
+		return r.testResult(pr, "Taking the printed numbers at face value, ", "; but they contradict each other, so the verdict cannot be checked as printed.")
 	}
-	return capitalize(test) + "."
+	return capitalize(r.testResult(pr, "", "."))
 }
 
-// testResult says what the test of the difference gives: p, the difference
-// and its interval, or the range of p when there is no point p.
-func (r *ClaimResult) testResult(pr infer.Range) string {
+// testResult says what the test of the difference gives, between the
+// words before and after it: p, the difference and its interval, or the
+// range of p when there is no point p. The sentence is one concatenation,
+// so that the test's words are not first built on their own: nearly every
+// claim has such a note (BenchmarkAuditMillion in package report).
+func (r *ClaimResult) testResult(pr infer.Range, before, after string) string {
 	if r.P.Known() {
-		return fmt.Sprintf("the test of the difference gives %s (%s)", PStatement(float64(r.P)), r.DifferenceText())
+		return before + "the test of the difference gives " + PStatement(float64(r.P)) + " (" + r.DifferenceText() + ")" + after
 	}
-	return fmt.Sprintf("the %s has p %s", r.DifferenceText(), PSpan(pr.Lo, pr.Hi))
+	return before + "the " + r.DifferenceText() + " has p " + PSpan(pr.Lo, pr.Hi) + after
 }
 
 // directionWords says which estimate is ahead in direction dir, in the
@@ -285,10 +284,11 @@ func FormatP(p float64) string {
 
 // PStatement writes "p = .043", "p < .001" or "p > .999".
 func PStatement(p float64) string {
-	if s := FormatP(p); strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
+	s := FormatP(p)
+	if strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
 		return "p " + s
 	}
-	return "p = " + FormatP(p)
+	return "p = " + s
 }
 
 // FormatAlpha writes a significance level as given (0.05).

@@ -179,7 +179,7 @@ func StudentTCriticalValue(level, df float64) (float64, error) {
 	if !(level > 0 && level < 1) {
 		return math.NaN(), fmt.Errorf("confidence level %v: %w", level, ErrProbability)
 	}
-	key := criticalKey{level, df}
+	key := criticalKey{math.Float64bits(level), math.Float64bits(df)}
 	if t, ok := criticalValues.Load(key); ok {
 		return t.(float64), nil
 	}
@@ -200,7 +200,11 @@ func StudentTCriticalValue(level, df float64) (float64, error) {
 // with the number of distinct df in the input, not with its rows.
 var criticalValues sync.Map
 
-type criticalKey struct{ level, df float64 }
+// criticalKey is a level and a df as their bits. A key of plain bits is
+// hashed and compared as memory, where float fields are taken one by one
+// (BenchmarkAuditMillion in package report); the two agree on every key
+// stored, which has a level in (0, 1) and a positive df.
+type criticalKey struct{ level, df uint64 }
 
 // ChiSquareUpperTail returns P(X > x) for a chi-square variable with df
 // degrees of freedom, the regularized upper incomplete gamma function
