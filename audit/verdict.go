@@ -105,7 +105,7 @@ func (k rangeKind) phrase() string {
 	case rangeGrid:
 		return "Within the rounding of the printed numbers (evaluated on a grid of their extremes and midpoints) p"
 	case rangeAdmissible:
-		return "Over every admissible correlation of the two estimates and the rounding, p"
+		return "Over every admissible correlation and the rounding, p"
 	}
 	return "Within the rounding of the printed numbers p"
 }
@@ -180,8 +180,15 @@ func (r *ClaimResult) decide(p float64, pr infer.Range) {
 			strings.TrimSuffix(r.directionWords(-want), ".")+"), but the difference is not significant: the paper's direction is not supported, not shown reversed.")
 	}
 	if seen.n > 1 && seen.has(Consistent) {
+		if r.Outcome == Indeterminate {
+			// The verdict note gave p's range already: said once, as
+			// a literature of same-sample claims carries it on every
+			// row.
+			r.Notes = append(r.Notes, dc.how.phrase()+" lies on both sides of α = "+FormatAlpha(r.Alpha)+".")
+		} else {
+			r.Notes = append(r.Notes, dc.how.phrase()+" ranges "+PSpan(pr.Lo, pr.Hi)+", on both sides of α = "+FormatAlpha(r.Alpha)+": the verdict turns on what was not printed.")
+		}
 		r.Outcome = Indeterminate
-		r.Notes = append(r.Notes, dc.how.phrase()+" ranges "+PSpan(pr.Lo, pr.Hi)+", on both sides of α = "+FormatAlpha(r.Alpha)+": the verdict turns on what was not printed.")
 		if r.hasTip {
 			r.TippingCorr = []Number{Number(r.tip.rho)}
 			r.Notes = append(r.Notes, r.tip.note(r))
