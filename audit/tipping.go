@@ -101,29 +101,20 @@ func (tp tipping) note(r *ClaimResult) string {
 		verdict = "significant"
 	}
 	return s + fmt.Sprintf(" The correlation table (%s) gives the model's predictors: for two coefficients of one OLS model the sampling correlation is minus the predictors' partial correlation, here %s (exact for unstandardized coefficients, an approximation for standardized ones), at which the difference is %s.",
-		tp.from, formatCorr(tp.implied), verdict)
+		tp.from, FormatFixed(tp.implied, 2), verdict)
 }
 
-// formatTippingCorr writes a tipping correlation as formatCorr does, but
+// formatTippingCorr writes a tipping correlation with two decimals, but
 // with as many more decimals (up to 6) as it takes to tell it from ±1:
 // two estimates with nearly equal SEs tip near 1, and "above 1.00" would
 // name no correlation at all.
 func formatTippingCorr(x float64) string {
-	s := formatCorr(x)
+	s := FormatFixed(x, 2) // two decimals, as papers print correlations
 	for d := 3; d <= 6 && math.Abs(x) < 1; d++ {
 		if v, _ := strconv.ParseFloat(s, 64); math.Abs(v) < 1 {
 			break
 		}
 		s = strconv.FormatFloat(x, 'f', d, 64)
-	}
-	return s
-}
-
-// formatCorr writes a correlation with two decimals, as papers print them.
-func formatCorr(x float64) string {
-	s := strconv.FormatFloat(x, 'f', 2, 64) // as %.2f writes it
-	if s == "-0.00" {
-		s = "0.00"
 	}
 	return s
 }
