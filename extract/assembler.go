@@ -28,13 +28,7 @@ type studyAssembler struct {
 // newStudyAssembler takes over counts, the claims rows of each study; it
 // spends them as rows come.
 func newStudyAssembler(counts rowCounts) *studyAssembler {
-	a := &studyAssembler{left: counts, long: map[string]int{}, open: map[string]*Study{}}
-	for k, n := range counts {
-		if *n > MaxFamily {
-			a.long[k] = *n
-		}
-	}
-	return a
+	return &studyAssembler{left: counts, long: counts.long(), open: map[string]*Study{}}
 }
 
 // add puts the next claims row, with the coefficients the row itself
@@ -109,6 +103,18 @@ func (c rowCounts) add(study string) int {
 	}
 	*n++
 	return *n
+}
+
+// long returns the totals of the studies longer than MaxFamily, which are
+// cut into blocks.
+func (c rowCounts) long() map[string]int {
+	out := map[string]int{}
+	for k, n := range c {
+		if *n > MaxFamily {
+			out[k] = *n
+		}
+	}
+	return out
 }
 
 // total is the number of rows counted.

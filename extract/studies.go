@@ -226,12 +226,7 @@ func openPaired(path string) (*Source, error) {
 		}
 	}
 	if interleaved {
-		long := map[string]int{} // Studies spends counts
-		for k, n := range counts {
-			if *n > MaxFamily {
-				long[k] = *n
-			}
-		}
+		long := counts.long() // taken now: Studies spends counts
 		s.pieces = func(yield func(*Study, error) bool) { pairedPieces(path, long, repeated, yield) }
 	}
 	return s, nil
