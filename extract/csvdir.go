@@ -139,13 +139,14 @@ type fieldError struct {
 func (e *fieldError) Error() string { return e.err.Error() }
 func (e *fieldError) Unwrap() error { return e.err }
 
-// csvSource streams the rows of one CSV file. It reads with encoding/csv
-// into the rows every input form shares, not into tagged structs with
-// gocarina/gocsv: see BenchmarkPairedFileGocsv for why.
+// csvSource streams the rows of one CSV file. It reads encoding/csv's
+// records (recordReader) into the rows every input form shares, not into
+// tagged structs with gocarina/gocsv: see BenchmarkPairedFileGocsv for
+// why.
 type csvSource struct {
 	file     string
 	lim      *limitReader
-	r        *csv.Reader
+	r        *recordReader
 	closer   io.Closer
 	lastLine int // the line on which the last record ended
 }
@@ -178,18 +179,7 @@ func newCSVSource(r io.Reader, file string, closer io.Closer) (*csvSource, error
 	if why := notText(head); why != "" {
 		return nil, fmt.Errorf("%s %s; save it as CSV UTF-8: %w", file, why, ErrUnsupportedInput)
 	}
-	return &csvSource{file: file, lim: lim, r: newCSVReader(br, sniffDelimiter(head)), closer: closer}, nil
-}
-
-// newCSVReader reads CSV records from r as every csvSource does: strict
-// quotes, ragged rows, records reused.
-func newCSVReader(r io.Reader, comma rune) *csv.Reader {
-	cr := csv.NewReader(r)
-	cr.Comma = comma
-	cr.FieldsPerRecord = -1
-	cr.ReuseRecord = true
-	cr.LazyQuotes = false
-	return cr
+	return &csvSource{file: file, lim: lim, r: newRecordReader(br, sniffDelimiter(head)), closer: closer}, nil
 }
 
 // csvPart reads the records of a part of a CSV file that starts at a line
@@ -198,7 +188,7 @@ func newCSVReader(r io.Reader, comma rune) *csv.Reader {
 // part's start, so that it is used where no position is reported.
 func csvPart(r io.Reader, file string, comma rune) *csvSource {
 	lim := &limitReader{r: &lineEndReader{r: r}, line: 1}
-	return &csvSource{file: file, lim: lim, r: newCSVReader(bufio.NewReaderSize(lim, csvBufferSize), comma)}
+	return &csvSource{file: file, lim: lim, r: newRecordReader(bufio.NewReaderSize(lim, csvBufferSize), comma)}
 }
 
 // notText says why the first bytes of a file are not text, or returns "".
@@ -276,7 +266,7 @@ func (s *csvSource) Next(row *sheetRow) error {
 	if err != nil {
 		return s.readError(err, rec, row)
 	}
-	row.Row, _ = s.r.FieldPos(0)
+	row.Row = s.r.FieldLine(0)
 	return s.fill(rec, row, nil)
 }
 
@@ -314,8 +304,7 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 	row.AfterBlank = s.lastLine > 0 && row.Row > s.lastLine+1
 	s.lastLine = row.Row
 	if n := len(rec); n > 0 && err == nil {
-		line, _ := s.r.FieldPos(n - 1)
-		s.lastLine = line + strings.Count(rec[n-1], "\n")
+		s.lastLine = s.r.FieldLine(n-1) + strings.Count(rec[n-1], "\n")
 	}
 	row.Fields = len(rec)
 	if row.Fields == 0 {
