@@ -266,7 +266,7 @@ func (s *csvSource) Next(row *sheetRow) error {
 	if err != nil {
 		return s.readError(err, rec, row)
 	}
-	row.Row = s.r.FieldLine(0)
+	row.Row = s.r.StartLine()
 	return s.fill(rec, row, nil)
 }
 
@@ -304,7 +304,7 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 	row.AfterBlank = s.lastLine > 0 && row.Row > s.lastLine+1
 	s.lastLine = row.Row
 	if n := len(rec); n > 0 && err == nil {
-		s.lastLine = s.r.FieldLine(n-1) + strings.Count(rec[n-1], "\n")
+		s.lastLine = s.r.EndLine()
 	}
 	row.Fields = len(rec)
 	if row.Fields == 0 {

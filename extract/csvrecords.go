@@ -35,13 +35,10 @@ type recordReader struct {
 	line   int   // lines consumed
 	offset int64 // bytes consumed
 	// csvLines is the number of lines encoding/csv has consumed; its
-	// lines are shifted by line - csvLines when it reads a record.
+	// lines are shifted by shift (line - csvLines) when it reads a record.
 	csvLines int
-	// first and shift place the last record: on one line (the split
-	// lines), or where encoding/csv says, shifted.
-	first int
-	shift int
-	byCSV bool
+	shift    int
+	byCSV    bool // whether encoding/csv read the last record
 }
 
 // newRecordReader reads records from br, whose size must be at least 4096
@@ -84,7 +81,7 @@ func (t *recordReader) Read() ([]string, error) {
 			rec = append(rec, s[:i])
 			s = s[i+1:]
 		}
-		t.rec, t.first, t.byCSV = rec, t.line, false
+		t.rec, t.byCSV = rec, false
 		return rec, nil
 	}
 }
@@ -140,14 +137,17 @@ func (t *recordReader) readByCSV() ([]string, error) {
 	return rec, err
 }
 
-// FieldLine is the line on which field i of the last record starts.
-func (t *recordReader) FieldLine(i int) int {
+// StartLine is the line on which the last record starts.
+func (t *recordReader) StartLine() int {
 	if !t.byCSV {
-		return t.first
+		return t.line // a split line is a record of one line
 	}
-	line, _ := t.csv.FieldPos(i)
+	line, _ := t.csv.FieldPos(0)
 	return line + t.shift
 }
+
+// EndLine is the line on which the last record, read whole, ends.
+func (t *recordReader) EndLine() int { return t.line }
 
 // InputOffset is the number of bytes consumed: the end of the last record.
 func (t *recordReader) InputOffset() int64 { return t.offset }

@@ -13,8 +13,9 @@ import (
 	"testing/iotest"
 )
 
-// readEvent is what one Read gives: the record, its error, its first and
-// last fields' lines (for a record read whole) and the offset after it.
+// readEvent is what one Read gives: the record, its error, the lines on
+// which it starts and ends (for a record read whole) and the offset after
+// it.
 type readEvent struct {
 	rec         []string
 	err         string
@@ -40,9 +41,9 @@ func errText(err error) string {
 }
 
 // readEvents reads records with read until io.EOF; lines gives the lines
-// of the first and last fields of a record read whole, offset the offset
-// after a record.
-func readEvents(read func() ([]string, error), lines func(n int) (first, last int), offset func() int64) []readEvent {
+// on which a record read whole starts and ends, offset the offset after a
+// record.
+func readEvents(read func() ([]string, error), lines func(rec []string) (start, end int), offset func() int64) []readEvent {
 	var out []readEvent
 	for {
 		rec, err := read()
@@ -51,7 +52,7 @@ func readEvents(read func() ([]string, error), lines func(n int) (first, last in
 		}
 		e := readEvent{rec: slices.Clone(rec), err: errText(err), offset: offset()}
 		if err == nil {
-			e.first, e.last = lines(len(rec))
+			e.first, e.last = lines(rec)
 		}
 		out = append(out, e)
 		if len(out) > 1<<20 {
@@ -65,10 +66,10 @@ func readEvents(read func() ([]string, error), lines func(n int) (first, last in
 func encodingCSVEvents(text string, comma rune) []readEvent {
 	r := csv.NewReader(strings.NewReader(text))
 	r.Comma, r.FieldsPerRecord, r.ReuseRecord = comma, -1, true
-	return readEvents(r.Read, func(n int) (int, int) {
-		first, _ := r.FieldPos(0)
-		last, _ := r.FieldPos(n - 1)
-		return first, last
+	return readEvents(r.Read, func(rec []string) (int, int) {
+		start, _ := r.FieldPos(0)
+		last, _ := r.FieldPos(len(rec) - 1)
+		return start, last + strings.Count(rec[len(rec)-1], "\n")
 	}, r.InputOffset)
 }
 
@@ -76,7 +77,7 @@ func encodingCSVEvents(text string, comma rune) []readEvent {
 // encoding/csv allows, the stream delivered in pieces by wrap.
 func recordReaderEvents(text string, comma rune, wrap func(io.Reader) io.Reader) []readEvent {
 	r := newRecordReader(bufio.NewReaderSize(wrap(strings.NewReader(text)), 4096), comma)
-	return readEvents(r.Read, func(n int) (int, int) { return r.FieldLine(0), r.FieldLine(n - 1) }, r.InputOffset)
+	return readEvents(r.Read, func([]string) (int, int) { return r.StartLine(), r.EndLine() }, r.InputOffset)
 }
 
 // checkAgreesWithEncodingCSV fails t when recordReader reads text otherwise
