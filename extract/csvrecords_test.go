@@ -80,6 +80,46 @@ func recordReaderEvents(text string, comma rune, wrap func(io.Reader) io.Reader)
 	return readEvents(r.Read, func([]string) (int, int) { return r.StartLine(), r.EndLine() }, r.InputOffset)
 }
 
+// checkHeadAgreesWithEncodingCSV fails t when recordReader.ReadHead(n)
+// reads text otherwise than encoding/csv does: its head must be the
+// record's first n fields or more (a record encoding/csv reads comes
+// whole), restBlank must say whether the fields after the head are all
+// blank, and lines, offsets and errors must be the same.
+func checkHeadAgreesWithEncodingCSV(t *testing.T, text string, comma rune, n int) {
+	t.Helper()
+	want := encodingCSVEvents(text, comma)
+	for name, wrap := range map[string]func(io.Reader) io.Reader{
+		"whole":    func(r io.Reader) io.Reader { return r },
+		"one byte": iotest.OneByteReader,
+	} {
+		r := newRecordReader(bufio.NewReaderSize(wrap(strings.NewReader(text)), 4096), comma)
+		for i := 0; ; i++ {
+			head, restBlank, err := r.ReadHead(n)
+			if err == io.EOF {
+				if i != len(want) {
+					t.Fatalf("%s, ReadHead(%d) of %q: %d records, want %d", name, n, text, i, len(want))
+				}
+				break
+			}
+			if i >= len(want) {
+				t.Fatalf("%s, ReadHead(%d) of %q: more than %d records", name, n, text, len(want))
+			}
+			w := want[i]
+			g := readEvent{rec: w.rec, err: errText(err), offset: r.InputOffset()}
+			if err == nil {
+				g.first, g.last = r.StartLine(), r.EndLine()
+			}
+			blank := true
+			for _, f := range w.rec[min(len(head), len(w.rec)):] {
+				blank = blank && trimSpace(f) == ""
+			}
+			if g.String() != w.String() || len(head) < min(n, len(w.rec)) || !slices.Equal(head, w.rec[:min(len(head), len(w.rec))]) || restBlank != blank {
+				t.Fatalf("%s, ReadHead(%d), record %d of %q:\n got head %q rest blank %v, %v\nwant %v, rest blank %v", name, n, i, text, head, restBlank, g, w, blank)
+			}
+		}
+	}
+}
+
 // checkAgreesWithEncodingCSV fails t when recordReader reads text otherwise
 // than encoding/csv does, whatever pieces the stream comes in.
 func checkAgreesWithEncodingCSV(t *testing.T, text string, comma rune) {
@@ -133,15 +173,23 @@ func TestRecordReaderAgreesWithEncodingCSV(t *testing.T) {
 		"a,b\"c\nd,e\n", "\"abc\"x,d\ne\n", "a,\"unclosed\nb,c\nd\n", "a,b\r\nc,d\r\n", "a\rb,c\n",
 		"a,b\r", "\"a\"\"b\",c\n", ",\n,,\n", "x,y\n" + strings.Repeat("z", 9000) + ",w\nlast,row\n",
 		"h\n\"" + strings.Repeat("q", 5000) + "\n\"\n1,2\n", "a;b\nc;\"d;e\"\n",
+		// quotes after the first fields, which ReadHead may split around
+		"a,b,\"x, y\"\n", "a,b,\"x\"\"y\",z\n", "a,b,\"x\"y\nc\n", "a,b, \"x\"\nc\n", "a,b,\"open\nclose\",c\nd\n",
+		",,\" \"\n", ",,\"\"\"\"\n", ",, ,\"\",\n", "a,b,\"x\",\n", "a,b,\"\"\n", "a,b,c\"\n", "a,b,\"x\"\r\n",
 	}
 	for _, text := range texts {
 		checkAgreesWithEncodingCSV(t, text, ',')
 		checkAgreesWithEncodingCSV(t, text, ';')
+		for n := range 4 {
+			checkHeadAgreesWithEncodingCSV(t, text, ',', n)
+		}
 	}
 	rng := rand.New(rand.NewPCG(7, 11))
 	for range 3000 {
 		comma := []rune{',', ';', '\t'}[rng.IntN(3)]
-		checkAgreesWithEncodingCSV(t, randomCSV(rng), comma)
+		text := randomCSV(rng)
+		checkAgreesWithEncodingCSV(t, text, comma)
+		checkHeadAgreesWithEncodingCSV(t, text, comma, 1+rng.IntN(3))
 	}
 }
 
@@ -151,5 +199,6 @@ func FuzzRecordReader(f *testing.F) {
 	f.Add("\"x\"y,z\r\n" + strings.Repeat("w", 5000))
 	f.Fuzz(func(t *testing.T, text string) {
 		checkAgreesWithEncodingCSV(t, text, ',')
+		checkHeadAgreesWithEncodingCSV(t, text, ',', 2)
 	})
 }

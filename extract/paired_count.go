@@ -49,7 +49,7 @@ func countPaired(path string) (counts rowCounts, interleaved bool, repeated *rep
 		return nil, false, nil, nil, nil, err
 	}
 	if total.interleaved {
-		keys.find(total.hashes)
+		keys.find(slices.Concat(total.hashes...))
 		repeated = keys
 	}
 	return total.rows, total.interleaved, repeated, slices.Clone(pr.cols.extraNames), pr.Problems(), nil
@@ -106,7 +106,10 @@ func countParts(f io.ReaderAt, path string, bounds []int64, keys *repeatedKeys) 
 	parts := make([]keyCount, len(readers))
 	var wg sync.WaitGroup
 	for k, pr := range readers {
-		wg.Go(func() { parts[k] = countKeys(pr, keys) })
+		// A row of a paired CSV takes 100 bytes or more nearly always (it
+		// has 36 columns), so the hashes of a part seldom outgrow this.
+		rows := int((bounds[k+1] - bounds[k]) / 100)
+		wg.Go(func() { parts[k] = countKeys(pr, keys, rows) })
 	}
 	wg.Wait()
 	total := parts[0]
@@ -126,17 +129,20 @@ func countParts(f io.ReaderAt, path string, bounds []int64, keys *repeatedKeys) 
 // keyCount is what the first pass finds in a part of a paired CSV.
 type keyCount struct {
 	rows        rowCounts
-	hashes      []uint64 // of each row's claim key, in order
-	first, last string   // the studies of the part's first and last rows
-	any         bool     // the part has rows
-	interleaved bool     // a study comes back after another within the part
-	endRejected bool     // the CSV parser rejected the part's last record
+	hashes      [][]uint64 // of each row's claim key, a slice a part
+	first, last string     // the studies of the part's first and last rows
+	any         bool       // the part has rows
+	interleaved bool       // a study comes back after another within the part
+	endRejected bool       // the CSV parser rejected the part's last record
 	err         error
 }
 
-// countKeys counts the rows that pr reads.
-func countKeys(pr *PairedReader, keys *repeatedKeys) keyCount {
-	k := keyCount{rows: rowCounts{}}
+// countKeys counts the rows that pr reads, about rows of them.
+func countKeys(pr *PairedReader, keys *repeatedKeys, rows int) (k keyCount) {
+	k.rows = rowCounts{}
+	hashes := make([]uint64, 0, rows)
+	defer func() { k.hashes = [][]uint64{hashes} }()
+	var lastRows *int // k.last's count
 	for {
 		study, claim, rejected, err := pr.nextKey()
 		if errors.Is(err, io.EOF) {
@@ -148,9 +154,14 @@ func countKeys(pr *PairedReader, keys *repeatedKeys) keyCount {
 			return k
 		}
 		k.endRejected = rejected
-		k.hashes = append(k.hashes, keys.hash(study, claim))
-		if k.rows.add(study) > 1 && study != k.last {
-			k.interleaved = true
+		hashes = append(hashes, keys.hash(study, claim))
+		if k.any && study == k.last {
+			*lastRows++ // one map lookup a study: its rows stand together nearly always
+		} else {
+			if k.rows.add(study) > 1 {
+				k.interleaved = true
+			}
+			lastRows = k.rows[study]
 		}
 		if !k.any {
 			k.first, k.any = strings.Clone(study), true
@@ -234,7 +245,7 @@ func (p *PairedReader) nextKey() (study, claim string, rejected bool, err error)
 	}
 	skipped := false // whether the last blank row skipped was rejected
 	for {
-		rec, err := p.src.r.Read()
+		rec, restBlank, err := p.src.r.ReadHead(max(p.claim.study, p.claim.claim) + 1)
 		p.src.lim.recordStart = p.src.r.InputOffset() // as fill does
 		var pe *csv.ParseError
 		switch {
@@ -244,7 +255,7 @@ func (p *PairedReader) nextKey() (study, claim string, rejected bool, err error)
 			return "", "", false, p.src.readError(err, nil, &p.row)
 		}
 		study, claim = cell(rec, p.claim.study), cell(rec, p.claim.claim)
-		if study != "" || claim != "" || !recordIsBlank(rec) {
+		if study != "" || claim != "" || !restBlank || !recordIsBlank(rec) {
 			return study, claim, pe != nil, nil
 		}
 		skipped = pe != nil
