@@ -185,3 +185,16 @@ func (m perRow) report(b *testing.B, rows int) {
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(rows), "ns/row")
 	b.ReportMetric(float64(m.mallocsSince())/float64(rows), "allocs/row")
 }
+
+// BenchmarkCountPaired runs the first pass over a generated paired CSV of
+// benchPairedRows claims (countPaired): nothing else of a paired CSV's
+// reading starts before it ends, so its time adds to a check's whole.
+func BenchmarkCountPaired(b *testing.B) {
+	path := writeBenchPaired(b, benchPairedRows)
+	for b.Loop() {
+		if _, _, _, _, _, err := countPaired(path); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchPairedRows), "ns/row")
+}
