@@ -80,16 +80,16 @@ type gocsvClaim struct {
 
 func newGocsvClaim(r *audit.ClaimResult) gocsvClaim {
 	row := gocsvClaim{Row: r.Row, Study: safeText(r.Study), Claim: safeText(r.Claim),
-		First: safeText(r.First.Label), FirstEstimate: numberText(r.First.Estimate), FirstSE: numberText(r.First.SE), FirstSEFrom: safeText(r.First.SEFrom),
-		Second: safeText(r.Second.Label), SecondEstimate: numberText(r.Second.Estimate), SecondSE: numberText(r.Second.SE), SecondSEFrom: safeText(r.Second.SEFrom),
+		First: safeText(r.First.Label), FirstEstimate: csvNumber(r.First.Estimate), FirstSE: csvNumber(r.First.SE), FirstSEFrom: safeText(r.First.SEFrom),
+		Second: safeText(r.Second.Label), SecondEstimate: csvNumber(r.Second.Estimate), SecondSE: csvNumber(r.Second.SE), SecondSEFrom: safeText(r.Second.SEFrom),
 		Relation: r.Relation, Method: r.Method, Scale: r.Scale,
-		Difference: numberText(r.Difference), DifferenceSE: numberText(r.DifferenceSE),
-		DifferenceCILow: numberText(r.DifferenceCI[0]), DifferenceCIHigh: numberText(r.DifferenceCI[1]),
-		Statistic: numberText(r.Statistic), DF: numberText(r.DF), P: numberText(r.P), PLow: numberText(r.PRange[0]), PHigh: numberText(r.PRange[1]),
+		Difference: csvNumber(r.Difference), DifferenceSE: csvNumber(r.DifferenceSE),
+		DifferenceCILow: csvNumber(r.DifferenceCI[0]), DifferenceCIHigh: csvNumber(r.DifferenceCI[1]),
+		Statistic: csvNumber(r.Statistic), DF: csvNumber(r.DF), P: csvNumber(r.P), PLow: csvNumber(r.PRange[0]), PHigh: csvNumber(r.PRange[1]),
 		Alpha: strconv.FormatFloat(r.Alpha, 'g', -1, 64), Basis: r.Basis, Published: r.Published, Recomputed: r.Recomputed,
 		Outcome: r.Outcome, Notes: safeText(strings.Join(r.Notes, " | "))}
 	if r.Overlap != nil {
-		row.OverlapP, row.OverlapImpliedP = numberText(r.Overlap.Proportion), numberText(r.Overlap.ImpliedP)
+		row.OverlapP, row.OverlapImpliedP = csvNumber(r.Overlap.Proportion), csvNumber(r.Overlap.ImpliedP)
 	}
 	return row
 }
@@ -150,6 +150,3 @@ func TestGocsvRowMatchesReport(t *testing.T) {
 		t.Errorf("gocsv writes\n%s\nthe report writes\n%s", theirs.String(), ours.String())
 	}
 }
-
-// numberText is a number as the CSV report writes it.
-func numberText(n audit.Number) string { return string(appendCSVNumber(nil, n)) }

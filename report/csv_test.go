@@ -122,10 +122,10 @@ func TestWriteCSVGuardsColumnNames(t *testing.T) {
 // number reading back as the same float64.
 func TestIssue20CSVFullPrecision(t *testing.T) {
 	for _, x := range []float64{0.06362461862197612, 1e-300, -0.2726093727483928, 5.396508455906384e-11, 1.0 / 3} {
-		got := string(appendCSVNumber(nil, audit.Number(x)))
+		got := csvNumber(audit.Number(x))
 		back, err := strconv.ParseFloat(got, 64)
 		if err != nil || back != x {
-			t.Errorf("appendCSVNumber(%v) = %q, which reads back as %v (%v)", x, got, back, err)
+			t.Errorf("csvNumber(%v) = %q, which reads back as %v (%v)", x, got, back, err)
 		}
 	}
 }
