@@ -87,24 +87,13 @@ func (t *recordReader) ReadHead(n int) (head []string, restBlank bool, err error
 func (t *recordReader) read(n int) ([]string, bool, error) {
 	for {
 		line, ok := t.peekLine()
+		end, restBlank := 0, true // where the fields split end
+		if ok {
+			end, restBlank, ok = splitEnd(line[:len(line)-1], byte(t.Comma), n)
+		}
 		if !ok {
 			rec, err := t.readByCSV()
 			return rec, true, err
-		}
-		text := line[:len(line)-1]
-		end, restBlank := len(text), true // where the fields split end
-		if n > 0 {
-			end = nthIndex(text, byte(t.Comma), n)
-		}
-		if q := bytes.IndexByte(text, '"'); q >= 0 && q < end {
-			rec, err := t.readByCSV()
-			return rec, true, err
-		}
-		if end < len(text) {
-			if restBlank, ok = restFields(text[end+1:], byte(t.Comma)); !ok {
-				rec, err := t.readByCSV()
-				return rec, true, err
-			}
 		}
 		t.line++
 		t.offset += int64(len(line))
@@ -112,7 +101,7 @@ func (t *recordReader) read(n int) ([]string, bool, error) {
 			_, _ = t.br.Discard(1)
 			continue
 		}
-		s := string(text[:end])
+		s := string(line[:end])
 		_, _ = t.br.Discard(len(line))
 		rec := t.rec[:0]
 		for {
@@ -127,6 +116,26 @@ func (t *recordReader) read(n int) ([]string, bool, error) {
 		t.rec, t.byCSV = rec, false
 		return rec, restBlank, nil
 	}
+}
+
+// splitEnd says where the fields of text, a line without its line end,
+// are to be split to: its end, or its n-th delimiter when n > 0, with
+// whether the rest after that delimiter is blank (restFields); not ok
+// when the line is encoding/csv's to read, for a quote among the fields
+// to split or a rest whose quotes the record may not end with.
+func splitEnd(text []byte, comma byte, n int) (end int, restBlank, ok bool) {
+	end = len(text)
+	if n > 0 {
+		end = nthIndex(text, comma, n)
+	}
+	if bytes.IndexByte(text[:end], '"') >= 0 {
+		return 0, false, false
+	}
+	if end == len(text) {
+		return end, true, true
+	}
+	restBlank, ok = restFields(text[end+1:], comma)
+	return end, restBlank, ok
 }
 
 // nthIndex is the index of the n-th c in b, or len(b) when b has fewer.
@@ -157,17 +166,8 @@ func restFields(b []byte, comma byte) (blank, ok bool) {
 		if q > 0 && b[q-1] != comma {
 			return false, false // a quote inside an unquoted field
 		}
-		i = q + 1
-		for {
-			j := bytes.IndexByte(b[i:], '"')
-			if j < 0 {
-				return false, false // the quote closes on a later line, or never
-			}
-			i += j + 1
-			if i == len(b) || b[i] != '"' {
-				break
-			}
-			i++ // a doubled quote
+		if i = afterQuotedField(b, q); i < 0 {
+			return false, false // the quote closes on a later line, or never
 		}
 		if i < len(b) && b[i] != comma {
 			return false, false // text after the closing quote
@@ -187,20 +187,31 @@ func restFields(b []byte, comma byte) (blank, ok bool) {
 	return fieldsBlank(b, comma), true
 }
 
+// afterQuotedField returns the index just after the quote that closes the
+// quoted field opening at b[open], its doubled quotes skipped, or -1 when
+// b holds no closing quote.
+func afterQuotedField(b []byte, open int) int {
+	i := open + 1
+	for {
+		j := bytes.IndexByte(b[i:], '"')
+		if j < 0 {
+			return -1
+		}
+		i += j + 1
+		if i == len(b) || b[i] != '"' {
+			return i
+		}
+		i++ // a doubled quote
+	}
+}
+
 // fieldsBlank reports whether every field of b, whose quotes restFields
 // has found sound, is spaces only.
 func fieldsBlank(b []byte, comma byte) bool {
 	for len(b) > 0 {
 		var field []byte
 		if b[0] == '"' {
-			i := 1
-			for {
-				i += bytes.IndexByte(b[i:], '"') + 1
-				if i == len(b) || b[i] != '"' {
-					break
-				}
-				i++
-			}
+			i := afterQuotedField(b, 0)
 			// The field's text with its doubled quotes still doubled: as
 			// blank as the field is.
 			field, b = b[1:i-1], b[i:]

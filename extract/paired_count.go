@@ -139,10 +139,8 @@ type keyCount struct {
 }
 
 // countKeys counts the rows that pr reads, about rows of them.
-func countKeys(pr *PairedReader, keys *repeatedKeys, rows int) (k keyCount) {
-	k.rows = rowCounts{}
-	hashes := make([]uint64, 0, rows)
-	defer func() { k.hashes = [][]uint64{hashes} }()
+func countKeys(pr *PairedReader, keys *repeatedKeys, rows int) keyCount {
+	k := keyCount{rows: rowCounts{}, hashes: [][]uint64{make([]uint64, 0, rows)}}
 	var lastRows *int // k.last's count
 	for {
 		study, claim, rejected, err := pr.nextKey()
@@ -155,7 +153,7 @@ func countKeys(pr *PairedReader, keys *repeatedKeys, rows int) (k keyCount) {
 			return k
 		}
 		k.endRejected = rejected
-		hashes = append(hashes, keys.hash(study, claim))
+		k.hashes[0] = append(k.hashes[0], keys.hash(study, claim))
 		if k.any && study == k.last {
 			*lastRows++ // one map lookup a study: its rows stand together nearly always
 		} else {
