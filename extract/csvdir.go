@@ -20,9 +20,9 @@ import (
 // sizes are far above any table a paper prints (common practice, no source).
 //
 // MaxColumns bounds the width of a row, in a CSV file and in a workbook:
-// the row gets a problem and the cells beyond it are dropped (in a
-// workbook, a row with a value beyond it is not read at all, since excelize
-// would build its whole width first). A header beyond it is a problem of
+// the cells beyond it are dropped, and a row with a value beyond it gets a
+// problem (in a workbook, such a row is not read at all, since excelize
+// would build its whole width first); blank cells beyond it lose nothing. A header beyond it is a problem of
 // the sheet. It keeps what one row costs downstream (its unknown columns, a
 // raw-data row's missing values) within what a person could read, whatever
 // the header holds (common practice, no source).
@@ -311,7 +311,10 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 		row.Fields = 1
 	}
 	if len(rec) > MaxColumns {
-		if row.Problem == nil {
+		// Blank fields beyond the limit (a spreadsheet's trailing
+		// separators) lose nothing when dropped: only a value there is a
+		// problem, as in a workbook, and a row of separators stays blank.
+		if row.Problem == nil && !fieldsAllBlank(rec[MaxColumns:]) {
 			row.Problem = fmt.Errorf("the row has %d fields; only the first %d are read: %w", len(rec), MaxColumns, ErrInputTooLarge)
 		}
 		rec = rec[:MaxColumns]
@@ -328,6 +331,17 @@ func (s *csvSource) fill(rec []string, row *sheetRow, err error) error {
 	}
 	row.Cells = cells
 	return nil
+}
+
+// fieldsAllBlank reports whether every field is blank, as a blank cell
+// is read (white space only).
+func fieldsAllBlank(fields []string) bool {
+	for _, f := range fields {
+		if trimSpace(f) != "" {
+			return false
+		}
+	}
+	return true
 }
 
 // badField says why a CSV field cannot be read as text, or returns "": it

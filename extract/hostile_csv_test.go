@@ -156,6 +156,46 @@ func TestHostileWideHeader(t *testing.T) {
 	t.Logf("allocated %d MiB", alloc>>20)
 }
 
+// TestWideRowsBeyondMaxColumns reads coefficient rows wider than
+// MaxColumns. Blank fields beyond it (trailing separators) are dropped
+// with no size problem (the row is still ragged against its header), and
+// a row of nothing but separators is a blank row, read as none; a value
+// beyond it is a size problem of the row, which keeps its first
+// MaxColumns cells.
+func TestWideRowsBeyondMaxColumns(t *testing.T) {
+	const tooWide = "only the first 1024 are read"
+	text := "study,label,estimate,se\n" +
+		"s,a,0.50,0.10" + strings.Repeat(",", MaxColumns+10) + "\n" + // row 2: 1038 fields, trailing separators
+		strings.Repeat(",", MaxColumns+10) + "\n" + // row 3: separators only
+		"s,b,0.20,0.10" + strings.Repeat(",", MaxColumns+5) + "7\n" // row 4: 1033 fields, a value in the last
+	dir := writeFolder(t, map[string][]byte{"coefficients.csv": []byte(text),
+		"claims.csv": []byte("study,claim,first,second,published\ns,c1,a,b,differ\n")})
+	in, err := Read(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows []int
+	for _, c := range in.Coefficients {
+		rows = append(rows, c.Row)
+		switch c.Row {
+		case 2:
+			if hasProblem(c.Problems, ErrInputTooLarge, tooWide) {
+				t.Errorf("row 2 (blank fields beyond column %d): problems%s, want no size problem", MaxColumns, problemTexts(c.Problems))
+			}
+		case 4:
+			if !hasProblem(c.Problems, ErrInputTooLarge, "the row has 1033 fields; "+tooWide) {
+				t.Errorf("row 4 (a value beyond column %d): problems%s, want %q", MaxColumns, problemTexts(c.Problems), tooWide)
+			}
+			if c.Estimate.Value != 0.20 {
+				t.Errorf("row 4 estimate = %v, want 0.20 (its first cells are read)", c.Estimate.Value)
+			}
+		}
+	}
+	if fmt.Sprint(rows) != "[2 4]" {
+		t.Errorf("coefficients on rows %v, want [2 4] (row 3 holds only separators)", rows)
+	}
+}
+
 // TestBrokenCoefficients reads coefficient rows whose content is wrong in
 // ways a reader can see on the row alone. Each must keep its row and carry
 // a problem naming the cell; what only the statistics can see (an estimate
